@@ -1,0 +1,210 @@
+package export
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"sync"
+)
+
+// traceRun is a run of consecutive trace indices [First, First+Count) of the
+// input file. A selection is a list of runs in file order; it stays small
+// (one run per inline at most) whatever the size of the volume.
+type traceRun struct{ First, Count int }
+
+// selectionSize is the number of traces in the runs.
+func selectionSize(runs []traceRun) int {
+	n := 0
+	for _, r := range runs {
+		n += r.Count
+	}
+	return n
+}
+
+// block is one unit of work of the pipeline: a run of consecutive selected
+// traces, their headers, and (after the compute stage) one output section
+// per attribute. Blocks are recycled through a pool so that the input
+// buffers are allocated once per job.
+type block[H any] struct {
+	first   int         // position of the first trace in the selection
+	n       int         // traces used in this block
+	index   []int       // file trace index of each trace
+	headers []H         // trace header of each trace
+	buffers [][]float32 // owned sample buffers, len(buffers) == capacity
+	traces  [][]float32 // samples as returned by read, traces[:n]
+	outs    [][][]float32
+}
+
+// pipeline streams the selected traces of a volume through three stages
+// running at the same time: a reader that fills blocks of traces in file
+// order, a compute stage (which itself uses every core), and a writer that
+// hands the outputs to the sinks in trace order. At most inFlight blocks
+// exist at once, so memory is bounded by the block size, not the volume.
+type pipeline[H any] struct {
+	runs        []traceRun
+	samples     int // samples per trace (capacity of each buffer)
+	blockTraces int // traces per block, >= 1
+	inFlight    int // blocks alive at once, >= 1
+
+	// read reads trace i: its header into *h and its samples into dst
+	// (len(dst) == samples), returning the samples.
+	read func(i int, h *H, dst []float32) ([]float32, error)
+	// compute turns a block of input traces into one block of traces per
+	// output, each with len(in) traces.
+	compute func(ctx context.Context, in [][]float32) ([][][]float32, error)
+	// write writes one trace of output o; calls for one output come in
+	// selection order.
+	write func(o int, h *H, samples []float32) error
+	// progress, if not nil, is called by the writer after each block with
+	// the number of traces written for every output so far.
+	progress func(done int)
+}
+
+// run executes the pipeline until every selected trace is written, ctx is
+// cancelled or a stage fails. It returns the first error (ctx.Err() on
+// cancellation). All stage goroutines have ended when run returns.
+func (p *pipeline[H]) run(ctx context.Context) error {
+	if p.blockTraces < 1 || p.inFlight < 1 || p.samples < 1 {
+		return fmt.Errorf("export pipeline: bad sizing: %d traces per block, %d blocks, %d samples", p.blockTraces, p.inFlight, p.samples)
+	}
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+
+	var (
+		errOnce  sync.Once
+		firstErr error
+	)
+	fail := func(err error) {
+		errOnce.Do(func() { firstErr = err })
+		cancel()
+	}
+
+	free := make(chan *block[H], p.inFlight)
+	for range p.inFlight {
+		b := &block[H]{
+			index:   make([]int, p.blockTraces),
+			headers: make([]H, p.blockTraces),
+			buffers: make([][]float32, p.blockTraces),
+			traces:  make([][]float32, p.blockTraces),
+		}
+		for i := range b.buffers {
+			b.buffers[i] = make([]float32, p.samples)
+		}
+		free <- b
+	}
+	toCompute := make(chan *block[H], p.inFlight)
+	toWrite := make(chan *block[H], p.inFlight)
+
+	var wg sync.WaitGroup
+	wg.Add(2)
+	go func() { // reader
+		defer wg.Done()
+		defer close(toCompute)
+		var b *block[H]
+		pos := 0
+		send := func() bool {
+			select {
+			case toCompute <- b:
+				b = nil
+				return true
+			case <-ctx.Done():
+				return false
+			}
+		}
+		for _, r := range p.runs {
+			for i := r.First; i < r.First+r.Count; i++ {
+				if b == nil {
+					select {
+					case b = <-free:
+					case <-ctx.Done():
+						return
+					}
+					b.first, b.n = pos, 0
+				}
+				k := b.n
+				var zero H
+				b.headers[k] = zero
+				tr, err := p.read(i, &b.headers[k], b.buffers[k])
+				if err != nil {
+					fail(err)
+					return
+				}
+				b.index[k], b.traces[k] = i, tr
+				b.n++
+				pos++
+				if b.n == p.blockTraces && !send() {
+					return
+				}
+			}
+		}
+		if b != nil && b.n > 0 {
+			send()
+		}
+	}()
+	go func() { // compute
+		defer wg.Done()
+		defer close(toWrite)
+		for b := range toCompute {
+			if ctx.Err() != nil {
+				continue // drain so the reader never blocks
+			}
+			outs, err := p.compute(ctx, b.traces[:b.n])
+			if err != nil {
+				fail(err)
+				continue
+			}
+			for o, out := range outs {
+				if len(out) != b.n {
+					fail(fmt.Errorf("export pipeline: output %d: %d traces computed for a block of %d", o, len(out), b.n))
+				}
+			}
+			b.outs = outs
+			select {
+			case toWrite <- b:
+			case <-ctx.Done():
+			}
+		}
+	}()
+
+	// writer, in this goroutine
+	done := 0
+	for b := range toWrite {
+		if ctx.Err() != nil {
+			continue
+		}
+		var err error
+	outputs:
+		for o, out := range b.outs {
+			for k := 0; k < b.n; k++ {
+				if err = p.write(o, &b.headers[k], out[k]); err != nil {
+					break outputs
+				}
+			}
+		}
+		if err != nil {
+			fail(err)
+			continue
+		}
+		done += b.n
+		b.outs = nil
+		clear(b.traces) // drop references to slices read may have returned
+		free <- b
+		if p.progress != nil {
+			p.progress(done)
+		}
+	}
+	wg.Wait()
+	if firstErr != nil {
+		return firstErr
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	if total := selectionSize(p.runs); done != total {
+		return fmt.Errorf("export pipeline: %d of %d traces written", done, total)
+	}
+	return nil
+}
+
+// errNoTraces reports an empty selection.
+var errNoTraces = errors.New("no traces selected")

@@ -1,0 +1,188 @@
+package export
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"sync/atomic"
+	"testing"
+)
+
+// fakeHeader stands in for the segy trace header in the pipeline tests.
+type fakeHeader struct{ index int }
+
+// fakeVolume runs the pipeline on an invented volume whose trace i holds
+// i*1000+k at sample k, with two outputs: twice the input and input+1.
+type fakeVolume struct {
+	samples   int
+	read      atomic.Int64 // traces read
+	written   atomic.Int64 // traces written to output 0
+	maxAhead  atomic.Int64 // largest read - written seen by the reader
+	failRead  int          // trace index whose read fails, -1 for none
+	failWrite int          // trace index whose write fails, -1 for none
+	cancelAt  int          // trace index at which read cancels, -1 for none
+	cancel    context.CancelFunc
+	got       [2][]fakeTrace
+}
+
+type fakeTrace struct {
+	index   int
+	samples []float32
+}
+
+func (v *fakeVolume) pipeline(runs []traceRun, blockTraces int) *pipeline[fakeHeader] {
+	return &pipeline[fakeHeader]{
+		runs: runs, samples: v.samples, blockTraces: blockTraces, inFlight: blocksInFlight,
+		read: func(i int, h *fakeHeader, dst []float32) ([]float32, error) {
+			if i == v.failRead {
+				return nil, fmt.Errorf("trace %d: invented read failure", i)
+			}
+			if i == v.cancelAt {
+				v.cancel()
+			}
+			ahead := v.read.Add(1) - v.written.Load()
+			for {
+				m := v.maxAhead.Load()
+				if ahead <= m || v.maxAhead.CompareAndSwap(m, ahead) {
+					break
+				}
+			}
+			h.index = i
+			for k := range dst {
+				dst[k] = float32(i*1000 + k)
+			}
+			return dst, nil
+		},
+		compute: func(ctx context.Context, in [][]float32) ([][][]float32, error) {
+			outs := make([][][]float32, 2)
+			for o := range outs {
+				outs[o] = make([][]float32, len(in))
+				for t, tr := range in {
+					y := make([]float32, len(tr))
+					for k, x := range tr {
+						if o == 0 {
+							y[k] = 2 * x
+						} else {
+							y[k] = x + 1
+						}
+					}
+					outs[o][t] = y
+				}
+			}
+			return outs, nil
+		},
+		write: func(o int, h *fakeHeader, s []float32) error {
+			if h.index == v.failWrite {
+				return fmt.Errorf("trace %d: invented write failure", h.index)
+			}
+			if o == 0 {
+				v.written.Add(1)
+			}
+			v.got[o] = append(v.got[o], fakeTrace{h.index, append([]float32(nil), s...)})
+			return nil
+		},
+	}
+}
+
+func TestPipelineWritesEverySelectedTraceInOrder(t *testing.T) {
+	cases := []struct {
+		name        string
+		runs        []traceRun
+		blockTraces int
+	}{
+		{"one run, blocks divide it", []traceRun{{0, 120}}, 10},
+		{"one run, last block short", []traceRun{{0, 101}}, 7},
+		{"block larger than the volume", []traceRun{{0, 5}}, 64},
+		{"one trace per block", []traceRun{{3, 9}}, 1},
+		{"several runs, blocks straddle them", []traceRun{{2, 5}, {20, 3}, {40, 11}}, 4},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			v := &fakeVolume{samples: 6, failRead: -1, failWrite: -1, cancelAt: -1}
+			p := v.pipeline(c.runs, c.blockTraces)
+			var reports []int
+			p.progress = func(done int) { reports = append(reports, done) }
+			if err := p.run(context.Background()); err != nil {
+				t.Fatal(err)
+			}
+			var want []int
+			for _, r := range c.runs {
+				for i := r.First; i < r.First+r.Count; i++ {
+					want = append(want, i)
+				}
+			}
+			for o := range 2 {
+				if len(v.got[o]) != len(want) {
+					t.Fatalf("output %d: %d traces written, want %d", o, len(v.got[o]), len(want))
+				}
+				for n, tr := range v.got[o] {
+					if tr.index != want[n] {
+						t.Fatalf("output %d: trace %d of the output is input trace %d, want %d", o, n, tr.index, want[n])
+					}
+					for k, y := range tr.samples {
+						x := float32(want[n]*1000 + k)
+						if (o == 0 && y != 2*x) || (o == 1 && y != x+1) {
+							t.Fatalf("output %d trace %d sample %d = %v from input %v", o, n, k, y, x)
+						}
+					}
+				}
+			}
+			if len(reports) == 0 || reports[len(reports)-1] != len(want) {
+				t.Errorf("progress reports %v, want the last to be %d", reports, len(want))
+			}
+			for i := 1; i < len(reports); i++ {
+				if reports[i] <= reports[i-1] {
+					t.Errorf("progress went %d then %d", reports[i-1], reports[i])
+				}
+			}
+			if limit := int64(blocksInFlight * c.blockTraces); v.maxAhead.Load() > limit {
+				t.Errorf("reader ran %d traces ahead of the writer, more than %d blocks of %d", v.maxAhead.Load(), blocksInFlight, c.blockTraces)
+			}
+		})
+	}
+}
+
+func TestPipelineStopsOnFailureAndCancellation(t *testing.T) {
+	cases := []struct {
+		name                          string
+		failRead, failWrite, cancelAt int
+		want                          string
+	}{
+		{"read fails", 57, -1, -1, "trace 57: invented read failure"},
+		{"write fails", -1, 33, -1, "trace 33: invented write failure"},
+		{"cancelled", -1, -1, 64, context.Canceled.Error()},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			v := &fakeVolume{samples: 4, failRead: c.failRead, failWrite: c.failWrite, cancelAt: c.cancelAt}
+			ctx, cancel := context.WithCancel(context.Background())
+			defer cancel()
+			v.cancel = cancel
+			err := v.pipeline([]traceRun{{0, 1000}}, 8).run(ctx)
+			if err == nil || err.Error() != c.want {
+				t.Fatalf("error %v, want %q", err, c.want)
+			}
+			if n := v.read.Load(); n >= 1000 {
+				t.Errorf("%d traces read after the pipeline stopped: it kept going", n)
+			}
+		})
+	}
+}
+
+func TestPipelineComputeErrorAndShortOutput(t *testing.T) {
+	v := &fakeVolume{samples: 4, failRead: -1, failWrite: -1, cancelAt: -1}
+	p := v.pipeline([]traceRun{{0, 100}}, 10)
+	p.compute = func(ctx context.Context, in [][]float32) ([][][]float32, error) {
+		return nil, errors.New("invented compute failure")
+	}
+	if err := p.run(context.Background()); err == nil || err.Error() != "invented compute failure" {
+		t.Errorf("compute failure: error %v", err)
+	}
+	p = v.pipeline([]traceRun{{0, 100}}, 10)
+	p.compute = func(ctx context.Context, in [][]float32) ([][][]float32, error) {
+		return [][][]float32{in[:len(in)-1]}, nil
+	}
+	if err := p.run(context.Background()); err == nil {
+		t.Error("a compute stage returning fewer traces than it was given was not caught")
+	}
+}

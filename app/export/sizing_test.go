@@ -1,0 +1,122 @@
+package export
+
+import (
+	"errors"
+	"testing"
+)
+
+func TestBlockSize(t *testing.T) {
+	cases := []struct {
+		name     string
+		budget   int64
+		samples  int
+		outputs  int
+		cond     bool
+		total    int
+		want     int
+		wantFail bool
+	}{
+		// 256 MiB / ((1501*4*2 + 320) * 3) = 7258 traces, capped by total/16.
+		{"envelope, big volume", 256 << 20, 1501, 1, false, 1_000_000, 7258, false},
+		{"three attributes and conditioning", 256 << 20, 1501, 3, true, 1_000_000, 256 << 20 / ((1501*4*5 + 320) * 3), false},
+		{"small volume cut in 16 blocks", 256 << 20, 1501, 1, false, 16000, 1000, false},
+		{"tiny volume keeps 64 traces a block", 256 << 20, 100, 1, false, 10, 64, false},
+		{"budget for one trace", (1000*4*2 + 320) * 3, 1000, 1, false, 1000, 1, false},
+		{"budget below one trace", (1000*4*2+320)*3 - 1, 1000, 1, false, 1000, 0, true},
+	}
+	for _, c := range cases {
+		got, err := blockSize(c.budget, c.samples, c.outputs, c.cond, c.total)
+		if (err != nil) != c.wantFail || got != c.want {
+			t.Errorf("%s: blockSize = %d, %v; want %d (fail %v)", c.name, got, err, c.want, c.wantFail)
+		}
+	}
+}
+
+func TestParseBytes(t *testing.T) {
+	cases := []struct {
+		in   string
+		want int64
+		fail bool
+	}{
+		{"256M", 256 << 20, false},
+		{"256MiB", 256 << 20, false},
+		{"256mb", 256 << 20, false},
+		{"1G", 1 << 30, false},
+		{"1.5G", 3 << 29, false},
+		{"64k", 64 << 10, false},
+		{"1000000", 1000000, false},
+		{"", 0, true},
+		{"M", 0, true},
+		{"-5M", 0, true},
+		{"0", 0, true},
+		{"12X", 0, true},
+	}
+	for _, c := range cases {
+		got, err := parseBytes(c.in)
+		if (err != nil) != c.fail || got != c.want {
+			t.Errorf("parseBytes(%q) = %d, %v; want %d (fail %v)", c.in, got, err, c.want, c.fail)
+		}
+	}
+}
+
+func TestParseRange(t *testing.T) {
+	cases := []struct {
+		in   string
+		want *Range
+	}{
+		{"100:200", &Range{100, 200}},
+		{" 5 : 5 ", &Range{5, 5}},
+		{"7", &Range{7, 7}},
+		{"-3:4", &Range{-3, 4}},
+		{"200:100", nil},
+		{"a:b", nil},
+		{"1:", nil},
+		{"", nil},
+	}
+	for _, c := range cases {
+		got, err := parseRange(c.in)
+		if c.want == nil {
+			if err == nil {
+				t.Errorf("parseRange(%q) = %v, want an error", c.in, got)
+			}
+			continue
+		}
+		if err != nil || *got != *c.want {
+			t.Errorf("parseRange(%q) = %v, %v; want %v", c.in, got, err, c.want)
+		}
+	}
+}
+
+func TestSelectRuns(t *testing.T) {
+	// An invented inline-sorted grid: inlines 10..13, crosslines 1..5.
+	key := func(i int) (int, int, error) { return 10 + i/5, 1 + i%5, nil }
+	cases := []struct {
+		name    string
+		il, xl  *Range
+		want    []traceRun
+		noTrace bool
+	}{
+		{"whole", nil, nil, []traceRun{{0, 20}}, false},
+		{"inlines", &Range{11, 12}, nil, []traceRun{{5, 10}}, false},
+		{"crosslines", nil, &Range{2, 3}, []traceRun{{1, 2}, {6, 2}, {11, 2}, {16, 2}}, false},
+		{"both", &Range{13, 99}, &Range{5, 5}, []traceRun{{19, 1}}, false},
+		{"outside", &Range{20, 30}, nil, nil, true},
+	}
+	for _, c := range cases {
+		got, err := selectRuns(20, c.il, c.xl, key)
+		if c.noTrace {
+			if !errors.Is(err, errNoTraces) {
+				t.Errorf("%s: error %v, want no traces", c.name, err)
+			}
+			continue
+		}
+		if err != nil || len(got) != len(c.want) {
+			t.Fatalf("%s: runs %v, %v; want %v", c.name, got, err, c.want)
+		}
+		for i := range got {
+			if got[i] != c.want[i] {
+				t.Errorf("%s: runs %v, want %v", c.name, got, c.want)
+			}
+		}
+	}
+}
