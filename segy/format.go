@@ -1,0 +1,163 @@
+package segy
+
+import (
+	"encoding/binary"
+	"math"
+)
+
+// sampleFormat describes one data sample format code of the binary header
+// (bytes 3225-3226). Codes and sizes: SEG-Y revision 1 (2002) section 4,
+// table "Data sample format code", and SEG-Y revision 2.0 (2017) table 2,
+// bytes 3225-3226, which adds 6, 7, 9, 10, 11, 12, 15 and 16.
+type sampleFormat struct {
+	code int
+	size int // bytes per sample
+	name string
+	// decode converts len(dst) samples from src (len(src) >= len(dst)*size).
+	decode func(dst []float32, src []byte, order binary.ByteOrder)
+	// at decodes the single sample starting at src[0].
+	at func(src []byte, order binary.ByteOrder) float32
+}
+
+var sampleFormats = map[int]sampleFormat{
+	1:  {1, 4, "4-byte IBM floating-point", decodeIBM, func(b []byte, o binary.ByteOrder) float32 { return IBMToFloat32(o.Uint32(b)) }},
+	2:  {2, 4, "4-byte two's complement integer", decodeInt32, func(b []byte, o binary.ByteOrder) float32 { return float32(int32(o.Uint32(b))) }},
+	3:  {3, 2, "2-byte two's complement integer", decodeInt16, func(b []byte, o binary.ByteOrder) float32 { return float32(int16(o.Uint16(b))) }},
+	5:  {5, 4, "4-byte IEEE floating-point", decodeIEEE32, func(b []byte, o binary.ByteOrder) float32 { return math.Float32frombits(o.Uint32(b)) }},
+	6:  {6, 8, "8-byte IEEE floating-point", decodeIEEE64, func(b []byte, o binary.ByteOrder) float32 { return float32(math.Float64frombits(o.Uint64(b))) }},
+	7:  {7, 3, "3-byte two's complement integer", decodeInt24, func(b []byte, o binary.ByteOrder) float32 { return float32(int24(b, o)) }},
+	8:  {8, 1, "1-byte two's complement integer", decodeInt8, func(b []byte, o binary.ByteOrder) float32 { return float32(int8(b[0])) }},
+	9:  {9, 8, "8-byte two's complement integer", decodeInt64, func(b []byte, o binary.ByteOrder) float32 { return float32(int64(o.Uint64(b))) }},
+	10: {10, 4, "4-byte unsigned integer", decodeUint32, func(b []byte, o binary.ByteOrder) float32 { return float32(o.Uint32(b)) }},
+	11: {11, 2, "2-byte unsigned integer", decodeUint16, func(b []byte, o binary.ByteOrder) float32 { return float32(o.Uint16(b)) }},
+	12: {12, 8, "8-byte unsigned integer", decodeUint64, func(b []byte, o binary.ByteOrder) float32 { return float32(o.Uint64(b)) }},
+	15: {15, 3, "3-byte unsigned integer", decodeUint24, func(b []byte, o binary.ByteOrder) float32 { return float32(uint24(b, o)) }},
+	16: {16, 1, "1-byte unsigned integer", decodeUint8, func(b []byte, o binary.ByteOrder) float32 { return float32(b[0]) }},
+}
+
+// FormatName returns the standard's description of a sample format code, or
+// "" when quadtrace cannot decode that code (4, fixed point with gain, is
+// obsolete since revision 1 and not supported).
+func FormatName(code int) string { return sampleFormats[code].name }
+
+// FormatSize returns the bytes per sample of a format code, or 0 if unknown.
+func FormatSize(code int) int { return sampleFormats[code].size }
+
+// DecodeSamples converts raw sample bytes of the given format code and byte
+// order ("big" or "little") to float32, writing len(dst) samples. It returns
+// false when the format is unknown or src is too short.
+func DecodeSamples(dst []float32, src []byte, format int, byteOrder string) bool {
+	sf, ok := sampleFormats[format]
+	if !ok || len(src) < len(dst)*sf.size {
+		return false
+	}
+	var o binary.ByteOrder = binary.BigEndian
+	if byteOrder == "little" {
+		o = binary.LittleEndian
+	}
+	sf.decode(dst, src, o)
+	return true
+}
+
+func uint24(b []byte, o binary.ByteOrder) uint32 {
+	if o == binary.ByteOrder(binary.LittleEndian) {
+		return uint32(b[0]) | uint32(b[1])<<8 | uint32(b[2])<<16
+	}
+	return uint32(b[2]) | uint32(b[1])<<8 | uint32(b[0])<<16
+}
+
+func int24(b []byte, o binary.ByteOrder) int32 {
+	return int32(uint24(b, o)<<8) >> 8
+}
+
+func decodeIBM(dst []float32, src []byte, o binary.ByteOrder) {
+	src = src[:len(dst)*4]
+	if o == binary.ByteOrder(binary.BigEndian) {
+		for i := range dst {
+			dst[i] = IBMToFloat32(binary.BigEndian.Uint32(src[4*i:]))
+		}
+		return
+	}
+	for i := range dst {
+		dst[i] = IBMToFloat32(binary.LittleEndian.Uint32(src[4*i:]))
+	}
+}
+
+func decodeIEEE32(dst []float32, src []byte, o binary.ByteOrder) {
+	src = src[:len(dst)*4]
+	if o == binary.ByteOrder(binary.BigEndian) {
+		for i := range dst {
+			dst[i] = math.Float32frombits(binary.BigEndian.Uint32(src[4*i:]))
+		}
+		return
+	}
+	for i := range dst {
+		dst[i] = math.Float32frombits(binary.LittleEndian.Uint32(src[4*i:]))
+	}
+}
+
+func decodeIEEE64(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(math.Float64frombits(o.Uint64(src[8*i:])))
+	}
+}
+
+func decodeInt32(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(int32(o.Uint32(src[4*i:])))
+	}
+}
+
+func decodeInt16(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(int16(o.Uint16(src[2*i:])))
+	}
+}
+
+func decodeInt24(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(int24(src[3*i:], o))
+	}
+}
+
+func decodeInt8(dst []float32, src []byte, _ binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(int8(src[i]))
+	}
+}
+
+func decodeInt64(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(int64(o.Uint64(src[8*i:])))
+	}
+}
+
+func decodeUint32(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(o.Uint32(src[4*i:]))
+	}
+}
+
+func decodeUint16(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(o.Uint16(src[2*i:]))
+	}
+}
+
+func decodeUint64(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(o.Uint64(src[8*i:]))
+	}
+}
+
+func decodeUint24(dst []float32, src []byte, o binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(uint24(src[3*i:], o))
+	}
+}
+
+func decodeUint8(dst []float32, src []byte, _ binary.ByteOrder) {
+	for i := range dst {
+		dst[i] = float32(src[i])
+	}
+}

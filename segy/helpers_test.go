@@ -1,0 +1,45 @@
+package segy
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// corpusDir is ../shared/segy-corpus relative to the project root (see
+// /work/shared/segy-corpus/README.md): open SEG-Y files written by segyio.
+const corpusDir = "../../shared/segy-corpus"
+
+// corpusFile returns the path of a corpus file; it fails under CI=true
+// when the corpus is missing and skips otherwise.
+func corpusFile(t testing.TB, name string) string {
+	t.Helper()
+	p := filepath.Join(corpusDir, name)
+	if _, err := os.Stat(p); err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("segy corpus file %s missing (CI=true): %v", p, err)
+		}
+		t.Skipf("segy corpus file %s missing: %v (set up ../shared/segy-corpus)", p, err)
+	}
+	return p
+}
+
+func openT(t testing.TB, path string, opt Options) *File {
+	t.Helper()
+	f, err := Open(path, opt)
+	if err != nil {
+		t.Fatalf("Open(%s): %v", path, err)
+	}
+	t.Cleanup(func() { f.Close() })
+	return f
+}
+
+func hasWarning(info Info, sub string) bool {
+	for _, w := range info.Warnings {
+		if strings.Contains(w, sub) {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,28 @@
+package segy
+
+import (
+	"os"
+
+	"golang.org/x/sys/unix"
+)
+
+// mapFile maps the whole file read-only. It returns nil (and the caller
+// falls back to ReadAt) when the file is empty, too large for the address
+// space, or the filesystem refuses mmap.
+func mapFile(f *os.File, size int64) []byte {
+	if size <= 0 || int64(int(size)) != size {
+		return nil
+	}
+	data, err := unix.Mmap(int(f.Fd()), 0, int(size), unix.PROT_READ, unix.MAP_SHARED)
+	if err != nil {
+		return nil
+	}
+	return data
+}
+
+func unmapFile(data []byte) error {
+	if data == nil {
+		return nil
+	}
+	return unix.Munmap(data)
+}

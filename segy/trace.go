@@ -1,0 +1,235 @@
+package segy
+
+import (
+	"encoding/binary"
+	"math"
+	"runtime"
+	"sync"
+)
+
+// TraceHeader is one 240-byte trace header with the fields quadtrace uses
+// decoded.
+type TraceHeader struct {
+	Inline, Crossline, Offset int       // from the byte locations of the Options used at Open
+	CDPX, CDPY                float64   // scaled by the coordinate scalar (bytes 71-72) per SEG-Y rev 1 table 3
+	Raw                       [240]byte // in the file's byte order
+	little                    bool      // Raw is little-endian
+}
+
+// Little reports whether Raw is in little-endian byte order.
+func (h TraceHeader) Little() bool { return h.little }
+
+// Int reads the two's-complement integer of width 2 or 4 bytes starting at
+// 1-based byte pos of Raw, in Raw's byte order. It returns 0 for positions
+// outside the header.
+func (h TraceHeader) Int(pos, width int) int {
+	if pos < 1 || pos+width-1 > TraceHeaderSize {
+		return 0
+	}
+	var o binary.ByteOrder = binary.BigEndian
+	if h.little {
+		o = binary.LittleEndian
+	}
+	switch width {
+	case 2:
+		return int(int16(o.Uint16(h.Raw[pos-1:])))
+	case 4:
+		return int(int32(o.Uint32(h.Raw[pos-1:])))
+	}
+	return 0
+}
+
+func (f *File) checkTrace(i int) error {
+	if i < 0 || i >= f.ntraces {
+		return f.errf(i, 0, "no such trace: the file has %d traces", f.ntraces)
+	}
+	return nil
+}
+
+// ReadTrace decodes the samples of trace i (0-based) into dst, which is
+// reused when its capacity suffices, and returns it with length
+// Info().Samples.
+func (f *File) ReadTrace(i int, dst []float32) ([]float32, error) {
+	if err := f.checkTrace(i); err != nil {
+		return dst, err
+	}
+	if cap(dst) < f.samples {
+		dst = make([]float32, f.samples)
+	}
+	dst = dst[:f.samples]
+	off := f.dataStart + int64(i)*f.traceSize + TraceHeaderSize
+	n := f.samples * f.sf.size
+	if f.data != nil {
+		f.sf.decode(dst, f.data[off:off+int64(n)], f.order)
+		return dst, nil
+	}
+	bp := f.getBuf()
+	defer f.bufPool.Put(bp)
+	b, err := f.bytesAt(off, n, *bp)
+	if err != nil {
+		return dst, f.errf(i, off+1, "reading samples: %v", err)
+	}
+	*bp = b[:cap(b)]
+	f.sf.decode(dst, b, f.order)
+	return dst, nil
+}
+
+// TraceHeader returns the header of trace i (0-based).
+func (f *File) TraceHeader(i int) (TraceHeader, error) {
+	var h TraceHeader
+	if err := f.checkTrace(i); err != nil {
+		return h, err
+	}
+	raw, err := f.traceHeaderBytes(i, nil)
+	if err != nil {
+		return h, err
+	}
+	copy(h.Raw[:], raw)
+	h.little = f.order == binary.ByteOrder(binary.LittleEndian)
+	o := f.order
+	h.Inline = int(int32(o.Uint32(raw[f.ilByte-1:])))
+	h.Crossline = int(int32(o.Uint32(raw[f.xlByte-1:])))
+	h.Offset = int(int32(o.Uint32(raw[f.offByte-1:])))
+	sc := i16(raw, thCoordScalar, 1, o)
+	h.CDPX = applyScalar(float64(int32(o.Uint32(raw[f.cxByte-1:]))), sc)
+	h.CDPY = applyScalar(float64(int32(o.Uint32(raw[f.cyByte-1:]))), sc)
+	return h, nil
+}
+
+// TraceIndex returns the index of the trace at (inline, crossline, offset)
+// in the numbering of Info (which may come from fallback bytes, see
+// Info().Warnings). For post-stack files the offset is ignored.
+func (f *File) TraceIndex(inline, crossline, offset int) (int, bool) {
+	g := &f.geo
+	if f.ntraces == 0 {
+		return -1, false
+	}
+	if g.grid == nil {
+		k := [3]int32{int32(inline), int32(crossline), 0}
+		if g.offsets != nil {
+			k[2] = int32(offset)
+		}
+		if int(k[0]) != inline || int(k[1]) != crossline || int(k[2]) != offset && g.offsets != nil {
+			return -1, false
+		}
+		t, ok := g.index[k]
+		return int(t), ok
+	}
+	ili, ok1 := rangeIndex(g.ilR, inline)
+	xli, ok2 := rangeIndex(g.xlR, crossline)
+	oi := f.offIndex(offset)
+	if !ok1 || !ok2 || oi < 0 {
+		return -1, false
+	}
+	t := g.grid[(ili*g.xlR.Count+xli)*max(1, len(g.offsets))+oi]
+	return int(t), t >= 0
+}
+
+func rangeIndex(r Range, v int) (int, bool) {
+	if r.Count == 0 || v < r.Min || v > r.Max || (v-r.Min)%r.Step != 0 {
+		return 0, false
+	}
+	return (v - r.Min) / r.Step, true
+}
+
+// InlineTraces returns the trace indices of one inline ordered by crossline
+// over Info().Crossline (Min..Max by Step), -1 where a trace is missing, or
+// nil when the inline is not in the survey or the layout has no grid. For
+// post-stack files the offset is ignored.
+func (f *File) InlineTraces(inline, offset int) []int {
+	g := &f.geo
+	ili, ok := rangeIndex(g.ilR, inline)
+	oi := f.offIndex(offset)
+	if g.grid == nil || !ok || oi < 0 {
+		return nil
+	}
+	noff := max(1, len(g.offsets))
+	out := make([]int, g.xlR.Count)
+	for j := range out {
+		out[j] = int(g.grid[(ili*g.xlR.Count+j)*noff+oi])
+	}
+	return out
+}
+
+// CrosslineTraces returns the trace indices of one crossline ordered by
+// inline over Info().Inline, -1 where missing; nil as for InlineTraces.
+func (f *File) CrosslineTraces(crossline, offset int) []int {
+	g := &f.geo
+	xli, ok := rangeIndex(g.xlR, crossline)
+	oi := f.offIndex(offset)
+	if g.grid == nil || !ok || oi < 0 {
+		return nil
+	}
+	noff := max(1, len(g.offsets))
+	out := make([]int, g.ilR.Count)
+	for i := range out {
+		out[i] = int(g.grid[(i*g.xlR.Count+xli)*noff+oi])
+	}
+	return out
+}
+
+// TimeSlice returns sample number sample (0-based) of every trace at the
+// given offset as [inline index][crossline index] over Info().Inline and
+// Info().Crossline, NaN where a trace is missing. It reads only the bytes
+// of that one sample from each trace (through the mapping, or one small
+// read per trace without it), never whole traces; work is split over
+// runtime.GOMAXPROCS goroutines.
+func (f *File) TimeSlice(sample, offset int) ([][]float32, error) {
+	g := &f.geo
+	if sample < 0 || sample >= f.samples {
+		return nil, f.errf(-1, 0, "time slice: sample %d outside 0..%d", sample, f.samples-1)
+	}
+	oi := f.offIndex(offset)
+	if g.grid == nil {
+		return nil, f.errf(-1, 0, "time slice: layout %q has no inline/crossline grid", f.info.Layout)
+	}
+	if oi < 0 {
+		return nil, f.errf(-1, 0, "time slice: no offset %d in the file", offset)
+	}
+	nIl, nXl := g.ilR.Count, g.xlR.Count
+	noff := max(1, len(g.offsets))
+	flat := make([]float32, nIl*nXl)
+	out := make([][]float32, nIl)
+	for i := range out {
+		out[i] = flat[i*nXl : (i+1)*nXl : (i+1)*nXl]
+	}
+	sampleOff := int64(TraceHeaderSize) + int64(sample)*int64(f.sf.size)
+	size := f.sf.size
+	workers := min(runtime.GOMAXPROCS(0), max(1, len(flat)/4096))
+	var wg sync.WaitGroup
+	errs := make([]error, workers)
+	chunk := (len(flat) + workers - 1) / workers
+	for w := 0; w < workers; w++ {
+		lo, hi := w*chunk, min(len(flat), (w+1)*chunk)
+		wg.Add(1)
+		go func(w, lo, hi int) {
+			defer wg.Done()
+			var buf [8]byte
+			for c := lo; c < hi; c++ {
+				t := g.grid[c*noff+oi]
+				if t < 0 {
+					flat[c] = float32(math.NaN())
+					continue
+				}
+				pos := f.dataStart + int64(t)*f.traceSize + sampleOff
+				if f.data != nil {
+					flat[c] = f.sf.at(f.data[pos:pos+int64(size)], f.order)
+					continue
+				}
+				b, err := f.bytesAt(pos, size, buf[:])
+				if err != nil {
+					errs[w] = f.errf(int(t), pos+1, "reading sample %d: %v", sample, err)
+					return
+				}
+				flat[c] = f.sf.at(b, f.order)
+			}
+		}(w, lo, hi)
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	return out, nil
+}

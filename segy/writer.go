@@ -1,0 +1,291 @@
+package segy
+
+import (
+	"bufio"
+	"encoding/binary"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+)
+
+// WriteOptions choose the output sample format and textual header.
+type WriteOptions struct {
+	// Format is the sample format code: 0 or 5 = 4-byte IEEE float
+	// (default), 1 = 4-byte IBM float.
+	Format int
+	// TextHeader: "" copies the source's first textual header (or a short
+	// default for CreateNew); otherwise this text, ASCII converted to
+	// EBCDIC, cut or padded to 40 lines of 80 characters.
+	TextHeader string
+}
+
+// NewSpec describes a file written from scratch.
+type NewSpec struct {
+	Samples, IntervalUS int
+	StartMS             float64
+	TextHeader          string
+}
+
+// Writer streams traces to a temporary file in the destination folder and
+// renames it into place on Commit. It writes the SEG-Y revision 1 layout,
+// big-endian, no extended textual headers. A Writer is not safe for
+// concurrent use.
+type Writer struct {
+	dst, tmp string
+	fh       *os.File
+	bw       *bufio.Writer
+	format   int
+	samples  int
+	interval int
+	delayMS  int
+	timeSc   int
+	traces   int
+	buf      []byte
+	done     bool
+}
+
+// Create starts a file with the headers of src: its first textual header
+// (re-encoded as EBCDIC) or opt.TextHeader, and bytes 3201-3260 of its
+// binary header converted to big-endian, with the format code updated,
+// revision 1 (bytes 3501-3502 = 0x0100), fixed-length traces and no
+// extended textual headers. It refuses a destination that is src's own
+// file (same path, symlink or hard link to it).
+func Create(dst string, src *File, opt WriteOptions) (*Writer, error) {
+	if src == nil {
+		return nil, errors.New("segy.Create: nil source file")
+	}
+	if err := refuseInput(dst, src.path); err != nil {
+		return nil, err
+	}
+	bin := make([]byte, BinaryHeaderSize)
+	b, err := src.bytesAt(TextHeaderSize, BinaryHeaderSize, nil)
+	if err != nil {
+		return nil, src.errf(-1, TextHeaderSize+1, "reading binary header: %v", err)
+	}
+	copy(bin[:60], b[:60])
+	if src.order == binary.ByteOrder(binary.LittleEndian) {
+		swapWords(bin, binaryHeaderWords, 3201)
+	}
+	text := opt.TextHeader
+	if text == "" {
+		text = src.info.TextHeaders[0]
+	}
+	delay := 0
+	timeSc := 0
+	if src.ntraces > 0 {
+		if h, err := src.traceHeaderBytes(0, nil); err == nil {
+			delay = i16(h, thDelay, 1, src.order)
+			timeSc = i16(h, thTimeScalar, 1, src.order)
+		}
+	}
+	return newWriter(dst, text, bin, src.samples, src.info.IntervalUS, delay, timeSc, opt)
+}
+
+// CreateNew starts a file from scratch with the given sampling.
+func CreateNew(dst string, spec NewSpec, opt WriteOptions) (*Writer, error) {
+	if spec.Samples <= 0 || spec.Samples > math.MaxUint16 {
+		return nil, fmt.Errorf("segy.CreateNew %s: samples per trace %d outside 1..65535", dst, spec.Samples)
+	}
+	if spec.IntervalUS <= 0 || spec.IntervalUS > math.MaxInt16 {
+		return nil, fmt.Errorf("segy.CreateNew %s: sample interval %d us outside 1..32767", dst, spec.IntervalUS)
+	}
+	text := opt.TextHeader
+	if text == "" {
+		text = spec.TextHeader
+	}
+	if text == "" {
+		text = "C 1 WRITTEN BY QUADTRACE\nC40 END TEXTUAL HEADER"
+	}
+	bin := make([]byte, BinaryHeaderSize)
+	binary.BigEndian.PutUint16(bin[3213-3201:], 1)       // data traces per ensemble
+	binary.BigEndian.PutUint16(bin[3255-3201:], 1)       // measurement system: metres
+	binary.BigEndian.PutUint16(bin[binSorting-3201:], 4) // trace sorting: horizontally stacked
+	delay := int(math.Round(spec.StartMS))
+	return newWriter(dst, text, bin, spec.Samples, spec.IntervalUS, delay, 1, opt)
+}
+
+func newWriter(dst, text string, bin []byte, samples, interval, delay, timeSc int, opt WriteOptions) (*Writer, error) {
+	format := opt.Format
+	if format == 0 {
+		format = 5
+	}
+	if format != 1 && format != 5 {
+		return nil, fmt.Errorf("segy: write %s: sample format %d not supported for writing (1 = IBM, 5 = IEEE)", dst, format)
+	}
+	if samples <= 0 || samples > math.MaxUint16 {
+		return nil, fmt.Errorf("segy: write %s: samples per trace %d outside 1..65535", dst, samples)
+	}
+	if interval > math.MaxInt16 || interval < 0 {
+		interval = 0
+	}
+	o := binary.BigEndian
+	o.PutUint16(bin[binInterval-3201:], uint16(interval))
+	o.PutUint16(bin[3219-3201:], uint16(interval)) // original field interval
+	o.PutUint16(bin[binSamples-3201:], uint16(samples))
+	o.PutUint16(bin[3223-3201:], uint16(samples)) // original field samples
+	o.PutUint16(bin[binFormat-3201:], uint16(format))
+	for i := 3261 - 3201; i < BinaryHeaderSize; i++ {
+		bin[i] = 0
+	}
+	bin[binRevision-3201] = 1 // SEG-Y rev 1: 0x0100
+	o.PutUint16(bin[binFixedLength-3201:], 1)
+	o.PutUint16(bin[binExtTextHeaders-3201:], 0)
+
+	dir := filepath.Dir(dst)
+	fh, err := os.CreateTemp(dir, "."+filepath.Base(dst)+".tmp-*")
+	if err != nil {
+		return nil, fmt.Errorf("segy: write %s: %w", dst, err)
+	}
+	w := &Writer{dst: dst, tmp: fh.Name(), fh: fh, bw: bufio.NewWriterSize(fh, 1<<20),
+		format: format, samples: samples, interval: interval, delayMS: delay, timeSc: timeSc,
+		buf: make([]byte, TraceHeaderSize+4*samples)}
+	if _, err := w.bw.Write(encodeText(text)); err != nil {
+		w.Abort()
+		return nil, fmt.Errorf("segy: write %s: %w", dst, err)
+	}
+	if _, err := w.bw.Write(bin); err != nil {
+		w.Abort()
+		return nil, fmt.Errorf("segy: write %s: %w", dst, err)
+	}
+	return w, nil
+}
+
+// refuseInput fails when dst names the input file, directly, through a
+// symlink, or as another hard link to the same inode.
+func refuseInput(dst, input string) error {
+	same := func(a, b string) bool {
+		if aa, err := filepath.Abs(a); err == nil {
+			if bb, err := filepath.Abs(b); err == nil && aa == bb {
+				return true
+			}
+		}
+		if ra, err := filepath.EvalSymlinks(a); err == nil {
+			if rb, err := filepath.EvalSymlinks(b); err == nil && ra == rb {
+				return true
+			}
+		}
+		sa, err1 := os.Stat(a)
+		sb, err2 := os.Stat(b)
+		return err1 == nil && err2 == nil && os.SameFile(sa, sb)
+	}
+	if same(dst, input) {
+		return fmt.Errorf("segy: refusing to write %s: it is the input file %s", dst, input)
+	}
+	return nil
+}
+
+// NewTraceHeader builds a big-endian revision 1 trace header: inline and
+// crossline at bytes 189/193, the crossline also as the CDP ensemble number
+// (bytes 21-24) so 2D-style readers find a numbering; CDP X/Y at bytes 181/185 with a coordinate scalar
+// (bytes 71-72) of -100 (centimetre precision) when the coordinates are
+// not whole numbers and fit, else 1. Trace identification code (29-30) is 1
+// (seismic data). The writer fills in sample count and interval.
+func NewTraceHeader(inline, crossline int, cdpx, cdpy float64) TraceHeader {
+	var h TraceHeader
+	o := binary.BigEndian
+	r := h.Raw[:]
+	o.PutUint32(r[thInline-1:], uint32(int32(inline)))
+	o.PutUint32(r[thCrossline-1:], uint32(int32(crossline)))
+	o.PutUint32(r[thCDP-1:], uint32(int32(crossline)))
+	o.PutUint16(r[29-1:], 1)
+	scalar := 1
+	whole := cdpx == math.Trunc(cdpx) && cdpy == math.Trunc(cdpy)
+	if !whole && math.Abs(cdpx)*100 < math.MaxInt32 && math.Abs(cdpy)*100 < math.MaxInt32 {
+		scalar = -100
+	}
+	enc := func(v float64) uint32 {
+		if scalar == -100 {
+			v *= 100
+		}
+		v = math.Round(v)
+		v = math.Max(math.MinInt32, math.Min(math.MaxInt32, v))
+		return uint32(int32(v))
+	}
+	o.PutUint16(r[thCoordScalar-1:], uint16(int16(scalar)))
+	o.PutUint32(r[thCDPX-1:], enc(cdpx))
+	o.PutUint32(r[thCDPY-1:], enc(cdpy))
+	h.Inline, h.Crossline = inline, crossline
+	h.CDPX = applyScalar(float64(int32(o.Uint32(r[thCDPX-1:]))), scalar)
+	h.CDPY = applyScalar(float64(int32(o.Uint32(r[thCDPY-1:]))), scalar)
+	return h
+}
+
+// WriteTrace appends one trace. h.Raw is the authoritative header (the
+// decoded fields of h are not consulted): it is converted to big-endian and
+// its sample count (bytes 115-116) and interval (117-118) are set to the
+// file's; a zero delay (109-110) with time scalar is filled from the
+// writer's start time. len(samples) must equal the file's sample count.
+func (w *Writer) WriteTrace(h TraceHeader, samples []float32) error {
+	if w.done {
+		return fmt.Errorf("segy: write %s: writer already committed or aborted", w.dst)
+	}
+	if len(samples) != w.samples {
+		return fmt.Errorf("segy: write %s: trace %d has %d samples, the file has %d", w.dst, w.traces, len(samples), w.samples)
+	}
+	b := w.buf
+	copy(b[:TraceHeaderSize], h.Raw[:])
+	if h.little {
+		swapWords(b[:TraceHeaderSize], traceHeaderWords, 1)
+	}
+	o := binary.BigEndian
+	o.PutUint16(b[thSamples-1:], uint16(w.samples))
+	o.PutUint16(b[thInterval-1:], uint16(w.interval))
+	if int16(o.Uint16(b[thDelay-1:])) == 0 && w.delayMS != 0 {
+		o.PutUint16(b[thDelay-1:], uint16(int16(w.delayMS)))
+		o.PutUint16(b[thTimeScalar-1:], uint16(int16(w.timeSc)))
+	}
+	d := b[TraceHeaderSize:]
+	if w.format == 1 {
+		for i, v := range samples {
+			o.PutUint32(d[4*i:], Float32ToIBM(v))
+		}
+	} else {
+		for i, v := range samples {
+			o.PutUint32(d[4*i:], math.Float32bits(v))
+		}
+	}
+	if _, err := w.bw.Write(b); err != nil {
+		return fmt.Errorf("segy: write %s: trace %d: %w", w.dst, w.traces, err)
+	}
+	w.traces++
+	return nil
+}
+
+// Commit flushes, syncs and renames the temporary file into place.
+func (w *Writer) Commit() error {
+	if w.done {
+		return fmt.Errorf("segy: write %s: writer already committed or aborted", w.dst)
+	}
+	w.done = true
+	err := w.bw.Flush()
+	if err == nil {
+		err = w.fh.Sync()
+	}
+	if cerr := w.fh.Close(); err == nil {
+		err = cerr
+	}
+	if err == nil {
+		err = os.Rename(w.tmp, w.dst)
+	}
+	if err != nil {
+		os.Remove(w.tmp)
+		return fmt.Errorf("segy: write %s: %w", w.dst, err)
+	}
+	return nil
+}
+
+// Abort discards the temporary file. It is safe to call after Commit (it
+// then does nothing).
+func (w *Writer) Abort() error {
+	if w.done {
+		return nil
+	}
+	w.done = true
+	w.fh.Close()
+	if err := os.Remove(w.tmp); err != nil && !os.IsNotExist(err) {
+		return err
+	}
+	return nil
+}
