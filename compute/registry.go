@@ -1,0 +1,228 @@
+package compute
+
+import (
+	"context"
+	"fmt"
+)
+
+// Kind says how an attribute's values behave, so a renderer can pick the
+// palette family: Magnitude (0 upward, sequential), Signed (either side of
+// zero, diverging) or Cyclic (an angle that wraps, cyclic).
+type Kind int
+
+// Attribute kinds.
+const (
+	Magnitude Kind = iota + 1
+	Signed
+	Cyclic
+)
+
+// String returns "magnitude", "signed" or "cyclic".
+func (k Kind) String() string {
+	switch k {
+	case Magnitude:
+		return "magnitude"
+	case Signed:
+		return "signed"
+	case Cyclic:
+		return "cyclic"
+	}
+	return fmt.Sprintf("Kind(%d)", int(k))
+}
+
+// Group collects attributes for listings and menus.
+type Group string
+
+// Attribute groups, in registry order.
+const (
+	GroupAmplitude     Group = "amplitude"
+	GroupInstantaneous Group = "instantaneous"
+	GroupResponse      Group = "response"
+	GroupWeighted      Group = "weighted and spectral"
+	GroupConditioning  Group = "conditioning"
+)
+
+// computeFunc computes an attribute on a validated section.
+type computeFunc func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error)
+
+// Attribute is one entry of the registry: an attribute that maps a Section
+// to a Section of the same shape.
+type Attribute struct {
+	ID, Name, Unit string
+	Kind           Kind
+	Group          Group
+	Description    string // one line
+	Source         string // short citation of the published formula
+	Params         []ParamSpec
+
+	run computeFunc
+}
+
+// Attributes returns the registry in listing order (grouped), as a fresh
+// table each call: callers may change what they get without affecting
+// anyone else.
+func Attributes() []*Attribute { return registry() }
+
+// Lookup returns the attribute with the given id.
+func Lookup(id string) (*Attribute, error) {
+	for _, a := range registry() {
+		if a.ID == id {
+			return a, nil
+		}
+	}
+	return nil, fmt.Errorf("unknown attribute %q", id)
+}
+
+// Compute computes the attribute on a section with all cores. p comes from
+// a.Resolve (the zero Params means all defaults). It stops with ctx.Err()
+// when ctx is cancelled; progress (may be nil) gets finished traces. NaN
+// and Inf samples are gaps: NaN in the output at the same samples.
+func (a *Attribute) Compute(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
+	if p.text == nil {
+		var err error
+		if p, err = a.Resolve(nil); err != nil {
+			return Section{}, err
+		}
+	} else if p.attr != a.ID {
+		return Section{}, fmt.Errorf("attribute %q: parameters were resolved for %q", a.ID, p.attr)
+	}
+	if err := in.validate(); err != nil {
+		return Section{}, fmt.Errorf("attribute %q: %w", a.ID, err)
+	}
+	out, err := a.run(ctx, in, p, progress)
+	if err != nil {
+		return Section{}, fmt.Errorf("attribute %q: %w", a.ID, err)
+	}
+	return out, nil
+}
+
+// Parameter specs shared by several attributes.
+func padParam() ParamSpec {
+	return ParamSpec{Name: "pad", Default: PadFast, Choices: PadModes(),
+		Description: "end treatment of the FFT: none = plain discrete analytic signal (Marple 1999); fast = zero-pad to a 2^a3^b5^c length; double = zero-pad to at least twice the trace"}
+}
+
+func taperParam() ParamSpec {
+	return ParamSpec{Name: "taper", Unit: "ms", Default: "0", Min: 0, Max: 10000,
+		Description: "half-Hann taper on each trace end before the FFT (0 = off)"}
+}
+
+func windowParam(def string) ParamSpec {
+	return ParamSpec{Name: "window", Unit: "ms", Default: def, Min: 4, Max: 10000,
+		Description: "length of the centred sliding window"}
+}
+
+func analyticParams(extra ...ParamSpec) []ParamSpec {
+	return append([]ParamSpec{padParam(), taperParam()}, extra...)
+}
+
+const (
+	srcTaner1979  = "Taner, Koehler and Sheriff (1979), Complex seismic trace analysis, Geophysics 44(6)"
+	srcBarnes1992 = "Barnes (1992), The calculation of instantaneous frequency and instantaneous bandwidth, Geophysics 57(11)"
+	srcBarnes1993 = "Barnes (1993), Instantaneous spectral bandwidth and dominant frequency with applications to seismic reflection data, Geophysics 58(3)"
+	srcBodine1984 = "Bodine (1984), Waveform analysis with seismic attributes, 54th SEG Annual Meeting"
+	srcTaner2001  = "Taner (2001), Seismic attributes, CSEG Recorder 26(7)"
+)
+
+// registry builds the attribute table. It is a function, not a package
+// variable, so there is no global mutable state.
+func registry() []*Attribute {
+	return []*Attribute{
+		// amplitude
+		{ID: "amplitude", Name: "Amplitude", Unit: "amplitude", Kind: Signed, Group: GroupAmplitude,
+			Description: "the input trace unchanged", Source: "the recorded data", run: runAmplitude},
+		{ID: "quadrature", Name: "Quadrature trace", Unit: "amplitude", Kind: Signed, Group: GroupAmplitude,
+			Description: "imaginary part of the analytic trace (Hilbert transform of the trace)", Source: srcTaner1979,
+			Params: analyticParams(), run: sampleAttribute(false, quadratureAt)},
+		{ID: "envelope", Name: "Envelope (reflection strength)", Unit: "amplitude", Kind: Magnitude, Group: GroupAmplitude,
+			Description: "modulus of the analytic trace", Source: srcTaner1979,
+			Params: analyticParams(), run: sampleAttribute(false, envelopeAt)},
+		{ID: "envelope-derivative", Name: "Envelope first derivative", Unit: "amplitude/s", Kind: Signed, Group: GroupAmplitude,
+			Description: "time derivative of the envelope, (x x' + h h')/a", Source: srcTaner1979,
+			Params: analyticParams(), run: sampleAttribute(true, envelopeDerivativeAt)},
+		{ID: "envelope-second-derivative", Name: "Envelope second derivative", Unit: "amplitude/s^2", Kind: Signed, Group: GroupAmplitude,
+			Description: "second time derivative of the envelope, (x'^2 + h'^2 + x x'' + h h'' - a'^2)/a", Source: srcTaner1979,
+			Params: analyticParams(), run: envelopeSecondDerivative},
+		{ID: "apparent-polarity", Name: "Apparent polarity", Unit: "amplitude", Kind: Signed, Group: GroupAmplitude,
+			Description: "envelope peak value signed by the trace at the peak, held over the envelope lobe", Source: srcTaner1979,
+			Params: analyticParams(), run: lobeAttribute(lobePolarity)},
+		{ID: "rms-amplitude", Name: "RMS amplitude", Unit: "amplitude", Kind: Magnitude, Group: GroupAmplitude,
+			Description: "root mean square of the trace over a sliding window", Source: "common practice",
+			Params: []ParamSpec{windowParam("40")}, run: rmsAmplitude},
+		{ID: "relative-impedance", Name: "Relative acoustic impedance", Unit: "amplitude*s", Kind: Signed, Group: GroupAmplitude,
+			Description: "running integral of the trace, low-cut to remove drift", Source: srcTaner2001,
+			Params: []ParamSpec{padParam(), {Name: "low-cut", Unit: "Hz", Default: "6", Min: 0.1, Max: 10000,
+				Description: "half-amplitude point of the one-octave cosine-squared low-cut ramp"}}, run: relativeImpedance},
+
+		// instantaneous
+		{ID: "instantaneous-phase", Name: "Instantaneous phase", Unit: "deg", Kind: Cyclic, Group: GroupInstantaneous,
+			Description: "argument of the analytic trace, -180..180 degrees", Source: srcTaner1979,
+			Params: analyticParams(), run: sampleAttribute(false, phaseAt)},
+		{ID: "cosine-phase", Name: "Cosine of instantaneous phase", Unit: "", Kind: Signed, Group: GroupInstantaneous,
+			Description: "cosine of the instantaneous phase, x/a, in -1..1", Source: srcTaner1979,
+			Params: analyticParams(), run: sampleAttribute(false, cosPhaseAt)},
+		{ID: "instantaneous-frequency", Name: "Instantaneous frequency", Unit: "Hz", Kind: Magnitude, Group: GroupInstantaneous,
+			Description: "phase rate (x h' - h x')/(2 pi a^2), derivatives taken in the frequency domain", Source: srcTaner1979,
+			Params: analyticParams(), run: sampleAttribute(true, frequencyAt)},
+		{ID: "instantaneous-bandwidth", Name: "Instantaneous bandwidth", Unit: "Hz", Kind: Magnitude, Group: GroupInstantaneous,
+			Description: "|a'/a|/(2 pi), the relative rate of change of the envelope", Source: srcBarnes1992,
+			Params: analyticParams(), run: sampleAttribute(true, bandwidthAt)},
+		{ID: "dominant-frequency", Name: "Dominant frequency", Unit: "Hz", Kind: Magnitude, Group: GroupInstantaneous,
+			Description: "sqrt(f^2 + b^2) of instantaneous frequency f and bandwidth b", Source: srcBarnes1993,
+			Params: analyticParams(), run: sampleAttribute(true, dominantAt)},
+		{ID: "thin-bed", Name: "Thin-bed indicator", Unit: "Hz", Kind: Signed, Group: GroupInstantaneous,
+			Description: "instantaneous frequency minus its envelope-weighted average over a window", Source: srcTaner2001,
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(thinBedAt)},
+
+		// response
+		{ID: "response-phase", Name: "Response phase", Unit: "deg", Kind: Cyclic, Group: GroupResponse,
+			Description: "instantaneous phase at the envelope peak, held over the envelope lobe", Source: srcBodine1984,
+			Params: analyticParams(), run: lobeAttribute(lobePhase)},
+		{ID: "response-frequency", Name: "Response frequency", Unit: "Hz", Kind: Magnitude, Group: GroupResponse,
+			Description: "instantaneous frequency at the envelope peak, held over the envelope lobe", Source: srcBodine1984,
+			Params: analyticParams(), run: lobeAttribute(lobeFrequency)},
+		{ID: "response-amplitude", Name: "Response amplitude", Unit: "amplitude", Kind: Magnitude, Group: GroupResponse,
+			Description: "envelope peak value, held over the envelope lobe", Source: srcBodine1984,
+			Params: analyticParams(), run: lobeAttribute(lobeAmplitude)},
+
+		// weighted and spectral
+		{ID: "weighted-frequency", Name: "Weighted average frequency", Unit: "Hz", Kind: Magnitude, Group: GroupWeighted,
+			Description: "instantaneous frequency averaged with envelope-squared weights over a window", Source: srcBarnes1993,
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(weightedFrequencyAt)},
+		{ID: "weighted-bandwidth", Name: "Weighted bandwidth", Unit: "Hz", Kind: Magnitude, Group: GroupWeighted,
+			Description: "envelope-squared-weighted spread of frequency, bandwidth term included, over a window", Source: srcBarnes1993,
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(weightedBandwidthAt)},
+		{ID: "amplitude-weighted-frequency", Name: "Amplitude-weighted frequency", Unit: "Hz", Kind: Magnitude, Group: GroupWeighted,
+			Description: "instantaneous frequency averaged with envelope weights over a window", Source: srcTaner2001,
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(amplitudeWeightedFrequencyAt)},
+		{ID: "amplitude-weighted-cosine-phase", Name: "Amplitude-weighted cosine of phase", Unit: "", Kind: Signed, Group: GroupWeighted,
+			Description: "cosine of phase averaged with envelope weights over a window", Source: srcTaner2001,
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(amplitudeWeightedCosPhaseAt)},
+		{ID: "sweetness", Name: "Sweetness", Unit: "amplitude/sqrt(Hz)", Kind: Magnitude, Group: GroupWeighted,
+			Description: "envelope over the square root of the weighted average frequency", Source: "Radovich and Oliveros (1998), 3-D sequence interpretation of seismic instantaneous attributes from the Gorgon Field, The Leading Edge 17(9)",
+			Params: analyticParams(windowParam("40"), ParamSpec{Name: "min-frequency", Unit: "Hz", Default: "2", Min: 0.01, Max: 10000,
+				Description: "floor under the frequency before the square root, so quiet or low-frequency spots cannot blow up"}),
+			run: windowedAttribute(sweetnessAt)},
+
+		// conditioning
+		{ID: "bandpass", Name: "Zero-phase band-pass", Unit: "amplitude", Kind: Signed, Group: GroupConditioning,
+			Description: "frequency-domain band-pass with one-octave cosine-squared ramps centred on the corners", Source: "common practice",
+			Params: []ParamSpec{
+				{Name: "low-cut", Unit: "Hz", Default: "8", Min: 0, Max: 10000, Description: "half-amplitude low corner (0 = no low-cut)"},
+				{Name: "high-cut", Unit: "Hz", Default: "60", Min: 0, Max: 10000, Description: "half-amplitude high corner (0 = no high-cut)"},
+			}, run: runBandpass},
+		{ID: "agc", Name: "Automatic gain control", Unit: "", Kind: Signed, Group: GroupConditioning,
+			Description: "trace divided by its RMS over a centred sliding window", Source: "common practice",
+			Params: []ParamSpec{{Name: "window", Unit: "ms", Default: "500", Min: 4, Max: 20000, Description: "length of the centred RMS window"}},
+			run: runAGC},
+	}
+}
+
+func runAmplitude(ctx context.Context, in Section, _ Params, progress func(done, total int)) (Section, error) {
+	out := newLike(in)
+	err := forEachTrace(ctx, len(in.Traces), func() struct{} { return struct{}{} }, func(_ struct{}, i int) error {
+		copy(out.Traces[i], in.Traces[i])
+		return nil
+	}, progress)
+	return out, err
+}
