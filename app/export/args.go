@@ -22,6 +22,7 @@ type exportArgs struct {
 	crosslines    *Range
 	budget        int64
 	progress      progressMode
+	quiet         bool   // --quiet: no progress, no list of written paths
 	inlineByte    int    // 0: the reader's default
 	crosslineByte int    // 0: the reader's default
 	byteOrder     string // "", "big" or "little"
@@ -40,7 +41,8 @@ whatever the size of FILE. The written paths are printed on stdout.
 options:
   --attribute ID[,ID...]  attribute ids (see 'quadtrace attributes'); repeatable
   --param NAME=VALUE      set a parameter of every chosen attribute that has it; repeatable
-  --condition SPEC        conditioning applied before the attributes (band-pass, gain)
+  --condition SPEC        conditioning before the attributes: bandpass=LOW-HIGH (Hz), agc=WINDOW (ms),
+                          comma-separated, e.g. bandpass=8-60,agc=500
   --out PATH              destination file or folder
   --format ieee|ibm       sample format of the outputs (default ieee, code 5; ibm is code 1)
   --inlines A:B           export only inlines A to B (inclusive)
@@ -159,7 +161,7 @@ func parseExportArgs(args []string, stderr io.Writer) (*exportArgs, error) {
 	case quiet && progress != "" && progress != string(progressNone):
 		return nil, fmt.Errorf("--quiet and --progress %s contradict each other", progress)
 	case quiet:
-		a.progress = progressNone
+		a.progress, a.quiet = progressNone, true
 	case progress == "":
 		a.progress = progressBar
 	default:

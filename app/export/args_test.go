@@ -32,7 +32,7 @@ func TestParseExportArgs(t *testing.T) {
 				a.condition, a.inlineByte, a.crosslineByte, a.byteOrder = "band:8-60", 9, 21, "little"
 			}), ""},
 		{"quiet", "in.sgy --attribute envelope --out o.sgy --quiet",
-			with(func(a *exportArgs) { a.attributes = []string{"envelope"}; a.progress = progressNone }), ""},
+			with(func(a *exportArgs) { a.attributes = []string{"envelope"}; a.progress, a.quiet = progressNone, true }), ""},
 		{"no file", "--attribute envelope --out o.sgy", exportArgs{}, "no input FILE"},
 		{"two files", "a.sgy b.sgy --attribute envelope --out o.sgy", exportArgs{}, "one input FILE expected"},
 		{"no attribute", "in.sgy --out o.sgy", exportArgs{}, "--attribute"},

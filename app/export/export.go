@@ -1,0 +1,240 @@
+package export
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"quadtrace/compute"
+	"quadtrace/segy"
+)
+
+// stage is one resolved attribute of a job: what it is (for the textual
+// header) and how to compute it on a block of traces.
+type stage struct {
+	id, name string
+	params   string // NAME=VALUE ... as resolved, "" when it has none
+	compute  func(ctx context.Context, in compute.Section) (compute.Section, error)
+}
+
+// conditioner is the resolved conditioning of a job; apply nil means none.
+type conditioner struct {
+	describe string
+	apply    func(ctx context.Context, in compute.Section) (compute.Section, error)
+}
+
+// plan is a job with its attributes and conditioning resolved. runPlan does
+// the work; it is separate from Run so the file handling can be tested with
+// attributes of the test's own making.
+type plan struct {
+	input      string
+	options    segy.Options
+	stages     []stage
+	cond       conditioner
+	output     string
+	format     int
+	inlines    *Range
+	crosslines *Range
+	budget     int64
+}
+
+// runPlan exports the stages of p; see Run for the contract.
+func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []string, err error) {
+	start := time.Now()
+	if len(p.stages) == 0 {
+		return nil, errors.New("export: no attribute chosen")
+	}
+	if p.format == 0 {
+		p.format = 5
+	}
+	if p.format != 1 && p.format != 5 {
+		return nil, fmt.Errorf("export: sample format %d: want 5 (IEEE float) or 1 (IBM float)", p.format)
+	}
+	if p.budget == 0 {
+		p.budget = DefaultBudget
+	}
+	if p.budget < 0 {
+		return nil, fmt.Errorf("export: negative memory budget %d", p.budget)
+	}
+
+	// The input is opened read-only and read with ordinary reads rather
+	// than mapped: a mapping of the whole volume would count in the
+	// process's resident memory as it is read, defeating the budget.
+	fh, err := os.Open(p.input)
+	if err != nil {
+		return nil, fmt.Errorf("export: %w", err)
+	}
+	defer fh.Close()
+	st, err := fh.Stat()
+	if err != nil {
+		return nil, fmt.Errorf("export: %w", err)
+	}
+	if st.IsDir() {
+		return nil, fmt.Errorf("export: %s is a folder, not a SEG-Y file", p.input)
+	}
+	src, err := segy.OpenReaderAt(fh, st.Size(), p.input, p.options)
+	if err != nil {
+		return nil, fmt.Errorf("export: %w", err)
+	}
+	defer src.Close()
+	info := src.Info()
+	if info.Traces == 0 {
+		return nil, fmt.Errorf("export: %s: no traces", p.input)
+	}
+	if info.IntervalUS <= 0 {
+		return nil, fmt.Errorf("export: %s: sample interval unknown (0 in the binary and trace headers)", p.input)
+	}
+
+	dsts, madeDir, err := destinations(p.input, p.output, p.stages)
+	if err != nil {
+		return nil, err
+	}
+	defer func() {
+		if err != nil && madeDir != "" {
+			os.Remove(madeDir) // only succeeds when empty: never takes anything else with it
+		}
+	}()
+
+	runs, err := selectRuns(info.Traces, p.inlines, p.crosslines, func(i int) (int, int, error) {
+		h, err := src.TraceHeader(i)
+		return h.Inline, h.Crossline, err
+	})
+	if err != nil {
+		return nil, fmt.Errorf("export: %s: %w", p.input, err)
+	}
+	total := selectionSize(runs)
+	perBlock, err := blockSize(p.budget, info.Samples, len(p.stages), p.cond.apply != nil, total)
+	if err != nil {
+		return nil, fmt.Errorf("export: %w", err)
+	}
+
+	writers := make([]*segy.Writer, 0, len(p.stages))
+	defer func() {
+		if err != nil {
+			for _, w := range writers {
+				w.Abort()
+			}
+		}
+	}()
+	for k, s := range p.stages {
+		text := textHeader(headerFacts{stage: s, cond: p.cond.describe, input: p.input, info: info,
+			inlines: p.inlines, crosslines: p.crosslines, traces: total, format: p.format})
+		w, err := segy.Create(dsts[k], src, segy.WriteOptions{Format: p.format, TextHeader: text})
+		if err != nil {
+			return nil, fmt.Errorf("export: %w", err)
+		}
+		writers = append(writers, w)
+	}
+
+	dt, t0 := float64(info.IntervalUS)*1e-6, info.StartMS*1e-3
+	inBytes := int64(segy.TraceHeaderSize + info.Samples*segy.FormatSize(info.Format))
+	pl := &pipeline[segy.TraceHeader]{
+		runs: runs, samples: info.Samples, blockTraces: perBlock, inFlight: blocksInFlight,
+		read: func(i int, h *segy.TraceHeader, dst []float32) ([]float32, error) {
+			var err error
+			if *h, err = src.TraceHeader(i); err != nil {
+				return nil, err
+			}
+			return src.ReadTrace(i, dst)
+		},
+		compute: func(ctx context.Context, in [][]float32) ([][][]float32, error) {
+			sec := compute.Section{Traces: in, DT: dt, T0: t0}
+			if p.cond.apply != nil {
+				var err error
+				if sec, err = p.cond.apply(ctx, sec); err != nil {
+					return nil, fmt.Errorf("conditioning %s: %w", p.cond.describe, err)
+				}
+			}
+			outs := make([][][]float32, len(p.stages))
+			for k, s := range p.stages {
+				out, err := s.compute(ctx, sec)
+				if err != nil {
+					return nil, fmt.Errorf("%s: %w", s.id, err)
+				}
+				outs[k] = out.Traces
+			}
+			return outs, nil
+		},
+		write: func(o int, h *segy.TraceHeader, samples []float32) error {
+			return writers[o].WriteTrace(*h, samples)
+		},
+		progress: func(done int) {
+			if progress != nil {
+				progress(Progress{Done: done, Total: total, BytesDone: int64(done) * inBytes, Elapsed: time.Since(start)})
+			}
+		},
+	}
+	if err = pl.run(ctx); err != nil {
+		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+			return nil, err
+		}
+		return nil, fmt.Errorf("export %s: %w", p.input, err)
+	}
+	for k, w := range writers {
+		if err = w.Commit(); err != nil {
+			return dsts[:k], fmt.Errorf("export: %w", err)
+		}
+	}
+	return dsts, nil
+}
+
+// destinations returns the output path of each stage: output itself for a
+// single attribute (or output/<stem>-<id>.sgy when output is an existing
+// folder), and output/<stem>-<id>.sgy for several, creating the folder
+// output when it does not exist (madeDir then names it, for removal on
+// failure). It refuses a destination that is the input file.
+func destinations(input, output string, stages []stage) (dsts []string, madeDir string, err error) {
+	stem := strings.TrimSuffix(filepath.Base(input), filepath.Ext(input))
+	named := func(dir string) []string {
+		out := make([]string, len(stages))
+		for k, s := range stages {
+			out[k] = filepath.Join(dir, stem+"-"+s.id+".sgy")
+		}
+		return out
+	}
+	st, statErr := os.Stat(output)
+	isDir := statErr == nil && st.IsDir()
+	switch {
+	case len(stages) == 1 && !isDir:
+		if strings.HasSuffix(output, string(filepath.Separator)) {
+			return nil, "", fmt.Errorf("export: output folder %s does not exist", output)
+		}
+		dsts = []string{output}
+	case isDir:
+		dsts = named(output)
+	case statErr == nil:
+		return nil, "", fmt.Errorf("export: %d attributes need a folder for --out, and %s is a file", len(stages), output)
+	default:
+		if err := os.Mkdir(output, 0o777); err != nil {
+			return nil, "", fmt.Errorf("export: making output folder: %w", err)
+		}
+		madeDir = output
+		dsts = named(output)
+	}
+	for _, d := range dsts {
+		if sameFile(d, input) {
+			if madeDir != "" {
+				os.Remove(madeDir)
+			}
+			return nil, "", fmt.Errorf("export: refusing to write %s: it is the input file", d)
+		}
+	}
+	return dsts, madeDir, nil
+}
+
+// sameFile reports whether paths a and b name the same file: the same
+// absolute path, or (when both exist) the same inode through links.
+func sameFile(a, b string) bool {
+	aa, err1 := filepath.Abs(a)
+	bb, err2 := filepath.Abs(b)
+	if err1 == nil && err2 == nil && aa == bb {
+		return true
+	}
+	sa, err1 := os.Stat(a)
+	sb, err2 := os.Stat(b)
+	return err1 == nil && err2 == nil && os.SameFile(sa, sb)
+}
