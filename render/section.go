@@ -108,7 +108,7 @@ func DrawMap(dst *image.RGBA, base Layer, overlay *Layer, aspect float64) {
 }
 
 func drawMap(dst *image.RGBA, area image.Rectangle, base Layer, overlay *Layer, aspect float64) {
-	ni, nx := dims(base.Data, true)
+	nx, ni := dims(base.Data, true)
 	r := MapRect(area, ni, nx, aspect).Intersect(dst.Bounds())
 	if r.Empty() {
 		return

@@ -52,9 +52,11 @@ func HeckbertLoose(lo, hi float64, nTicks int) (graphMin, graphMax, spacing floa
 }
 
 // NiceTicks returns tick values at nice numbers inside [lo, hi] (either
-// order), at most maxTicks of them: Heckbert's (1990) loose labelling
-// spacing for maxTicks labels, widened (fewer labels) until no more than
-// maxTicks fall inside the range. Values are multiples of the spacing,
+// order), at most maxTicks of them: the spacing is Heckbert's (1990) loose
+// labelling spacing for n labels, with n counted down from 2*maxTicks+1
+// until no more than maxTicks ticks fall inside the range (asking for more
+// labels than wanted first matters when the range is tight: a request for
+// 4 labels over -1.4..1.4 gives spacing 2 and a single tick). Values are multiples of the spacing,
 // rounded to its decimal places so they print cleanly. A zero-width range
 // gives that one value; non-finite input or maxTicks < 1 gives none.
 func NiceTicks(lo, hi float64, maxTicks int) []float64 {
@@ -67,7 +69,7 @@ func NiceTicks(lo, hi float64, maxTicks int) []float64 {
 	if lo == hi {
 		return []float64{lo}
 	}
-	for n := max(maxTicks, 2); n >= 2; n-- {
+	for n := 2*maxTicks + 1; n >= 2; n-- {
 		_, _, d, _ := HeckbertLoose(lo, hi, n)
 		ticks := ticksInside(lo, hi, d)
 		if len(ticks) <= maxTicks {

@@ -14,9 +14,17 @@ type WiggleStyle struct {
 	// Fill shades the positive lobes between curve and baseline (variable
 	// area).
 	Fill bool
-	// Gain scales the deflection: at Gain 1 a value of max(|Lo|, |Hi|) of
-	// the base layer deflects by one drawn-trace spacing. Gain <= 0 means 1.
+	// Gain scales the deflection: at Gain 1 a value of Clip deflects by one
+	// drawn-trace spacing. Gain <= 0 means 1.
 	Gain float64
+	// Data, if not nil, are the traces drawn as wiggles (Data[trace][sample],
+	// on the same grid as the base layer), e.g. amplitude wiggles over a
+	// phase display; nil draws the base layer's own data.
+	Data [][]float32
+	// Clip is the value that deflects one trace spacing at Gain 1; 0 takes
+	// max(|Lo|, |Hi|) of the base layer when Data is nil, else the largest
+	// |value| of Data.
+	Clip float64
 }
 
 // minWigglePixels is the least spacing in pixels between drawn wiggles;
@@ -44,9 +52,15 @@ func drawWiggles(dst *image.RGBA, r image.Rectangle, base Layer, st WiggleStyle,
 	if !(gain > 0) {
 		gain = 1
 	}
-	clip := math.Max(math.Abs(float64(base.Lo)), math.Abs(float64(base.Hi)))
+	traces := base.Data
+	clip := st.Clip
+	if st.Data != nil {
+		traces = st.Data
+	} else if !(clip > 0) {
+		clip = math.Max(math.Abs(float64(base.Lo)), math.Abs(float64(base.Hi)))
+	}
 	if !(clip > 0) {
-		clip = maxAbs(base.Data)
+		clip = maxAbs(traces)
 	}
 	if !(clip > 0) {
 		clip = 1
@@ -58,7 +72,7 @@ func drawWiggles(dst *image.RGBA, r image.Rectangle, base Layer, st WiggleStyle,
 	sampleStep := max(1, int(1/pxPerSample))
 	first := max(0, int(math.Floor(vp.Trace0-reach)))
 	first -= first % stride
-	last := min(len(base.Data)-1, int(math.Ceil(vp.Trace1+reach)))
+	last := min(len(traces)-1, int(math.Ceil(vp.Trace1+reach)))
 	s0 := max(0, int(math.Floor(vp.Sample0))-1)
 
 	line := vector.NewRasterizer(w, h)
@@ -70,7 +84,7 @@ func drawWiggles(dst *image.RGBA, r image.Rectangle, base Layer, st WiggleStyle,
 	xs := make([]float32, 0, 1024)
 	ys := make([]float32, 0, 1024)
 	for tr := first; tr <= last; tr += stride {
-		trace := base.Data[tr]
+		trace := traces[tr]
 		x0 := float32((float64(tr) + 0.5 - vp.Trace0) * pxPerTrace)
 		s1 := min(len(trace)-1, int(math.Ceil(vp.Sample1))+1)
 		xs, ys = xs[:0], ys[:0]
