@@ -215,7 +215,7 @@ func (p *analytic) derivatives() {
 	p.inverse(p.dh)
 }
 
-// secondDerivatives stores x'' and h'' (spectrum times -ω² and iω²) in
+// secondDerivatives stores x” and h” (spectrum times -ω² and iω²) in
 // ddx and ddh.
 func (p *analytic) secondDerivatives(ddx, ddh []float64) {
 	w := p.work

@@ -130,8 +130,8 @@ func envelopeDerivativeAt(w *traceWork, j int) float64 {
 	return (x*w.dx[j] + h*w.dh[j]) / math.Sqrt(x*x+h*h+w.eps)
 }
 
-// envelopeSecondDerivative computes a'' from a² = x² + h²:
-// a a'' = x'² + h'² + x x'' + h h'' - a'², with x'' and h'' taken in the
+// envelopeSecondDerivative computes a” from a² = x² + h²:
+// a a” = x'² + h'² + x x” + h h” - a'², with x” and h” taken in the
 // frequency domain (spectrum times -ω²).
 func envelopeSecondDerivative(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
 	return analyticRun(ctx, in, p, progress, true, func(w *traceWork, out []float32) {

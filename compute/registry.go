@@ -214,7 +214,7 @@ func registry() []*Attribute {
 		{ID: "agc", Name: "Automatic gain control", Unit: "", Kind: Signed, Group: GroupConditioning,
 			Description: "trace divided by its RMS over a centred sliding window", Source: "common practice",
 			Params: []ParamSpec{{Name: "window", Unit: "ms", Default: "500", Min: 4, Max: 20000, Description: "length of the centred RMS window"}},
-			run: runAGC},
+			run:    runAGC},
 	}
 }
 

@@ -13,7 +13,7 @@ type lobeValue func(ap, phi, fq float64) float64
 // Response attributes after Bodine (1984): each sample between two
 // envelope minima takes the value at the envelope maximum between them.
 func lobeAmplitude(ap, _, _ float64) float64 { return ap }
-func lobePhase(_, phi, _ float64) float64  { return phi * (180 / math.Pi) }
+func lobePhase(_, phi, _ float64) float64    { return phi * (180 / math.Pi) }
 func lobeFrequency(_, _, fq float64) float64 {
 	return fq
 }

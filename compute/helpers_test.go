@@ -1,0 +1,223 @@
+package compute
+
+import (
+	"context"
+	"encoding/binary"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strconv"
+	"testing"
+)
+
+// ricker is the Ricker wavelet of peak frequency fp at time t (Ricker,
+// 1953; the common form (1 - 2π²fp²t²) exp(-π²fp²t²), whose amplitude
+// spectrum is proportional to f² exp(-f²/fp²)).
+func ricker(t, fp float64) float64 {
+	u := math.Pi * math.Pi * fp * fp * t * t
+	return (1 - 2*u) * math.Exp(-u)
+}
+
+// rotatedRicker is a Ricker wavelet centred at tc with every positive
+// frequency component advanced in phase by theta radians, built by direct
+// numerical integration of its amplitude spectrum (no FFT):
+// x(t) = ∫ A(f) cos(2πf(t - tc) + θ) df, A(f) = f² exp(-f²/fp²).
+// Its analytic trace is e^{iθ} times that of the zero-phase wavelet, so its
+// phase at the envelope peak (t = tc) is θ. Normalised so that θ = 0 gives
+// peak 1.
+func rotatedRicker(n int, dt, tc, fp, theta float64) []float32 {
+	const nf = 1200
+	fmax := 6 * fp
+	df := fmax / nf
+	amp := make([]float64, nf)
+	var norm float64
+	for k := range amp {
+		f := (float64(k) + 0.5) * df
+		amp[k] = f * f * math.Exp(-f*f/(fp*fp))
+		norm += amp[k]
+	}
+	out := make([]float32, n)
+	for j := range out {
+		t := float64(j)*dt - tc
+		var s float64
+		for k, a := range amp {
+			f := (float64(k) + 0.5) * df
+			s += a * math.Cos(2*math.Pi*f*t+theta)
+		}
+		out[j] = float32(s / norm)
+	}
+	return out
+}
+
+// section1 wraps one trace as a section.
+func section1(tr []float32, dt float64) Section {
+	return Section{Traces: [][]float32{tr}, DT: dt}
+}
+
+// compute runs a registry attribute with raw parameters on a section.
+func compute(t *testing.T, id string, raw map[string]string, in Section) Section {
+	t.Helper()
+	a, err := Lookup(id)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := a.Resolve(raw)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out, err := a.Compute(context.Background(), in, p, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
+// sampled returns f(j*dt) for j < n as float32.
+func sampled(n int, dt float64, f func(t float64) float64) []float32 {
+	out := make([]float32, n)
+	for j := range out {
+		out[j] = float32(f(float64(j) * dt))
+	}
+	return out
+}
+
+// pythonWithScipy returns /usr/bin/python3 when it can import scipy, numpy
+// and segyio. When it cannot, the test fails under CI=true (house rule) and
+// is skipped otherwise.
+func pythonWithScipy(t *testing.T) string {
+	t.Helper()
+	const py = "/usr/bin/python3"
+	err := exec.Command(py, "-c", "import numpy, scipy.signal, segyio").Run()
+	if err == nil {
+		return py
+	}
+	if os.Getenv("CI") == "true" {
+		t.Fatalf("%s with numpy, scipy and segyio is needed (Debian python3-scipy, python3-segyio): %v", py, err)
+	}
+	t.Skipf("%s with scipy and segyio not available: %v", py, err)
+	return ""
+}
+
+// corpusFile returns the path of a file of ../shared/segy-corpus (relative
+// to the project root). Missing: fails under CI=true, skips otherwise.
+func corpusFile(t *testing.T, name string) string {
+	t.Helper()
+	p := filepath.Join("..", "..", "shared", "segy-corpus", name)
+	if _, err := os.Stat(p); err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("corpus file missing: %v", err)
+		}
+		t.Skipf("corpus file missing: %v", err)
+	}
+	return p
+}
+
+const scipyScript = "../testdata/compute/scipy_reference.py"
+
+// writeTraceFile writes traces in the trace-file format of
+// scipy_reference.py.
+func writeTraceFile(t *testing.T, path string, sec Section) {
+	t.Helper()
+	n := sec.Samples()
+	buf := make([]byte, 16, 16+4*n*len(sec.Traces))
+	binary.LittleEndian.PutUint32(buf[0:], uint32(len(sec.Traces)))
+	binary.LittleEndian.PutUint32(buf[4:], uint32(n))
+	binary.LittleEndian.PutUint64(buf[8:], math.Float64bits(sec.DT))
+	for _, tr := range sec.Traces {
+		for _, v := range tr {
+			buf = binary.LittleEndian.AppendUint32(buf, math.Float32bits(v))
+		}
+	}
+	if err := os.WriteFile(path, buf, 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// readTraceFile reads the trace-file format of scipy_reference.py.
+func readTraceFile(t *testing.T, path string) Section {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(b) < 16 {
+		t.Fatalf("%s: %d bytes, too short for the header", path, len(b))
+	}
+	ntr := int(binary.LittleEndian.Uint32(b[0:]))
+	ns := int(binary.LittleEndian.Uint32(b[4:]))
+	dt := math.Float64frombits(binary.LittleEndian.Uint64(b[8:]))
+	if len(b) != 16+4*ntr*ns {
+		t.Fatalf("%s: %d bytes, want %d for %d traces of %d samples", path, len(b), 16+4*ntr*ns, ntr, ns)
+	}
+	sec := Section{Traces: make([][]float32, ntr), DT: dt}
+	off := 16
+	for i := range sec.Traces {
+		tr := make([]float32, ns)
+		for j := range tr {
+			tr[j] = math.Float32frombits(binary.LittleEndian.Uint32(b[off:]))
+			off += 4
+		}
+		sec.Traces[i] = tr
+	}
+	return sec
+}
+
+// scipyHilbert is scipy.signal.hilbert(x, N=nfft)[:ns] per trace (nfft 0 =
+// no padding), returned as quadrature, envelope and phase (rad) per trace.
+type hilbertRef struct{ quad, env, phase [][]float64 }
+
+func scipyHilbert(t *testing.T, py string, sec Section, nfft int) hilbertRef {
+	t.Helper()
+	dir := t.TempDir()
+	in, out := filepath.Join(dir, "in.bin"), filepath.Join(dir, "out.bin")
+	writeTraceFile(t, in, sec)
+	cmd := exec.Command(py, scipyScript, "hilbert", in, out, strconv.Itoa(nfft))
+	if msg, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("%s hilbert: %v\n%s", scipyScript, err, msg)
+	}
+	b, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ntr, ns := len(sec.Traces), sec.Samples()
+	if len(b) != 3*8*ntr*ns {
+		t.Fatalf("%s: %d bytes, want %d", out, len(b), 3*8*ntr*ns)
+	}
+	get := func(block int) [][]float64 {
+		res := make([][]float64, ntr)
+		for i := range res {
+			res[i] = make([]float64, ns)
+			for j := range res[i] {
+				off := 8 * (block*ntr*ns + i*ns + j)
+				res[i][j] = math.Float64frombits(binary.LittleEndian.Uint64(b[off:]))
+			}
+		}
+		return res
+	}
+	return hilbertRef{get(0), get(1), get(2)}
+}
+
+// maxRelDiff returns max|got - want| / max|want| over samples lo..hi-1.
+func maxRelDiff(got []float32, want []float64, lo, hi int) float64 {
+	var d, m float64
+	for j := lo; j < hi; j++ {
+		d = max(d, math.Abs(float64(got[j])-want[j]))
+		m = max(m, math.Abs(want[j]))
+	}
+	if m == 0 {
+		return d
+	}
+	return d / m
+}
+
+// angleDiffDeg returns the difference a - b of two angles in degrees,
+// wrapped to -180..180.
+func angleDiffDeg(a, b float64) float64 {
+	return math.Remainder(a-b, 360)
+}
+
+// runPython runs scipy_reference.py with arguments.
+func runPython(py string, args ...string) ([]byte, error) {
+	return exec.Command(py, append([]string{scipyScript}, args...)...).CombinedOutput()
+}
