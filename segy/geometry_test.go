@@ -132,6 +132,20 @@ func TestTextHeaderEncoding(t *testing.T) {
 	if len(b) != 3200 || b[0] != 0xC3 || b[1] != 0x40 || b[2] != 0xF1 || b[80] != 0xC3 || b[82] != 0xF2 || b[4] != 0x81 {
 		t.Fatalf("% x", b[:8])
 	}
+	// The five bytes where SEG-Y software's EBCDIC table departs from code
+	// page 037 (as segyio 1.8.3 reads them; see ebcdicVariant).
+	v := encodeText("[]!^|")
+	if v[0] != 0x4a || v[1] != 0x5a || v[2] != 0x4f || v[3] != 0x5f || v[4] != 0x6a {
+		t.Errorf("variant bytes % x", v[:5])
+	}
+	if s, _ := decodeText(v); s[:5] != "[]!^|" {
+		t.Errorf("variant decode %q", s[:5])
+	}
+	cp := encodeText("")
+	cp[0], cp[1], cp[2] = 0xba, 0xbb, 0xb0 // code page 037 '[', ']', '^'
+	if s, _ := decodeText(cp); s[:3] != "[]^" {
+		t.Errorf("cp037 decode %q", s[:3])
+	}
 	text, ebc := decodeText(b)
 	if !ebc || !strings.HasPrefix(text, "C 1 ab\nC 2\n") || strings.Count(text, "\n") != 39 {
 		t.Fatalf("%v %q", ebc, text[:20])

@@ -134,12 +134,14 @@ func applyScalar(v float64, scalar int) float64 {
 // allows ASCII; the block is taken as EBCDIC when more of its bytes are
 // printable under code page 037 than under ASCII (common practice: in EBCDIC
 // the space is 0x40 and letters sit at 0x81-0xE9, so the two readings rarely
-// tie). Each 80-byte card becomes one line with trailing blanks and control
-// characters removed; lines are joined with '\n'.
+// tie). EBCDIC is read as code page 037 except for the five bytes of
+// ebcdicVariant; ASCII blocks keep 7-bit characters only. Each 80-byte card becomes one line with
+// control characters blanked and trailing blanks removed; lines are joined
+// with '\n'.
 func decodeText(block []byte) (string, bool) {
 	ascii, ebc := 0, 0
 	for _, c := range block {
-		if c >= 0x20 && c < 0x7f {
+		if c >= 0x20 && c < 0x7f && c != 0x40 { // 0x40 is the EBCDIC blank
 			ascii++
 		}
 		if c == 0x40 || (c >= 0x4a && c <= 0x7f) || (c >= 0x81 && c <= 0xf9) {
@@ -147,38 +149,45 @@ func decodeText(block []byte) (string, bool) {
 		}
 	}
 	isEBCDIC := ebc > ascii
-	var raw []byte
-	if isEBCDIC {
-		raw = make([]byte, 0, len(block))
-		dec := charmap.CodePage037
-		for _, c := range block {
-			r := dec.DecodeByte(c)
-			if r < 0x20 || r >= 0x7f {
-				r = ' '
+	runes := make([]rune, len(block))
+	for i, c := range block {
+		r := rune(c)
+		if isEBCDIC {
+			r = charmap.CodePage037.DecodeByte(c)
+			if a, ok := ebcdicVariant[c]; ok {
+				r = a
 			}
-			raw = append(raw, byte(r))
 		}
-	} else {
-		raw = bytes.Map(func(r rune) rune {
-			if r < 0x20 || r >= 0x7f {
-				return ' '
-			}
-			return r
-		}, block)
+		if r < 0x20 || (r >= 0x7f && r < 0xa0) || (!isEBCDIC && r >= 0x7f) {
+			r = ' '
+		}
+		runes[i] = r
 	}
 	var sb strings.Builder
-	for i := 0; i < len(raw); i += 80 {
-		end := min(i+80, len(raw))
+	for i := 0; i < len(runes); i += 80 {
+		end := min(i+80, len(runes))
 		if i > 0 {
 			sb.WriteByte('\n')
 		}
-		sb.WriteString(strings.TrimRight(string(raw[i:end]), " "))
+		sb.WriteString(strings.TrimRight(string(runes[i:end]), " "))
 	}
 	return sb.String(), isEBCDIC
 }
 
-// encodeText turns text into a 3200-byte EBCDIC (code page 037) textual
-// header: lines split at '\n', each cut or blank-padded to 80 characters,
+// ebcdicVariant holds the five bytes where the EBCDIC table used by much
+// SEG-Y software (segyio 1.8.3 among them, checked by the interoperability
+// test) differs from IBM code page 037 by giving an ASCII character: 0x4A
+// '[', 0x4F '!', 0x5A ']', 0x5F '^', 0x6A '|' (code page 037: cent sign,
+// '|', '!', not sign, broken bar). quadtrace reads and writes these bytes
+// that way, so '[', ']', '!', '^' and '|' survive a round trip through
+// segyio; code page 037's own '[' (0xBA), ']' (0xBB) and '^' (0xB0) are
+// still read correctly.
+var ebcdicVariant = map[byte]rune{0x4a: '[', 0x4f: '!', 0x5a: ']', 0x5f: '^', 0x6a: '|'}
+
+var asciiToEBCDICVariant = map[rune]byte{'[': 0x4a, '!': 0x4f, ']': 0x5a, '^': 0x5f, '|': 0x6a}
+
+// encodeText turns text into a 3200-byte EBCDIC textual header (code page
+// 037 with the ebcdicVariant bytes): lines split at '\n', each cut or blank-padded to 80 characters,
 // 40 lines. Characters outside code page 037 become blanks.
 func encodeText(text string) []byte {
 	out := bytes.Repeat([]byte{0x40}, TextHeaderSize)
@@ -194,6 +203,9 @@ func encodeText(text string) []byte {
 				break
 			}
 			b, ok := enc.EncodeRune(r)
+			if v, isVariant := asciiToEBCDICVariant[r]; isVariant {
+				b, ok = v, true
+			}
 			if !ok || r < 0x20 {
 				b = 0x40
 			}
