@@ -2,9 +2,11 @@ package compute
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
+	"path/filepath"
 	"testing"
 )
 
@@ -191,13 +193,18 @@ func TestCommonPracticeFacts(t *testing.T) {
 // of even and odd lengths.
 func TestAgreesWithScipyOnRandomTraces(t *testing.T) {
 	py := pythonWithScipy(t)
+	var jobs []hilbertJob
+	var pads []string
 	for _, ns := range []int{500, 501, 1501} {
 		sec := randomTraces(8, ns, uint64(ns))
 		for _, pad := range PadModes() {
 			m, _ := EndTreatment{Pad: pad}.transformLength(ns)
-			ref := scipyHilbert(t, py, sec, m)
-			compareWithScipy(t, sec, ref, pad, "random pad="+pad, 0, ns)
+			jobs = append(jobs, hilbertJob{sec, m})
+			pads = append(pads, pad)
 		}
+	}
+	for k, ref := range scipyHilbert(t, py, jobs) {
+		compareWithScipy(t, jobs[k].Sec, ref, pads[k], fmt.Sprintf("random %d samples pad=%s", jobs[k].Sec.Samples(), pads[k]), 0, jobs[k].Sec.Samples())
 	}
 }
 
@@ -205,21 +212,31 @@ func TestAgreesWithScipyOnRandomTraces(t *testing.T) {
 // read by segyio (Debian python3-segyio), without and with padding.
 func TestAgreesWithScipyOnCorpusTraces(t *testing.T) {
 	py := pythonWithScipy(t)
-	for _, name := range []string{"small.sgy", "shot-gather.sgy", "small-ps.sgy"} {
-		path := corpusFile(t, name)
-		dump := t.TempDir() + "/traces.bin"
-		if msg, err := runPython(py, "dump-segy", path, dump); err != nil {
-			t.Fatalf("%s: dump-segy: %v\n%s", name, err, msg)
-		}
-		sec := readTraceFile(t, dump)
+	names := []string{"small.sgy", "small-lsb.sgy", "shot-gather.sgy", "small-ps.sgy", "tiny.sgy"}
+	dir := t.TempDir()
+	args := []string{"dump-segy"}
+	for k, name := range names {
+		args = append(args, corpusFile(t, name), filepath.Join(dir, fmt.Sprintf("%d.bin", k)))
+	}
+	if msg, err := runPython(py, args...); err != nil {
+		t.Fatalf("dump-segy: %v\n%s", err, msg)
+	}
+	var jobs []hilbertJob
+	var what, pads []string
+	for k, name := range names {
+		sec := readTraceFile(t, filepath.Join(dir, fmt.Sprintf("%d.bin", k)))
 		if len(sec.Traces) == 0 {
 			t.Fatalf("%s: no traces read", name)
 		}
 		for _, pad := range PadModes() {
 			m, _ := EndTreatment{Pad: pad}.transformLength(sec.Samples())
-			ref := scipyHilbert(t, py, sec, m)
-			compareWithScipy(t, sec, ref, pad, name+" pad="+pad, 0, sec.Samples())
+			jobs = append(jobs, hilbertJob{sec, m})
+			what = append(what, name+" pad="+pad)
+			pads = append(pads, pad)
 		}
+	}
+	for k, ref := range scipyHilbert(t, py, jobs) {
+		compareWithScipy(t, jobs[k].Sec, ref, pads[k], what[k], 0, jobs[k].Sec.Samples())
 	}
 }
 

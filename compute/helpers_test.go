@@ -3,6 +3,7 @@ package compute
 import (
 	"context"
 	"encoding/binary"
+	"fmt"
 	"math"
 	"os"
 	"os/exec"
@@ -163,39 +164,54 @@ func readTraceFile(t *testing.T, path string) Section {
 	return sec
 }
 
-// scipyHilbert is scipy.signal.hilbert(x, N=nfft)[:ns] per trace (nfft 0 =
-// no padding), returned as quadrature, envelope and phase (rad) per trace.
+// hilbertJob asks scipy for scipy.signal.hilbert(x, N=NFFT)[:ns] of every
+// trace of a section (NFFT 0 = no padding).
+type hilbertJob struct {
+	Sec  Section
+	NFFT int
+}
+
+// hilbertRef holds scipy's quadrature, envelope and phase (rad) per trace.
 type hilbertRef struct{ quad, env, phase [][]float64 }
 
-func scipyHilbert(t *testing.T, py string, sec Section, nfft int) hilbertRef {
+// scipyHilbert runs all jobs in one call of scipy_reference.py.
+func scipyHilbert(t *testing.T, py string, jobs []hilbertJob) []hilbertRef {
 	t.Helper()
 	dir := t.TempDir()
-	in, out := filepath.Join(dir, "in.bin"), filepath.Join(dir, "out.bin")
-	writeTraceFile(t, in, sec)
-	cmd := exec.Command(py, scipyScript, "hilbert", in, out, strconv.Itoa(nfft))
-	if msg, err := cmd.CombinedOutput(); err != nil {
+	args := []string{"hilbert"}
+	for k, job := range jobs {
+		in, out := filepath.Join(dir, fmt.Sprintf("in%d.bin", k)), filepath.Join(dir, fmt.Sprintf("out%d.bin", k))
+		writeTraceFile(t, in, job.Sec)
+		args = append(args, in, out, strconv.Itoa(job.NFFT))
+	}
+	if msg, err := runPython(py, args...); err != nil {
 		t.Fatalf("%s hilbert: %v\n%s", scipyScript, err, msg)
 	}
-	b, err := os.ReadFile(out)
-	if err != nil {
-		t.Fatal(err)
-	}
-	ntr, ns := len(sec.Traces), sec.Samples()
-	if len(b) != 3*8*ntr*ns {
-		t.Fatalf("%s: %d bytes, want %d", out, len(b), 3*8*ntr*ns)
-	}
-	get := func(block int) [][]float64 {
-		res := make([][]float64, ntr)
-		for i := range res {
-			res[i] = make([]float64, ns)
-			for j := range res[i] {
-				off := 8 * (block*ntr*ns + i*ns + j)
-				res[i][j] = math.Float64frombits(binary.LittleEndian.Uint64(b[off:]))
-			}
+	refs := make([]hilbertRef, len(jobs))
+	for k, job := range jobs {
+		out := filepath.Join(dir, fmt.Sprintf("out%d.bin", k))
+		b, err := os.ReadFile(out)
+		if err != nil {
+			t.Fatal(err)
 		}
-		return res
+		ntr, ns := len(job.Sec.Traces), job.Sec.Samples()
+		if len(b) != 3*8*ntr*ns {
+			t.Fatalf("%s: %d bytes, want %d", out, len(b), 3*8*ntr*ns)
+		}
+		get := func(block int) [][]float64 {
+			res := make([][]float64, ntr)
+			for i := range res {
+				res[i] = make([]float64, ns)
+				for j := range res[i] {
+					off := 8 * (block*ntr*ns + i*ns + j)
+					res[i][j] = math.Float64frombits(binary.LittleEndian.Uint64(b[off:]))
+				}
+			}
+			return res
+		}
+		refs[k] = hilbertRef{get(0), get(1), get(2)}
 	}
-	return hilbertRef{get(0), get(1), get(2)}
+	return refs
 }
 
 // maxRelDiff returns max|got - want| / max|want| over samples lo..hi-1.

@@ -4,11 +4,12 @@ python3-scipy (scipy.signal.hilbert) and python3-segyio.
 
 Run with /usr/bin/python3 (the Go tests do). Two sub-commands:
 
-  scipy_reference.py dump-segy FILE OUT
+  scipy_reference.py dump-segy FILE OUT [FILE OUT ...]
       Reads every trace of the SEG-Y FILE with segyio (ignore_geometry)
-      and writes them to OUT in the trace-file format below.
+      and writes them to OUT in the trace-file format below (big-endian
+      files first, little-endian when that fails).
 
-  scipy_reference.py hilbert IN OUT N
+  scipy_reference.py hilbert IN OUT N [IN OUT N ...]
       Reads traces from the trace file IN and writes, for each trace x,
       z = scipy.signal.hilbert(x, N)[:ns] (N = 0: no padding, N = ns) as
       three float64 little-endian arrays of ntr*ns values, one after the
@@ -42,7 +43,11 @@ def write_traces(path, data, dt):
 def dump_segy(src, out):
     import segyio
 
-    with segyio.open(src, "r", ignore_geometry=True) as s:
+    try:
+        f = segyio.open(src, "r", ignore_geometry=True)
+    except RuntimeError:  # little-endian files (e.g. small-lsb.sgy)
+        f = segyio.open(src, "r", ignore_geometry=True, endian="little")
+    with f as s:
         data = np.stack([np.asarray(t, dtype=np.float32) for t in s.trace])
         dt = segyio.tools.dt(s) / 1e6
     write_traces(out, data, dt)
@@ -59,10 +64,13 @@ def hilbert(src, out, n_fft):
 
 
 def main(argv):
-    if len(argv) == 4 and argv[1] == "dump-segy":
-        dump_segy(argv[2], argv[3])
-    elif len(argv) == 5 and argv[1] == "hilbert":
-        hilbert(argv[2], argv[3], int(argv[4]))
+    args = argv[2:]
+    if len(argv) > 2 and argv[1] == "dump-segy" and len(args) % 2 == 0:
+        for i in range(0, len(args), 2):
+            dump_segy(args[i], args[i + 1])
+    elif len(argv) > 2 and argv[1] == "hilbert" and len(args) % 3 == 0:
+        for i in range(0, len(args), 3):
+            hilbert(args[i], args[i + 1], int(args[i + 2]))
     else:
         sys.stderr.write(__doc__)
         return 2
