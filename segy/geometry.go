@@ -166,7 +166,7 @@ func (f *File) buildGrid(il, xl, off []int32) {
 	f.info.Inline, f.info.Crossline = g.ilR, g.xlR
 	limit := gridLimit(n)
 	cells := int64(g.ilR.Count) * int64(g.xlR.Count)
-	if cells > int64(limit) {
+	if g.ilR.Count > limit || g.xlR.Count > limit || cells > int64(limit) { // the first two guard the product against overflow
 		f.unstructured(fmtCells(cells, n))
 		return
 	}
