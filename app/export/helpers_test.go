@@ -1,0 +1,240 @@
+package export
+
+import (
+	"crypto/sha256"
+	"encoding/binary"
+	"encoding/hex"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"math/rand/v2"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"quadtrace/compute"
+	"quadtrace/segy"
+)
+
+// python is Debian's interpreter, called by its full path as the house
+// rules ask: the outside references (python3-segyio, python3-scipy) are
+// Debian's packages for it.
+const python = "/usr/bin/python3"
+
+// projectRoot is the repository root, two folders above this package.
+func projectRoot(t testing.TB) string {
+	t.Helper()
+	root, err := filepath.Abs("../..")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return root
+}
+
+// needPython fails the test when CI=true and python3 with the given modules
+// is missing, and skips it otherwise (a developer machine without them).
+func needPython(t testing.TB, modules ...string) {
+	t.Helper()
+	args := []string{"-c", "import " + strings.Join(modules, ", ")}
+	if out, err := exec.Command(python, args...).CombinedOutput(); err != nil {
+		msg := fmt.Sprintf("%s with %s needed (Debian packages python3-segyio python3-scipy): %v: %s", python, strings.Join(modules, ", "), err, out)
+		if os.Getenv("CI") == "true" {
+			t.Fatal(msg)
+		}
+		t.Skip(msg)
+	}
+}
+
+// volumeSpec describes an invented test volume: a regular inline-sorted
+// grid of band-limited traces (a Ricker wavelet convolved with random
+// reflectivity) with CDP coordinates on 12.5 m bins.
+type volumeSpec struct {
+	inlines, crosslines [2]int // first and last
+	samples, intervalUS int
+	startMS             float64
+}
+
+// traces is the number of traces of the grid.
+func (v volumeSpec) traces() int {
+	return (v.inlines[1] - v.inlines[0] + 1) * (v.crosslines[1] - v.crosslines[0] + 1)
+}
+
+// bytes is the file size of the volume in IEEE format.
+func (v volumeSpec) bytes() int64 {
+	return 3600 + int64(v.traces())*int64(240+4*v.samples)
+}
+
+// writeVolume writes the volume to path through the segy writer.
+func writeVolume(t testing.TB, path string, v volumeSpec) {
+	t.Helper()
+	w, err := segy.CreateNew(path, segy.NewSpec{Samples: v.samples, IntervalUS: v.intervalUS, StartMS: v.startMS,
+		TextHeader: "C 1 INVENTED TEST VOLUME FOR THE QUADTRACE EXPORT TESTS\nC 2 SURVEY: HARROWMERE TEST BLOCK\nC40 END TEXTUAL HEADER"},
+		segy.WriteOptions{Format: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer w.Abort()
+	bank := traceBank(v.samples, v.intervalUS, 97)
+	tr := make([]float32, v.samples)
+	for il := v.inlines[0]; il <= v.inlines[1]; il++ {
+		for xl := v.crosslines[0]; xl <= v.crosslines[1]; xl++ {
+			src := bank[(il*31+xl*7)%len(bank)]
+			gain := float32(1 + 0.01*float64(il-v.inlines[0]) - 0.002*float64(xl-v.crosslines[0]))
+			for k := range tr {
+				tr[k] = gain * src[k]
+			}
+			h := segy.NewTraceHeader(il, xl, 612000.5+12.5*float64(xl), 7130000.25+12.5*float64(il))
+			if err := w.WriteTrace(h, tr); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	if err := w.Commit(); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// traceBank returns n invented traces: random reflectivity convolved with a
+// 30 Hz Ricker wavelet.
+func traceBank(samples, intervalUS, n int) [][]float32 {
+	rng := rand.New(rand.NewPCG(7, 11))
+	dt := float64(intervalUS) * 1e-6
+	half := int(0.06/dt) + 1
+	wavelet := make([]float64, 2*half+1)
+	for j := range wavelet {
+		tt := float64(j-half) * dt
+		a := math.Pi * 30 * tt
+		wavelet[j] = (1 - 2*a*a) * math.Exp(-a*a)
+	}
+	bank := make([][]float32, n)
+	for i := range bank {
+		refl := make([]float64, samples)
+		for k := range refl {
+			if rng.Float64() < 0.08 {
+				refl[k] = rng.NormFloat64()
+			}
+		}
+		tr := make([]float32, samples)
+		for k := range tr {
+			s := 0.0
+			for j, w := range wavelet {
+				if m := k + j - half; m >= 0 && m < samples {
+					s += w * refl[m]
+				}
+			}
+			tr[k] = float32(1000 * s)
+		}
+		bank[i] = tr
+	}
+	return bank
+}
+
+// fileSum is the SHA-256 of a file, hex.
+func fileSum(t testing.TB, path string) string {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	h := sha256.New()
+	if _, err := io.Copy(h, f); err != nil {
+		t.Fatal(err)
+	}
+	return hex.EncodeToString(h.Sum(nil))
+}
+
+// readSection reads every trace of a SEG-Y file through the segy reader.
+func readSection(t testing.TB, path string) (compute.Section, []segy.TraceHeader) {
+	t.Helper()
+	f, err := segy.Open(path, segy.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	info := f.Info()
+	sec := compute.Section{DT: float64(info.IntervalUS) * 1e-6, T0: info.StartMS * 1e-3}
+	hs := make([]segy.TraceHeader, info.Traces)
+	for i := range info.Traces {
+		tr, err := f.ReadTrace(i, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if hs[i], err = f.TraceHeader(i); err != nil {
+			t.Fatal(err)
+		}
+		sec.Traces = append(sec.Traces, tr)
+	}
+	return sec, hs
+}
+
+// segyioDump is what testdata/export/readback.py reports of a file.
+type segyioDump struct {
+	Version    string           `json:"segyio_version"`
+	Samples    int              `json:"samples"`
+	IntervalUS int              `json:"interval_us"`
+	Format     int              `json:"format"`
+	Traces     int              `json:"traces"`
+	Text       string           `json:"text"`
+	Bin        map[string]int   `json:"bin"`
+	Headers    []map[string]int `json:"headers"`
+	Data       [][]float32      `json:"-"`
+}
+
+// readBySegyio reads a SEG-Y file with Debian's python3-segyio through
+// testdata/export/readback.py.
+func readBySegyio(t testing.TB, path string) segyioDump {
+	t.Helper()
+	script := filepath.Join(projectRoot(t), "testdata", "export", "readback.py")
+	data := filepath.Join(t.TempDir(), "samples.f32")
+	cmd := exec.Command(python, script, path, data)
+	var stderr strings.Builder
+	cmd.Stderr = &stderr
+	out, err := cmd.Output()
+	if err != nil {
+		t.Fatalf("segyio could not read %s: %v\n%s", path, err, stderr.String())
+	}
+	var d segyioDump
+	if err := json.Unmarshal(out, &d); err != nil {
+		t.Fatalf("readback.py output: %v", err)
+	}
+	raw, err := os.ReadFile(data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(raw) != 4*d.Samples*d.Traces {
+		t.Fatalf("segyio returned %d bytes of samples for %d traces of %d", len(raw), d.Traces, d.Samples)
+	}
+	for i := range d.Traces {
+		tr := make([]float32, d.Samples)
+		for k := range tr {
+			tr[k] = math.Float32frombits(binary.LittleEndian.Uint32(raw[4*(i*d.Samples+k):]))
+		}
+		d.Data = append(d.Data, tr)
+	}
+	return d
+}
+
+// traceSampleBytes returns the raw sample bytes of every trace of a
+// fixed-length SEG-Y file with no extended textual headers (the layout the
+// segy writer writes), located by the byte positions of SEG-Y rev 1 (2002):
+// 3600 bytes of file headers, then per trace 240 header bytes and the samples.
+func traceSampleBytes(t testing.TB, path string, samples int) (headers, data [][]byte) {
+	t.Helper()
+	raw, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	size := 240 + 4*samples
+	if (len(raw)-3600)%size != 0 {
+		t.Fatalf("%s: %d bytes after the file headers is not a whole number of %d-byte traces", path, len(raw)-3600, size)
+	}
+	for off := 3600; off < len(raw); off += size {
+		headers = append(headers, raw[off:off+240])
+		data = append(data, raw[off+240:off+size])
+	}
+	return headers, data
+}
