@@ -49,6 +49,12 @@ func (s surface) at(u, v float64) float64 {
 	return s.t0 + s.dipU*u + s.dipV*v + s.amp*math.Sin(2*math.Pi*(s.ku*u+s.kv*v)+s.phase)
 }
 
+// coefAt returns the surface's reflection coefficient at (u, v): r varied
+// laterally by up to a quarter, as lithology varies along a bed.
+func (s surface) coefAt(u, v float64) float64 {
+	return s.r * (1 + 0.25*math.Sin(2*math.Pi*(1.7*s.ku*u-1.3*s.kv*v)+2*s.phase))
+}
+
 // thinBed is one bed of the thin-bed package: its base lies thick ms
 // below the previous interface, thickness varying laterally by +-vary.
 type thinBed struct {
@@ -263,7 +269,7 @@ func (m *model) trace(il, xl int, buf []reflector, bank *waveletBank) ([]reflect
 	sf := seafloorMS + 25*u + 8*math.Sin(2*math.Pi*(0.7*v+0.2))
 	add(sf, 0.18)
 	for _, s := range m.shallow {
-		add(s.at(u, v), s.r)
+		add(s.at(u, v), s.coefAt(u, v))
 	}
 
 	// Thin beds.
@@ -289,7 +295,7 @@ func (m *model) trace(il, xl int, buf []reflector, bank *waveletBank) ([]reflect
 
 	// Topsets, then the clinoform unit.
 	for _, s := range m.topsets {
-		add(s.at(u, v), s.r)
+		add(s.at(u, v), s.coefAt(u, v))
 	}
 	cTop := clinoTopMS + 15*u + 2*math.Sin(2*math.Pi*(0.5*v+0.1))
 	cBase := clinoBaseMS + 10*u
@@ -316,7 +322,7 @@ func (m *model) trace(il, xl int, buf []reflector, bank *waveletBank) ([]reflect
 		info.clinoforms = [2]float64{cTop, cBase}
 	}
 	for _, s := range m.bottomsets {
-		add(s.at(u, v), s.r)
+		add(s.at(u, v), s.coefAt(u, v))
 	}
 
 	// Quiet shale with the wedge.
@@ -350,7 +356,7 @@ func (m *model) trace(il, xl int, buf []reflector, bank *waveletBank) ([]reflect
 	}
 
 	for _, s := range m.deep {
-		add(s.at(u, v), s.r)
+		add(s.at(u, v), s.coefAt(u, v))
 	}
 
 	// The fault crosses this trace between its tip and the record's end
