@@ -51,8 +51,10 @@ func Generate(ctx context.Context, cfg Config, progress func(done, total int)) (
 	dtMS := float64(cfg.IntervalUS) / 1000
 	m := newModel(cfg)
 	recordMS := float64(ns-1) * dtMS
-	// Room for the extra attenuation below the thickest gas column.
-	bank := newWaveletBank(dtMS, recordMS+bankHalfMS+domeHeightMS*(QualityFactor/GasQualityFactor))
+	// Room for the pull-down and extra attenuation below the thickest gas
+	// column, which is at most gasColumnFrac of the dome's relief.
+	maxGasMS := gasColumnFrac * domeHeightMS
+	bank := newWaveletBank(dtMS, recordMS+maxGasMS*(pullDownFrac+QualityFactor/GasQualityFactor-1)+bankStepMS)
 
 	s := &Survey{
 		Config: cfg, Basin: BasinName, Name: SurveyName,

@@ -188,3 +188,28 @@ func TestCDPGrid(t *testing.T) {
 		}
 	}
 }
+
+// The smallest accepted grid and a record shorter than the model's deeper
+// features still generate; features below the record are left out.
+func TestGenerateSmallAndShort(t *testing.T) {
+	for _, cfg := range []Config{
+		{Inlines: minLateral, Crosslines: minLateral, Samples: minSamples, IntervalUS: 4000, Noise: 1, Seed: -3},
+		{Inlines: 10, Crosslines: 12, Samples: 301, IntervalUS: 2000, Seed: 2}, // 600 ms
+	} {
+		s := mustGenerate(t, cfg)
+		record := float64(cfg.Samples-1) * s.IntervalMS()
+		for _, f := range s.Features {
+			if f.TimeMinMS > record || f.TimeMaxMS > record {
+				t.Errorf("%+v: feature %+v below the %g ms record", cfg, f, record)
+			}
+		}
+		if cfg.Samples == 301 {
+			if _, ok := s.Feature(FeatureBrightSpot); ok {
+				t.Errorf("%+v: bright spot listed, but the reservoir lies below the record", cfg)
+			}
+			if _, ok := s.Feature(FeatureChannel); !ok {
+				t.Errorf("%+v: channel missing from a 600 ms record", cfg)
+			}
+		}
+	}
+}
