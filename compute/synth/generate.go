@@ -272,22 +272,26 @@ func (fb featureBoxes) merge(other featureBoxes) {
 	}
 }
 
-var featureDescriptions = []struct{ name, text string }{
-	{FeatureThinBeds, "interbedded sands and shales thinner than tuning, whose reflections interfere"},
-	{FeatureChannel, "a meandering channel sand cut into a muddy interval"},
-	{FeatureClinoforms, "a prograding shelf margin: clinoforms toplapping below the topsets and downlapping onto the basin floor"},
-	{FeatureFault, "a normal fault, downthrown basinward, dying out upwards"},
-	{FeatureWedge, "a sand wedge pinching out up-dip through tuning thickness"},
-	{FeatureBrightSpot, "a gas-charged sand on a dome: a bright spot"},
-	{FeatureFlatSpot, "the flat gas-water contact under the bright spot"},
-	{FeatureShadow, "below the gas: a low-frequency shadow and a slight pull-down"},
+// featureDescriptions lists the features in Survey.Features order with
+// their one-line descriptions.
+func featureDescriptions() []struct{ name, text string } {
+	return []struct{ name, text string }{
+		{FeatureThinBeds, "interbedded sands and shales thinner than tuning, whose reflections interfere"},
+		{FeatureChannel, "a meandering channel sand cut into a muddy interval"},
+		{FeatureClinoforms, "a prograding shelf margin: clinoforms toplapping below the topsets and downlapping onto the basin floor"},
+		{FeatureFault, "a normal fault, downthrown basinward, dying out upwards"},
+		{FeatureWedge, "a sand wedge pinching out up-dip through tuning thickness"},
+		{FeatureBrightSpot, "a gas-charged sand on a dome: a bright spot"},
+		{FeatureFlatSpot, "the flat gas-water contact under the bright spot"},
+		{FeatureShadow, "below the gas: a low-frequency shadow and a slight pull-down"},
+	}
 }
 
 // features lists the boxes in a fixed order, as inline and crossline
 // numbers, dropping features that start below the record.
 func (fb featureBoxes) features(recordMS float64) []Feature {
 	var out []Feature
-	for _, d := range featureDescriptions {
+	for _, d := range featureDescriptions() {
 		b, ok := fb[d.name]
 		if !ok || b.tMin > recordMS {
 			continue

@@ -133,6 +133,22 @@ func TestGenerateCancelled(t *testing.T) {
 	if s != nil || !errors.Is(err, context.Canceled) {
 		t.Fatalf("Generate on a cancelled context = %v, %v", s, err)
 	}
+	// Cancelled part way through: stops, returns no survey.
+	ctx, cancel = context.WithCancel(context.Background())
+	defer cancel()
+	calls := 0
+	s, err = Generate(ctx, smallConfig(), func(done, total int) {
+		calls++
+		if done == 3 {
+			cancel()
+		}
+	})
+	if s != nil || !errors.Is(err, context.Canceled) {
+		t.Fatalf("Generate cancelled from progress = %v, %v", s, err)
+	}
+	if calls >= 2*smallConfig().Inlines {
+		t.Errorf("progress called %d times after cancelling at 3", calls)
+	}
 }
 
 // The noise level is the RMS of the added noise relative to the RMS of the
