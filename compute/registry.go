@@ -3,6 +3,7 @@ package compute
 import (
 	"context"
 	"fmt"
+	"math"
 )
 
 // Kind says how an attribute's values behave, so a renderer can pick the
@@ -130,7 +131,7 @@ func registry() []*Attribute {
 	return []*Attribute{
 		// amplitude
 		{ID: "amplitude", Name: "Amplitude", Unit: "amplitude", Kind: Signed, Group: GroupAmplitude,
-			Description: "the input trace unchanged", Source: "the recorded data", run: runAmplitude},
+			Description: "the input trace unchanged (Inf gap samples become NaN)", Source: "the recorded data", run: runAmplitude},
 		{ID: "quadrature", Name: "Quadrature trace", Unit: "amplitude", Kind: Signed, Group: GroupAmplitude,
 			Description: "imaginary part of the analytic trace (Hilbert transform of the trace)", Source: srcTaner1979,
 			Params: analyticParams(), run: sampleAttribute(false, quadratureAt)},
@@ -221,7 +222,13 @@ func registry() []*Attribute {
 func runAmplitude(ctx context.Context, in Section, _ Params, progress func(done, total int)) (Section, error) {
 	out := newLike(in)
 	err := forEachTrace(ctx, len(in.Traces), func() struct{} { return struct{}{} }, func(_ struct{}, i int) error {
-		copy(out.Traces[i], in.Traces[i])
+		o := out.Traces[i]
+		for j, v := range in.Traces[i] {
+			if isGap(v) {
+				v = float32(math.NaN())
+			}
+			o[j] = v
+		}
 		return nil
 	}, progress)
 	return out, err
