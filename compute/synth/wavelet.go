@@ -203,10 +203,11 @@ func (b *waveletBank) add(trace []float32, tMS, r, tqMS float64) {
 	if lo > hi {
 		return
 	}
-	out := trace[start+lo : start+hi+1]
 	w := taps[lo : hi+1]
+	out := trace[start+lo : start+hi+1]
+	out = out[:len(w)] // same length; lets the compiler drop bounds checks
 	rf := float32(r)
-	for k := range out {
-		out[k] += rf * w[k]
+	for k, x := range w {
+		out[k] += rf * x
 	}
 }
