@@ -173,7 +173,8 @@ func dome(u, v float64) float64 {
 
 // faultThrow returns the throw of the normal fault for an interface at
 // (post-doming) time tMS on inline fraction v: zero above the tip,
-// growing to full 140 ms below it, largest mid-survey.
+// growing to its full value over the 140 ms below it, largest mid-survey
+// and dying away towards the survey edges.
 func faultThrow(tMS, v float64) float64 {
 	dv := (v - 0.5) / 0.65
 	return faultThrowMS * math.Max(0, 1-dv*dv) * smoothstep(faultTipMS, faultTipMS+140, tMS)
