@@ -7,6 +7,7 @@ import (
 	"flag"
 	"fmt"
 	"image"
+	"image/color"
 	"io"
 	"os"
 	"os/signal"
@@ -236,7 +237,11 @@ func drawFigure(ctx context.Context, v *volume.Volume, r figureRequest) (*image.
 		fig.Legends = append(fig.Legends, overLegend)
 	}
 	if r.wiggle && r.orientation != volume.TimeSlice {
-		fig.Wiggle = &render.WiggleStyle{Fill: true, Gain: 1}
+		amp, err := v.Read(ctx, s)
+		if err != nil {
+			return nil, err
+		}
+		fig.Wiggle = &render.WiggleStyle{Data: amp.Traces, Color: color.RGBA{A: 255}, Fill: true, Gain: 1}
 	}
 	name := filepath.Base(v.Name())
 	keys := sec.Keys
