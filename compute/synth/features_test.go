@@ -365,31 +365,6 @@ func modelCentroidHz(tS float64) float64 {
 	return num / den
 }
 
-// Frequency content falls with depth as constant-Q attenuation says: the
-// ratio of deep to shallow spectral centroids matches the ratio the
-// Ricker spectrum times exp(-pi f t/Q) gives at the windows' centres.
-func TestFrequencyFallsWithDepthSpectrum(t *testing.T) {
-	s := defaultNoisy(t)
-	var traces [][2]int
-	for il := 0; il < s.Config.Inlines; il += 5 {
-		for xl := 0; xl < 110; xl += 5 { // landward of the fault, away from the gas
-			traces = append(traces, [2]int{il, xl})
-		}
-	}
-	shallow := powerCentroidHz(s, traces, 120, 250)
-	deep := powerCentroidHz(s, traces, 1200, 1450)
-	want := modelCentroidHz(1.325) / modelCentroidHz(0.185)
-	t.Logf("spectral centroid: %.1f Hz at 120-250 ms, %.1f Hz at 1200-1450 ms; ratio %.3f, constant-Q model %.3f", shallow, deep, deep/shallow, want)
-	if deep >= shallow {
-		t.Fatalf("spectral centroid %.1f Hz deep, not below %.1f Hz shallow", deep, shallow)
-	}
-	// 10 %: the layers' own reflectivity spectrum and the noise colour the
-	// windows; the attenuation alone lowers the centroid by about a third.
-	if math.Abs((deep/shallow)/want-1) > 0.10 {
-		t.Errorf("centroid ratio deep/shallow %.3f, constant-Q model %.3f", deep/shallow, want)
-	}
-}
-
 // Under the gas the extra attenuation lowers the frequency content: a
 // low-frequency shadow, relative to the same window off the gas.
 func TestLowFrequencyShadow(t *testing.T) {
