@@ -272,9 +272,10 @@ func drawFigure(ctx context.Context, v *volume.Volume, r figureRequest) (*image.
 		fig.Scale = render.ScaleBar{MetresPerTrace: spacing}
 		fig.Title = fmt.Sprintf("%s: time slice %g ms", name, info.StartMS+float64(s.Number)*float64(info.IntervalUS)/1000)
 	}
-	fig.Title += ", " + fig.Legends[0].Name
 	if r.overlay != "" {
-		fig.Title += " under " + fig.Legends[1].Name
+		fig.Title += ", " + fig.Legends[1].Name + " over " + fig.Legends[0].Name
+	} else {
+		fig.Title += ", " + fig.Legends[0].Name
 	}
 	if r.title != "" {
 		fig.Title = r.title
@@ -289,8 +290,12 @@ func writePNG(path string, img *image.RGBA, dpi float64) error {
 	if err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
+	// os.CreateTemp makes the file private; a figure is for sharing.
+	err = tmp.Chmod(0o644)
 	w := bufio.NewWriter(tmp)
-	err = render.EncodePNG(w, img, dpi)
+	if err == nil {
+		err = render.EncodePNG(w, img, dpi)
+	}
 	if err == nil {
 		err = w.Flush()
 	}

@@ -76,8 +76,14 @@ func Overlay(a *compute.Attribute, data [][]float32, pal *palettes.Palette, clip
 }
 
 // LegendFor returns the legend entry of a layer showing attribute a.
+// An attribute whose unit is the input's own amplitude ("amplitude") shows
+// no unit: SEG-Y samples carry none a legend could name.
 func LegendFor(a *compute.Attribute, l render.Layer) render.Legend {
-	return render.Legend{Name: a.Name, Unit: a.Unit, Palette: l.Palette, Lo: float64(l.Lo), Hi: float64(l.Hi), Cyclic: a.Kind == compute.Cyclic}
+	unit := a.Unit
+	if unit == "amplitude" {
+		unit = ""
+	}
+	return render.Legend{Name: a.Name, Unit: unit, Palette: l.Palette, Lo: float64(l.Lo), Hi: float64(l.Hi), Cyclic: a.Kind == compute.Cyclic}
 }
 
 // OverlayPalette returns the palette named name, or for "" the overlay
