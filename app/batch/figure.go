@@ -178,8 +178,17 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	return 0
 }
 
-// drawFigure computes what r asks for on v and composes the figure.
+// drawFigure computes what r asks for on v and draws the figure.
 func drawFigure(ctx context.Context, v *volume.Volume, r figureRequest) (*image.RGBA, error) {
+	fig, err := buildFigure(ctx, v, r)
+	if err != nil {
+		return nil, err
+	}
+	return fig.Draw()
+}
+
+// buildFigure computes what r asks for on v and composes the figure.
+func buildFigure(ctx context.Context, v *volume.Volume, r figureRequest) (render.Figure, error) {
 	info := v.Info()
 	s := volume.Slice{Orientation: r.orientation}
 	switch r.orientation {
@@ -192,7 +201,7 @@ func drawFigure(ctx context.Context, v *volume.Volume, r figureRequest) (*image.
 	}
 	cond, err := compute.ParseConditioning(r.condition)
 	if err != nil {
-		return nil, fmt.Errorf("--condition: %w", err)
+		return render.Figure{}, fmt.Errorf("--condition: %w", err)
 	}
 	layer := func(id, paletteName string, overlay bool) (render.Layer, render.Legend, volume.Section, error) {
 		a, err := compute.Lookup(id)
@@ -225,13 +234,13 @@ func drawFigure(ctx context.Context, v *volume.Volume, r figureRequest) (*image.
 	}
 	base, baseLegend, sec, err := layer(r.attribute, r.palette, false)
 	if err != nil {
-		return nil, err
+		return render.Figure{}, err
 	}
 	fig := render.Figure{Base: base, Legends: []render.Legend{baseLegend}, Width: r.width, Height: r.height}
 	if r.overlay != "" {
 		over, overLegend, _, err := layer(r.overlay, r.overlayPal, true)
 		if err != nil {
-			return nil, err
+			return render.Figure{}, err
 		}
 		fig.Overlay = &over
 		fig.Legends = append(fig.Legends, overLegend)
@@ -239,7 +248,7 @@ func drawFigure(ctx context.Context, v *volume.Volume, r figureRequest) (*image.
 	if r.wiggle && r.orientation != volume.TimeSlice {
 		amp, err := v.Read(ctx, s)
 		if err != nil {
-			return nil, err
+			return render.Figure{}, err
 		}
 		fig.Wiggle = &render.WiggleStyle{Data: amp.Traces, Color: color.RGBA{A: 255}, Fill: true, Gain: 1}
 	}
@@ -280,7 +289,7 @@ func drawFigure(ctx context.Context, v *volume.Volume, r figureRequest) (*image.
 	if r.title != "" {
 		fig.Title = r.title
 	}
-	return fig.Draw()
+	return fig, nil
 }
 
 // writePNG writes img to path with its resolution recorded, through a
