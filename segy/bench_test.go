@@ -1,0 +1,142 @@
+package segy
+
+import (
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// Benchmark volume: 400 inlines x 320 crosslines x 1000 samples of 4-byte
+// IBM floats (the most common post-stack format, common practice), 4240
+// bytes a trace, 542.7 MB. Generated once under os.TempDir() with a stable
+// name and reused; only `go test -bench` builds it.
+const (
+	benchInlines, benchCrosslines, benchSamples = 400, 320, 1000
+	benchTraceSize                              = 240 + 4*benchSamples
+	benchSize                                   = 3600 + benchInlines*benchCrosslines*benchTraceSize
+)
+
+func benchVolume(b *testing.B) string {
+	b.Helper()
+	p := filepath.Join(os.TempDir(), "quadtrace-segy-bench-v1.sgy")
+	if st, err := os.Stat(p); err == nil && st.Size() == benchSize {
+		return p
+	}
+	b.Logf("generating %s (%.1f MB)", p, float64(benchSize)/1e6)
+	w, err := CreateNew(p, NewSpec{Samples: benchSamples, IntervalUS: 2000, TextHeader: "C 1 QUADTRACE READ BENCHMARK VOLUME (INVENTED DATA)"}, WriteOptions{Format: 1})
+	if err != nil {
+		b.Fatal(err)
+	}
+	wave := make([]float32, benchSamples+benchInlines+benchCrosslines)
+	for i := range wave {
+		wave[i] = float32(math.Sin(float64(i)*0.07) * 1000)
+	}
+	for il := 0; il < benchInlines; il++ {
+		for xl := 0; xl < benchCrosslines; xl++ {
+			s := (il + xl) % (benchInlines + benchCrosslines)
+			h := NewTraceHeader(1000+il, 2000+xl, 500000+12.5*float64(xl), 6000000+25*float64(il))
+			if err := w.WriteTrace(h, wave[s:s+benchSamples]); err != nil {
+				w.Abort()
+				b.Fatal(err)
+			}
+		}
+	}
+	if err := w.Commit(); err != nil {
+		b.Fatal(err)
+	}
+	return p
+}
+
+// BenchmarkVolumeRead reads inlines, crosslines and time slices of the
+// 542.7 MB volume, next to `cat FILE > /dev/null` done in Go (io.Copy of
+// the file to io.Discard). MB/s counts the file bytes of the traces
+// covered (trace size x traces), so the "x-cat" metric is the speed of
+// covering the volume relative to a plain sequential read in the same
+// run. Warm page cache (the cat pass reads the whole file first).
+//
+//	go test -run '^$' -bench VolumeRead -benchtime 3x ./segy/   (or plain -bench)
+func BenchmarkVolumeRead(b *testing.B) {
+	path := benchVolume(b)
+	var catMBs float64
+	b.Run("cat", func(b *testing.B) {
+		b.SetBytes(benchSize)
+		for b.Loop() {
+			fh, err := os.Open(path)
+			if err != nil {
+				b.Fatal(err)
+			}
+			if _, err := io.Copy(io.Discard, fh); err != nil {
+				b.Fatal(err)
+			}
+			fh.Close()
+		}
+		catMBs = float64(benchSize) * float64(b.N) / b.Elapsed().Seconds() / 1e6
+	})
+	f, err := Open(path, Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	defer f.Close()
+	report := func(b *testing.B, tracesPerOp int) {
+		sec := b.Elapsed().Seconds()
+		b.ReportMetric(float64(tracesPerOp)*float64(b.N)/sec, "traces/s")
+		mbs := float64(tracesPerOp) * benchTraceSize * float64(b.N) / sec / 1e6
+		if catMBs > 0 {
+			b.ReportMetric(mbs/catMBs, "x-cat")
+		}
+	}
+	b.Run("inline", func(b *testing.B) {
+		b.SetBytes(benchCrosslines * benchTraceSize)
+		buf := make([]float32, benchSamples)
+		n := 0
+		for b.Loop() {
+			for _, tr := range f.InlineTraces(1000+(n*37)%benchInlines, 0) {
+				if buf, err = f.ReadTrace(tr, buf); err != nil {
+					b.Fatal(err)
+				}
+			}
+			n++
+		}
+		report(b, benchCrosslines)
+	})
+	b.Run("crossline", func(b *testing.B) {
+		b.SetBytes(benchInlines * benchTraceSize)
+		buf := make([]float32, benchSamples)
+		n := 0
+		for b.Loop() {
+			for _, tr := range f.CrosslineTraces(2000+(n*37)%benchCrosslines, 0) {
+				if buf, err = f.ReadTrace(tr, buf); err != nil {
+					b.Fatal(err)
+				}
+			}
+			n++
+		}
+		report(b, benchInlines)
+	})
+	b.Run("timeslice", func(b *testing.B) {
+		b.SetBytes(benchInlines * benchCrosslines * benchTraceSize)
+		n := 0
+		for b.Loop() {
+			if _, err := f.TimeSlice((n*131)%benchSamples, 0); err != nil {
+				b.Fatal(err)
+			}
+			n++
+		}
+		report(b, benchInlines*benchCrosslines)
+	})
+}
+
+// BenchmarkOpenVolume measures Open (header parse and the geometry scan of
+// all 128,000 trace headers, plus the 1000-trace amplitude sample).
+func BenchmarkOpenVolume(b *testing.B) {
+	path := benchVolume(b)
+	for b.Loop() {
+		f, err := Open(path, Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		f.Close()
+	}
+}
