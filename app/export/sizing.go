@@ -11,6 +11,14 @@ import (
 // is zero: 256 MiB.
 const DefaultBudget int64 = 256 << 20
 
+// gcPercent is the collector's heap growth ratio (GOGC) that Command sets
+// during an export; blockSize leaves room for the garbage it allows.
+// The trace blocks are pointer-free float arrays, cheap to collect, so a
+// collection every 25% of growth costs little and keeps the garbage of
+// finished blocks small next to the budget (the default 100% would let it
+// reach the live heap's size).
+const gcPercent = 25
+
 // blocksInFlight is the number of trace blocks alive at once: one being read,
 // one being computed, one being written.
 const blocksInFlight = 3
@@ -21,9 +29,11 @@ const traceHeaderBytes = 320
 
 // blockSize returns the number of traces per block so that blocksInFlight
 // blocks, each holding the input samples, a conditioned copy when
-// conditioned, and one output per attribute, fit in budget bytes:
+// conditioned, and one output per attribute, fit in budget bytes together
+// with the garbage the collector lets accumulate (gcPercent of the live
+// heap, the setting of the export command):
 //
-//	budget / (bytes per trace * (1 + conditioned + outputs) * blocksInFlight)
+//	budget / (bytes per trace * (1 + conditioned + outputs) * blocksInFlight * (1 + gcPercent/100))
 //
 // It is also capped so that a volume is cut into at least about 16 blocks
 // (progress moves and the stages overlap), but never below 64 traces a
@@ -35,10 +45,10 @@ func blockSize(budget int64, samples, outputs int, conditioned bool, total int) 
 		copies++
 	}
 	perTrace := (int64(samples)*4*copies + traceHeaderBytes) * blocksInFlight
-	n := budget / perTrace
+	n := budget * 100 / (perTrace * (100 + gcPercent))
 	if n < 1 {
 		return 0, fmt.Errorf("memory budget of %s cannot hold one trace of %d samples for %d outputs (needs at least %s)",
-			formatBytes(budget), samples, outputs, formatBytes(perTrace))
+			formatBytes(budget), samples, outputs, formatBytes(perTrace*(100+gcPercent)/100))
 	}
 	limit := max(64, (total+15)/16)
 	return int(min(n, int64(limit))), nil

@@ -16,13 +16,13 @@ func TestBlockSize(t *testing.T) {
 		want     int
 		wantFail bool
 	}{
-		// 256 MiB / ((1501*4*2 + 320) * 3) = 7258 traces, capped by total/16.
-		{"envelope, big volume", 256 << 20, 1501, 1, false, 1_000_000, 7258, false},
-		{"three attributes and conditioning", 256 << 20, 1501, 3, true, 1_000_000, 256 << 20 / ((1501*4*5 + 320) * 3), false},
+		// 256 MiB / ((1501*4*2 + 320) * 3 * 1.25) = 5806 traces.
+		{"envelope, big volume", 256 << 20, 1501, 1, false, 1_000_000, 5806, false},
+		{"three attributes and conditioning", 256 << 20, 1501, 3, true, 1_000_000, 256 << 20 * 4 / ((1501*4*5 + 320) * 3 * 5), false},
 		{"small volume cut in 16 blocks", 256 << 20, 1501, 1, false, 16000, 1000, false},
 		{"tiny volume keeps 64 traces a block", 256 << 20, 100, 1, false, 10, 64, false},
-		{"budget for one trace", (1000*4*2 + 320) * 3, 1000, 1, false, 1000, 1, false},
-		{"budget below one trace", (1000*4*2+320)*3 - 1, 1000, 1, false, 1000, 0, true},
+		{"budget for one trace", (1000*4*2 + 320) * 3 * 5 / 4, 1000, 1, false, 1000, 1, false},
+		{"budget below one trace", (1000*4*2+320)*3*5/4 - 1, 1000, 1, false, 1000, 0, true},
 	}
 	for _, c := range cases {
 		got, err := blockSize(c.budget, c.samples, c.outputs, c.cond, c.total)
