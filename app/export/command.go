@@ -33,7 +33,6 @@ const (
 // measures it on a 1.25 GB volume).
 const runtimeOverhead = 64 << 20
 
-
 // Command runs `quadtrace export` with args (after the sub-command name) and
 // returns the exit status: 0 when every output was written, 1 when the job
 // failed, 2 for a wrong command line, 130 when interrupted by SIGINT or
