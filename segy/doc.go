@@ -1,2 +1,46 @@
 // Package segy reads and writes SEG-Y files (revisions 0, 1 and 2.0).
+//
+// References: SEG-Y revision 1 (SEG Technical Standards Committee, 2002)
+// and SEG-Y revision 2.0 (2017) for every byte position and code; IBM
+// System/370 Principles of Operation for the hexadecimal floating-point
+// format. Tests also check against the segyio test files in
+// ../shared/segy-corpus and against Debian's python3-segyio 1.8.3.
+//
+// Reading. Open maps the file read-only (falling back to ReadAt when mmap
+// is refused), parses the textual header (EBCDIC or ASCII, detected),
+// extended textual headers (count at bytes 3505-3506, -1 = read until the
+// ((SEG: EndText)) stanza), the binary header, and every trace header, and
+// builds a geometry index. Sample formats 1, 2, 3, 5, 6, 7, 8, 9, 10, 11,
+// 12, 15 and 16 decode to float32; format 4 (obsolete) is refused.
+//
+// Decisions where the standard leaves a choice (each also noted where it
+// is implemented, and reported in Info.Warnings when it applies):
+//
+//   - Byte order: the rev 2.0 word at 3297-3300, else the order in which
+//     bytes 3225-3226 hold a known format code; Options.ByteOrder wins.
+//   - Samples per trace: binary header (rev 2: the extended count at
+//     3269-3272 when set); if it is 0 or disagrees with the first trace
+//     header, the value that divides the data into whole traces is used.
+//   - Sample interval: the binary header's; the first trace header's only
+//     when the binary one is not positive.
+//   - Start time: delay (trace bytes 109-110) times the time scalar
+//     (215-216) of the first trace.
+//   - A file whose data is not a whole number of traces is refused with an
+//     error naming the trace and byte where the file ends, unless
+//     Options.IgnorePartialTrace is set (then the tail is ignored).
+//   - Headers only: opens with Traces == 0, Layout "empty" and a "no traces"
+//     warning.
+//   - Missing and duplicate traces are counted, never fatal; the first of
+//     duplicates is used.
+//   - Nothing is allocated from sizes the headers claim: the trace count
+//     comes from the file size and the grid is built only when it has at
+//     most 4*traces+1024 cells (else the layout is "unstructured" and
+//     lookups use a map).
+//   - Trace numbers in errors are 0-based indices as in ReadTrace; byte
+//     numbers are 1-based file positions as the standards print them.
+//
+// Writing. Create and CreateNew stream a revision 1, big-endian file in
+// IEEE (format 5, default) or IBM (format 1) floats to a temporary file in
+// the destination folder and rename it into place on Commit; Create refuses
+// to overwrite its own input.
 package segy

@@ -17,27 +17,26 @@ import (
 // nearest float32 subnormal or to a signed zero. Unnormalised fractions are
 // accepted. A zero fraction gives a signed zero whatever the exponent.
 func IBMToFloat32(w uint32) float32 {
-	sign := w & 0x80000000
-	frac := w & 0x00ffffff
-	if frac == 0 {
-		return math.Float32frombits(sign)
-	}
-	exp := int((w >> 24) & 0x7f)
-	shift := bits.LeadingZeros32(frac) - 8 // 0..23; 0..3 for normalised input
-	frac <<= uint(shift)                   // bit 23 now set
-	// value = 0.1fff... (binary) * 2^e2 = 1.fff... * 2^(e2-1)
-	e2 := 4*(exp-64) - shift
-	biased := e2 - 1 + 127
-	if biased >= 1 && biased <= 254 {
-		return math.Float32frombits(sign | uint32(biased)<<23 | frac&0x7fffff)
-	}
-	// Outside the float32 normal range: let float64 do the rounding.
-	v := math.Ldexp(float64(frac), e2-24)
-	if sign != 0 {
-		v = -v
-	}
-	return float32(v)
+	// The 24-bit fraction is exact in float64 and the scale is a power of
+	// two, so the product is exact; the single rounding happens in the
+	// conversion to float32, which also yields Inf, subnormals and signed
+	// zeros as IEEE 754 prescribes.
+	return float32(float64(w&0x00ffffff) * ibmScale[w>>24])
 }
+
+// ibmScale[b] is the value of the top byte b (sign and excess-64 base-16
+// exponent) applied to a 24-bit integer fraction: ±16^(e-64) / 2^24.
+// Read-only after initialisation.
+var ibmScale = func() (t [256]float64) {
+	for b := range t {
+		v := math.Ldexp(1, 4*(b&0x7f-64)-24)
+		if b&0x80 != 0 {
+			v = -v
+		}
+		t[b] = v
+	}
+	return t
+}()
 
 // Float32ToIBM converts an IEEE 754 single-precision number to the 4-byte IBM
 // hexadecimal floating-point format (SEG-Y sample format 1), rounding the

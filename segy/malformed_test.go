@@ -227,6 +227,17 @@ func TestMalformedFiles(t *testing.T) {
 				t.Errorf("TraceIndex = %d %v", i, ok)
 			}
 		}},
+		{"numbering at the int32 extremes", func() []byte {
+			// regression: the grid size product overflowed (found by FuzzTraceHeaders)
+			s := base3D()
+			s.traces[0].il, s.traces[0].xl = math.MinInt32, math.MinInt32
+			s.traces[1].il, s.traces[1].xl = math.MaxInt32, math.MaxInt32
+			return s.bytes()
+		}, Options{}, "", func(t *testing.T, f *File) {
+			if f.Info().Layout != LayoutUnstructured || f.Info().Inline.Count != 1<<32 {
+				t.Errorf("layout %s inline %+v", f.Info().Layout, f.Info().Inline)
+			}
+		}},
 		{"PNG image", func() []byte { return append(slicesClone(pngHeader), random[:5000]...) }, Options{}, "unknown sample format", nil},
 		{"random bytes", func() []byte { return random }, Options{}, "unknown sample format", nil},
 		{"bad option", func() []byte { return good }, Options{InlineByte: 239}, "option InlineByte = 239", nil},

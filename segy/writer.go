@@ -102,8 +102,36 @@ func CreateNew(dst string, spec NewSpec, opt WriteOptions) (*Writer, error) {
 	binary.BigEndian.PutUint16(bin[3213-3201:], 1)       // data traces per ensemble
 	binary.BigEndian.PutUint16(bin[3255-3201:], 1)       // measurement system: metres
 	binary.BigEndian.PutUint16(bin[binSorting-3201:], 4) // trace sorting: horizontally stacked
-	delay := int(math.Round(spec.StartMS))
-	return newWriter(dst, text, bin, spec.Samples, spec.IntervalUS, delay, 1, opt)
+	delay, timeSc, err := encodeDelay(spec.StartMS)
+	if err != nil {
+		return nil, fmt.Errorf("segy.CreateNew %s: %w", dst, err)
+	}
+	return newWriter(dst, text, bin, spec.Samples, spec.IntervalUS, delay, timeSc, opt)
+}
+
+// encodeDelay expresses a start time in ms as the int16 delay recording
+// time (trace bytes 109-110) and its time scalar (215-216; negative
+// divides, SEG-Y rev 1 table 3), choosing the smallest of 1, -10, -100,
+// -1000 that represents it exactly, else the finest that fits.
+func encodeDelay(ms float64) (delay, scalar int, err error) {
+	if math.IsNaN(ms) || math.Abs(ms) > math.MaxInt16 {
+		return 0, 0, fmt.Errorf("start time %v ms does not fit the 16-bit delay field", ms)
+	}
+	best, bestSc := int(math.Round(ms)), 1
+	for _, sc := range []int{1, 10, 100, 1000} {
+		v := ms * float64(sc)
+		if math.Abs(v) > math.MaxInt16 {
+			break
+		}
+		best, bestSc = int(math.Round(v)), sc
+		if v == math.Round(v) {
+			break
+		}
+	}
+	if bestSc == 1 {
+		return best, 1, nil
+	}
+	return best, -bestSc, nil
 }
 
 func newWriter(dst, text string, bin []byte, samples, interval, delay, timeSc int, opt WriteOptions) (*Writer, error) {

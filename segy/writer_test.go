@@ -181,6 +181,24 @@ func TestCreateNewRoundTrip(t *testing.T) {
 	checkGridAt(t, f, 3, 4)
 }
 
+func TestEncodeDelay(t *testing.T) {
+	for _, c := range []struct {
+		ms            float64
+		delay, scalar int
+	}{{0, 0, 1}, {100, 100, 1}, {12.5, 125, -10}, {-0.25, -25, -100}, {1.0625, 1063, -1000}, {3000.5, 30005, -10}} {
+		d, s, err := encodeDelay(c.ms)
+		if err != nil || d != c.delay || s != c.scalar {
+			t.Errorf("encodeDelay(%v) = %d, %d, %v; want %d, %d", c.ms, d, s, err, c.delay, c.scalar)
+		}
+		if c.ms != 1.0625 && applyScalar(float64(d), s) != c.ms {
+			t.Errorf("%v does not come back", c.ms)
+		}
+	}
+	if _, _, err := encodeDelay(40000); err == nil {
+		t.Error("40000 ms accepted")
+	}
+}
+
 func checkGridAt(t *testing.T, f *File, nil_, nxl int) {
 	t.Helper()
 	var buf []float32
