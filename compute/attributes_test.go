@@ -10,7 +10,7 @@ func interior(n int) (int, int) { return n / 4, 3 * n / 4 }
 
 // Source: calculus on the analytic trace of an AM carrier (Bracewell, as in
 // TestEnvelopeOfModulatedCarrier): a = 1 + d cos(ωm t), so
-// a' = -d ωm sin(ωm t) and a'' = -d ωm² cos(ωm t); the instantaneous
+// a' = -d ωm sin(ωm t) and a” = -d ωm² cos(ωm t); the instantaneous
 // frequency is the carrier's, the instantaneous bandwidth |a'/a|/2π
 // (Barnes 1992) and the dominant frequency sqrt(f² + b²) (Barnes 1993).
 func TestEnvelopeDerivativesBandwidthDominantOnAM(t *testing.T) {

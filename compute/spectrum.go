@@ -13,8 +13,8 @@ type Spectrum struct {
 }
 
 // TraceSpectrum returns the amplitude spectrum of a trace sampled at dt
-// seconds. The trace (gaps as zeros, no taper) is zero-padded to
-// FastLength(n), which only interpolates the spectrum. Amplitudes are
+// seconds. The trace (gaps as zeros, no taper) is transformed at its own
+// length n, so bin k is at k/(n dt) Hz. Amplitudes are
 // scaled so a sinusoid of amplitude A filling the trace reads about A at
 // its frequency: 2|X_k|/n, and |X_k|/n at 0 Hz and Nyquist. It returns the
 // zero Spectrum for an empty trace or a sampling interval that is not a
@@ -62,7 +62,7 @@ type spectrumWork struct {
 }
 
 func (s *spectrumWork) setup(n int, dt, tukey float64) {
-	_ = s.analytic.setup(n, dt, EndTreatment{Pad: PadFast}) // PadFast cannot fail
+	_ = s.analytic.setup(n, dt, EndTreatment{Pad: PadNone}) // PadNone cannot fail
 	s.w = make([]float64, n)
 	s.sum = make([]float64, len(s.spec))
 	L := int(math.Round(tukey * float64(n)))

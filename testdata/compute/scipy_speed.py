@@ -1,0 +1,95 @@
+#!/usr/bin/python3
+"""Speed comparison for issue 3: quadtrace's instantaneous set against
+scipy's pipeline, measured in one run on the same machine.
+
+Run from anywhere with /usr/bin/python3 (Debian python3-scipy):
+
+    /usr/bin/python3 testdata/compute/scipy_speed.py [--repeats N]
+
+It builds the benchmark array of compute/bench_test.go (2000 traces x 1501
+samples at 4 ms, same formula), times scipy.signal.hilbert + abs + angle +
+unwrapped-difference frequency on it (the pipeline named in the issue; best
+of N runs, single-threaded as scipy runs it), then runs
+
+    go test -run '^$' -bench 'BenchmarkInstantaneousSet$' -benchtime 10x -count 3 ./compute/
+
+in the project root, takes the best ns/op of each sub-benchmark, times
+scipy again, and prints the ratio scipy / quadtrace (above 1 = quadtrace
+faster). The machine is shared, so both sides take their best run.
+"""
+import argparse
+import os
+import re
+import subprocess
+import sys
+import time
+
+import numpy as np
+import scipy
+import scipy.signal
+
+TRACES, SAMPLES, DT = 2000, 1501, 0.004
+
+
+def bench_array():
+    """The array of benchSection in compute/bench_test.go."""
+    i = np.arange(TRACES, dtype=np.float64)[:, None]
+    k = np.arange(SAMPLES, dtype=np.float64)[None, :]
+    noise = np.sin(i * 12.9898 + k * 78.233) * 43758.5453
+    noise -= np.floor(noise)
+    x = (np.sin(2 * np.pi * DT * k * (25 + 0.01 * i))
+         + 0.5 * np.sin(2 * np.pi * DT * k * (40 - 0.005 * i))
+         + (noise - 0.5))
+    return x.astype(np.float32)
+
+
+def scipy_pipeline(x):
+    z = scipy.signal.hilbert(x, axis=-1)
+    envelope = np.abs(z)
+    phase = np.angle(z)
+    frequency = np.diff(np.unwrap(phase, axis=-1), axis=-1) / (2 * np.pi * DT)
+    return envelope, phase, frequency
+
+
+def time_scipy(x, repeats):
+    best = float("inf")
+    for _ in range(repeats):
+        t = time.perf_counter()
+        scipy_pipeline(x)
+        best = min(best, time.perf_counter() - t)
+    return best
+
+
+def time_go(root):
+    cmd = ["go", "test", "-run", "^$", "-bench", "BenchmarkInstantaneousSet$",
+           "-benchtime", "10x", "-count", "3", "./compute/"]
+    out = subprocess.run(cmd, cwd=root, capture_output=True, text=True)
+    if out.returncode != 0:
+        sys.exit("go test failed:\n" + out.stdout + out.stderr)
+    best = {}
+    for m in re.finditer(r"^BenchmarkInstantaneousSet/(\S+?)(?:-\d+)?\s+\d+\s+([\d.]+) ns/op", out.stdout, re.M):
+        name, ns = m.group(1), float(m.group(2))
+        best[name] = min(best.get(name, float("inf")), ns / 1e9)
+    if not best:
+        sys.exit("no BenchmarkInstantaneousSet result in:\n" + out.stdout)
+    return best
+
+
+def main():
+    ap = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    ap.add_argument("--repeats", type=int, default=5)
+    args = ap.parse_args()
+    root = os.path.abspath(os.path.join(os.path.dirname(__file__), "..", ".."))
+    x = bench_array()
+    before = time_scipy(x, args.repeats)
+    go = time_go(root)
+    after = time_scipy(x, args.repeats)
+    sp = min(before, after)
+    print(f"array: {TRACES} traces x {SAMPLES} samples, {os.cpu_count()} cores; scipy {scipy.__version__}, numpy {np.__version__}")
+    print(f"scipy hilbert+abs+angle+unwrap-diff: {sp * 1e3:8.1f} ms (best of {2 * args.repeats}; {before * 1e3:.1f} before, {after * 1e3:.1f} after the Go run)")
+    for name, sec in sorted(go.items()):
+        print(f"quadtrace Instantaneous {name:10s}: {sec * 1e3:8.1f} ms   ratio scipy/quadtrace = {sp / sec:.2f}")
+
+
+if __name__ == "__main__":
+    main()
