@@ -36,8 +36,9 @@ func (f *File) traceHeaderBytes(i int, buf []byte) ([]byte, error) {
 // 193, SEG-Y rev 1 table 3). When those bytes hold no numbering (every
 // trace has the same pair) and were not overridden, the scan falls back to
 // the 2D/field conventions of the same table and says so in Warnings:
-// bytes 9 (field record) and 21 (CDP ensemble) when the CDP numbers vary,
-// else bytes 9 and 13 (field record, trace number within the record); a
+// bytes 9 (field record) and 21 (CDP ensemble) when the CDP numbers vary
+// (byte 21 alone, as one line, when the field records vary too), else bytes
+// 9 and 13 (field record, trace number within the record); a
 // single location with several offsets stays as it is; with no numbering at
 // all traces are numbered by position as one line and the
 // layout is "unstructured".
@@ -86,9 +87,12 @@ func (f *File) scanGeometry(bin []byte) error {
 			cdp[i] = int32(o.Uint32(h[thCDP-1:]))
 		}
 		switch {
-		case !allSame(cdp):
+		case !allSame(cdp) && allSame(ffid):
 			il, xl = ffid, cdp
 			f.warnf("inline/crossline bytes %d/%d hold no numbering: fell back to bytes 9/21 (field record / CDP ensemble number)", f.ilByte, f.xlByte)
+		case !allSame(cdp):
+			il, xl = make([]int32, n), cdp
+			f.warnf("inline/crossline bytes %d/%d hold no numbering: fell back to byte 21 (CDP ensemble number) as one line; field records (byte 9) vary", f.ilByte, f.xlByte)
 		case !allSame(ffid) || !allSame(chn):
 			il, xl = ffid, chn
 			fromRecords = true

@@ -72,6 +72,22 @@ func TestGeometryLayouts(t *testing.T) {
 			t.Errorf("spacing %v extent %v..%v", in.InlineSpacingM, in.MinX, in.MaxX)
 		}
 	})
+	t.Run("2D CDP gathers fall back to byte 21", func(t *testing.T) {
+		s := synthFile{format: 5, samples: 4, interval: 2000, trSamples: -1, trIntvl: -1}
+		for cdp := 11; cdp <= 20; cdp++ {
+			for k, off := range []int{100, 200, 300} {
+				s.traces = append(s.traces, synthTrace{cdp: cdp, ffid: cdp + k, off: off})
+			}
+		}
+		f, _ := openBytes(s.bytes(), "2dps.sgy", Options{})
+		in := f.Info()
+		if in.Layout != LayoutPrestack || in.Crossline != (Range{11, 20, 1, 10}) || in.Inline.Count != 1 || len(in.Offsets) != 3 || in.MissingTraces != 0 || !hasWarning(in, "fell back to byte 21") {
+			t.Fatalf("%s %+v %+v %v %q", in.Layout, in.Inline, in.Crossline, in.Offsets, in.Warnings)
+		}
+		if i, ok := f.TraceIndex(0, 15, 200); !ok || i != 13 {
+			t.Errorf("TraceIndex = %d %v", i, ok)
+		}
+	})
 	t.Run("no numbering at all", func(t *testing.T) {
 		s := synthFile{format: 5, samples: 4, interval: 2000, trSamples: -1, trIntvl: -1, traces: make([]synthTrace, 9)}
 		f, _ := openBytes(s.bytes(), "none.sgy", Options{})
