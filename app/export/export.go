@@ -76,7 +76,8 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	if st.IsDir() {
 		return nil, fmt.Errorf("export: %s is a folder, not a SEG-Y file", p.input)
 	}
-	src, err := segy.OpenReaderAt(fh, st.Size(), p.input, p.options)
+	win := &windowReader{r: fh}
+	src, err := segy.OpenReaderAt(win, st.Size(), p.input, p.options)
 	if err != nil {
 		return nil, fmt.Errorf("export: %w", err)
 	}
@@ -107,6 +108,18 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, fmt.Errorf("export: %s: %w", p.input, err)
 	}
 	total := selectionSize(runs)
+	// The geometry scan at open and the range selection read only trace
+	// headers, for which a window would read whole traces; the pipeline
+	// reads runs of consecutive traces, for which a window up to the
+	// longest run saves two system calls per trace.
+	longest := 0
+	for _, r := range runs {
+		longest = max(longest, r.Count)
+	}
+	traceBytes := segy.TraceHeaderSize + info.Samples*segy.FormatSize(info.Format)
+	if window := min(readWindow, longest*traceBytes); window >= 2*traceBytes {
+		win.enable(window)
+	}
 	perBlock, err := blockSize(p.budget, info.Samples, len(p.stages), p.cond.apply != nil, total)
 	if err != nil {
 		return nil, fmt.Errorf("export: %w", err)
@@ -131,7 +144,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	}
 
 	dt, t0 := float64(info.IntervalUS)*1e-6, info.StartMS*1e-3
-	inBytes := int64(segy.TraceHeaderSize + info.Samples*segy.FormatSize(info.Format))
+	inBytes := int64(traceBytes)
 	pl := &pipeline[segy.TraceHeader]{
 		runs: runs, samples: info.Samples, blockTraces: perBlock, inFlight: blocksInFlight,
 		read: func(i int, h *segy.TraceHeader, dst []float32) ([]float32, error) {
