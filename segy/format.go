@@ -74,12 +74,16 @@ func decodeIBM(dst []float32, src []byte, o binary.ByteOrder) {
 	src = src[:len(dst)*4]
 	if o == binary.ByteOrder(binary.BigEndian) {
 		for i := range dst {
-			dst[i] = IBMToFloat32(binary.BigEndian.Uint32(src[4*i:]))
+			b := src[4*i : 4*i+4 : 4*i+4]
+			w := uint32(b[3]) | uint32(b[2])<<8 | uint32(b[1])<<16 | uint32(b[0])<<24
+			dst[i] = float32(float64(w&0x00ffffff) * ibmScale[w>>24])
 		}
 		return
 	}
 	for i := range dst {
-		dst[i] = IBMToFloat32(binary.LittleEndian.Uint32(src[4*i:]))
+		b := src[4*i : 4*i+4 : 4*i+4]
+		w := uint32(b[0]) | uint32(b[1])<<8 | uint32(b[2])<<16 | uint32(b[3])<<24
+		dst[i] = float32(float64(w&0x00ffffff) * ibmScale[w>>24])
 	}
 }
 
