@@ -281,13 +281,19 @@ func (w *Writer) WriteTrace(h TraceHeader, samples []float32) error {
 	return nil
 }
 
-// Commit flushes, syncs and renames the temporary file into place.
+// Commit flushes, syncs and renames the temporary file into place, with
+// mode 0644.
 func (w *Writer) Commit() error {
 	if w.done {
 		return fmt.Errorf("segy: write %s: writer already committed or aborted", w.dst)
 	}
 	w.done = true
 	err := w.bw.Flush()
+	if err == nil {
+		// CreateTemp makes the file 0600; a finished export is an
+		// ordinary readable file.
+		err = w.fh.Chmod(0o644)
+	}
 	if err == nil {
 		err = w.fh.Sync()
 	}

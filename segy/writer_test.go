@@ -163,6 +163,9 @@ func TestCreateNewRoundTrip(t *testing.T) {
 	if err := w.Commit(); err != nil {
 		t.Fatal(err)
 	}
+	if st, err := os.Stat(dst); err != nil || st.Mode().Perm() != 0o644 {
+		t.Errorf("committed file mode %v (%v)", st.Mode(), err)
+	}
 	f := openT(t, dst, Options{})
 	in := f.Info()
 	if in.Layout != Layout3DInlineSorted || in.Traces != 12 || in.StartMS != 200 || in.IntervalUS != 4000 || in.Format != 5 {
