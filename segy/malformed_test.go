@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
+	"runtime"
 	"strings"
 	"testing"
 	"time"
@@ -340,4 +341,51 @@ func exerciseAll(t *testing.T, f *File) {
 	f.TraceIndex(in.Inline.Min, in.Crossline.Max, 0)
 	f.ReadTrace(-1, nil)
 	f.ReadTrace(in.Traces, nil)
+}
+
+// Headers claiming huge sizes must fail fast without allocating for them
+// (issue: allocation follows the real file size only).
+func TestHugeClaimsDoNotAllocate(t *testing.T) {
+	cases := []struct {
+		name string
+		edit func(b []byte)
+		want string
+	}{
+		{"rev 2 extended sample count 2e9", func(b []byte) {
+			b[3500], b[3501] = 2, 0                          // SEG-Y rev 2.0: bytes 3501-3502 revision
+			binary.BigEndian.PutUint32(b[3268:], 2000000000) // bytes 3269-3272 extended samples per trace
+		}, "using 8"}, // the trace headers' count divides the file: opens with a warning
+		{"rev 2 extended sample count 2e9 in every header", func(b []byte) {
+			b[3500], b[3501] = 2, 0
+			binary.BigEndian.PutUint32(b[3268:], 2000000000)
+			binary.BigEndian.PutUint16(b[3600+114:], 0)
+		}, "file ends"},
+		{"65535 samples of 8 bytes", func(b []byte) {
+			binary.BigEndian.PutUint16(b[3220:], 65535)
+			binary.BigEndian.PutUint16(b[3224:], 6)
+			binary.BigEndian.PutUint16(b[3600+114:], 65535)
+		}, "file ends"},
+		{"32767 extended textual headers", func(b []byte) {
+			binary.BigEndian.PutUint16(b[3504:], 32767)
+		}, "32767 extended textual headers need"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			b := base3D().bytes()
+			c.edit(b)
+			var before, after runtime.MemStats
+			runtime.ReadMemStats(&before)
+			f, err := openBytes(b, "huge.sgy", Options{})
+			runtime.ReadMemStats(&after)
+			switch {
+			case err == nil && !hasWarning(f.Info(), c.want):
+				t.Fatalf("opened with warnings %q, want %q", f.Info().Warnings, c.want)
+			case err != nil && !strings.Contains(err.Error(), c.want):
+				t.Fatalf("error %v, want %q", err, c.want)
+			}
+			if d := after.TotalAlloc - before.TotalAlloc; d > 1<<20 {
+				t.Errorf("allocated %d bytes for a %d-byte file", d, len(b))
+			}
+		})
+	}
 }
