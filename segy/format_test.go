@@ -12,7 +12,9 @@ import (
 // rev 2.0 (2017) table 2, bytes 3225-3226 (adds 6 = 8-byte IEEE, 7 = 3-byte
 // two's complement, 9 = 8-byte two's complement, 10 = 4-byte unsigned,
 // 11 = 2-byte unsigned, 12 = 8-byte unsigned, 15 = 3-byte unsigned,
-// 16 = 1-byte unsigned). Each case gives big-endian sample bytes written
+// 16 = 1-byte unsigned; the rev 2.0 codes are recalled from memory and
+// agree with the SEGY_FORMAT enum of segyio's lib/include/segyio/segy.h in
+// releases after 1.8.3). Each case gives big-endian sample bytes written
 // by hand and the value they encode; the little-endian variant reverses
 // each sample's bytes.
 func TestSampleFormats(t *testing.T) {
