@@ -5,7 +5,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"strconv"
 	"strings"
 )
 
@@ -253,6 +252,3 @@ options:
   --out FILE   the joined volume (written to a temporary file, renamed when complete)
   --quiet      print nothing on success
 `
-
-// itoa is strconv.Itoa, short for messages.
-func itoa(n int) string { return strconv.Itoa(n) }

@@ -11,7 +11,6 @@ import (
 	"testing"
 
 	"quadtrace/compute"
-	"quadtrace/segy"
 )
 
 // corpusFile returns the path of a file of ../shared/segy-corpus (segyio's
@@ -440,7 +439,6 @@ func TestExportJobErrors(t *testing.T) {
 			}
 		}
 	}
-	_ = segy.Options{}
 }
 
 // Checks: join refuses parts that differ in sampling or format, that repeat
