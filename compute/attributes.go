@@ -99,9 +99,13 @@ func quadratureAt(w *traceWork, j int) float64 { return w.h[j] }
 func envelopeAt(w *traceWork, j int) float64 { return math.Hypot(w.x[j], w.h[j]) }
 
 // phaseAt is atan2(h, x) in degrees, -180..180.
-func phaseAt(w *traceWork, j int) float64 { return math.Atan2(w.h[j], w.x[j]) * (180 / math.Pi) }
+func phaseAt(w *traceWork, j int) float64 { return fastAtan2(w.h[j], w.x[j]) * (180 / math.Pi) }
 
-func cosPhaseAt(w *traceWork, j int) float64 { return cosPhase(w.x[j], math.Hypot(w.x[j], w.h[j])) }
+func cosPhaseAt(w *traceWork, j int) float64 {
+	x, h := w.x[j], w.h[j]
+	a2 := x*x + h*h
+	return cosPhase(x, math.Sqrt(a2), 1/(a2+w.eps))
+}
 
 // frequencyAt is Taner, Koehler and Sheriff's (1979) derivative formula
 // f = (x h' - h x') / (2π a²), ε-stabilized.

@@ -47,15 +47,18 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 		const toDeg = 180 / math.Pi
 		const inv2pi = 1 / (2 * math.Pi)
 		x, h, dx, dh := p.x[:n], p.h[:n], p.dx[:n], p.dh[:n]
-		for j := range x {
-			xj, hj := x[j], h[j]
+		dx, dh = dx[:len(x)], dh[:len(x)]
+		q, a, ph, f, c = q[:len(x)], a[:len(x)], ph[:len(x)], f[:len(x)], c[:len(x)]
+		for j, xj := range x {
+			hj := h[j]
 			a2 := xj*xj + hj*hj
-			q[j] = float32(hj)
+			inv := 1 / (a2 + eps)
 			r := math.Sqrt(a2)
+			q[j] = float32(hj)
 			a[j] = float32(r)
-			ph[j] = float32(math.Atan2(hj, xj) * toDeg)
-			f[j] = float32((xj*dh[j] - hj*dx[j]) * inv2pi / (a2 + eps))
-			c[j] = float32(cosPhase(xj, r))
+			ph[j] = float32(fastAtan2(hj, xj) * toDeg)
+			f[j] = float32((xj*dh[j] - hj*dx[j]) * inv2pi * inv)
+			c[j] = float32(cosPhase(xj, r, inv))
 		}
 		if p.gaps > 0 {
 			for j, g := range p.gap {
@@ -73,17 +76,15 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 	return set, nil
 }
 
-// cosPhase returns x/a, the cosine of the instantaneous phase, or 0 where
-// the envelope a is 0 (phase undefined). |x| <= a, so it lies in -1..1.
-func cosPhase(x, a float64) float64 {
-	if a == 0 {
-		return 0
-	}
-	return min(1, max(-1, x/a)) // rounding in sqrt can push |x/a| a hair past 1
+// cosPhase returns the cosine of the instantaneous phase as x·a/(a² + ε)
+// (inv = 1/(a² + ε)): x/a wherever the envelope is not negligible, 0 for a
+// dead trace, and always in -1..1 since |x| <= a.
+func cosPhase(x, a, inv float64) float64 {
+	return min(1, max(-1, x*a*inv))
 }
 
 // stabilizer returns the small number ε added to a² wherever the squared
-// envelope divides (instantaneous frequency and bandwidth):
+// envelope divides (instantaneous frequency and bandwidth, cosine of phase):
 // 1e-8 of the trace's mean a², plus the smallest normal float64 so a dead
 // trace gives 0 rather than NaN. It changes values only where the envelope
 // is below about 1e-4 of its RMS, where those quotients are undefined.
