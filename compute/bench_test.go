@@ -25,7 +25,8 @@ func benchSection(traces, samples int) Section {
 }
 
 // BenchmarkInstantaneousSet times envelope, phase, frequency and cosine of
-// phase (and quadrature) on 2000 x 1501 samples, default end treatment.
+// phase on 2000 x 1501 samples, with the default end treatment (pad=fast)
+// and with pad=none.
 func BenchmarkInstantaneousSet(b *testing.B) {
 	for _, pad := range []string{PadFast, PadNone} {
 		b.Run("pad="+pad, func(b *testing.B) {

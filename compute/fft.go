@@ -76,12 +76,20 @@ func (f *pow2FFT) Coefficients(dst []complex128, seq []float64) []complex128 {
 	z0 := z[0]
 	dst[0] = complex(real(z0)+imag(z0), 0)
 	dst[m] = complex(real(z0)-imag(z0), 0)
-	for k := 1; k < m; k++ {
+	// Bins k and m-k share their inputs: with e and o the spectra of the
+	// even and odd samples at k, X_k = e + W^k o and X_{m-k} = conj(e - W^k o).
+	for k := 1; k <= m/2; k++ {
 		a, b := z[k], z[m-k]
 		b = complex(real(b), -imag(b))
-		e := (a + b) * 0.5              // spectrum of the even samples
-		o := (a - b) * complex(0, -0.5) // spectrum of the odd samples
-		dst[k] = e + f.tw[k]*o
+		e := (a + b) * 0.5
+		d := a - b
+		o := complex(0.5*imag(d), -0.5*real(d)) // (a - b)/(2i)
+		t := f.tw[k] * o
+		dst[k] = e + t
+		if k != m-k {
+			u := e - t
+			dst[m-k] = complex(real(u), -imag(u))
+		}
 	}
 	return dst
 }
@@ -91,16 +99,20 @@ func (f *pow2FFT) Coefficients(dst []complex128, seq []float64) []complex128 {
 // imaginary parts of X_0 and X_m are ignored).
 func (f *pow2FFT) Sequence(dst []float64, coeff []complex128) []float64 {
 	m, z := f.m, f.z
-	for k := range m {
-		a, b := coeff[k], coeff[m-k] // X_{k+m} = conj(X_{m-k})
-		if k == 0 {
-			a, b = complex(real(a), 0), complex(real(b), 0)
-		}
+	x0, xm := real(coeff[0]), real(coeff[m])
+	z[0] = complex(x0+xm, x0-xm)
+	// With X_{k+m} = conj(X_{m-k}): e = X_k + X_{k+m} and
+	// o = (X_k - X_{k+m}) W^-k at k, and their conjugates at m-k.
+	for k := 1; k <= m/2; k++ {
+		a, b := coeff[k], coeff[m-k]
 		b = complex(real(b), -imag(b))
 		e := a + b
 		w := f.tw[k]
 		o := (a - b) * complex(real(w), -imag(w))
 		z[k] = e + complex(-imag(o), real(o)) // e + i·o
+		if k != m-k {
+			z[m-k] = complex(real(e)+imag(o), real(o)-imag(e)) // conj(e) + i·conj(o)
+		}
 	}
 	if f.radix4 {
 		fourier.SequenceRadix4(z)

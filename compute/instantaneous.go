@@ -11,11 +11,10 @@ import (
 // and Sheriff, 1979, "Complex seismic trace analysis", Geophysics 44(6),
 // 1041-1063). Each field has the shape and sampling of the input.
 type InstantaneousSet struct {
-	Quadrature Section // h, the imaginary part of the analytic trace
-	Envelope   Section // a = sqrt(x² + h²)
-	Phase      Section // atan2(h, x) in degrees, -180..180
-	Frequency  Section // (x h' - h x') / (2π a²) in Hz
-	CosPhase   Section // cos of the phase, x / a, in -1..1
+	Envelope  Section // a = sqrt(x² + h²)
+	Phase     Section // atan2(h, x) in degrees, -180..180
+	Frequency Section // (x h' - h x') / (2π a²) in Hz
+	CosPhase  Section // cos of the phase, x / a, in -1..1
 }
 
 // Instantaneous computes the InstantaneousSet of a section on all cores:
@@ -30,7 +29,7 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 	if _, err := end.transformLength(1); err != nil {
 		return set, fmt.Errorf("instantaneous attributes: %w", err)
 	}
-	set = InstantaneousSet{Quadrature: newLike(in), Envelope: newLike(in), Phase: newLike(in), Frequency: newLike(in), CosPhase: newLike(in)}
+	set = InstantaneousSet{Envelope: newLike(in), Phase: newLike(in), Frequency: newLike(in), CosPhase: newLike(in)}
 	n := in.Samples()
 	if n == 0 {
 		return set, nil
@@ -42,19 +41,18 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 		p.load(in.Traces[i])
 		p.quadrature()
 		p.derivatives()
-		q, a, ph, f, c := set.Quadrature.Traces[i], set.Envelope.Traces[i], set.Phase.Traces[i], set.Frequency.Traces[i], set.CosPhase.Traces[i]
+		a, ph, f, c := set.Envelope.Traces[i], set.Phase.Traces[i], set.Frequency.Traces[i], set.CosPhase.Traces[i]
 		eps := p.stabilizer()
 		const toDeg = 180 / math.Pi
 		const inv2pi = 1 / (2 * math.Pi)
 		x, h, dx, dh := p.x[:n], p.h[:n], p.dx[:n], p.dh[:n]
 		dx, dh = dx[:len(x)], dh[:len(x)]
-		q, a, ph, f, c = q[:len(x)], a[:len(x)], ph[:len(x)], f[:len(x)], c[:len(x)]
+		a, ph, f, c = a[:len(x)], ph[:len(x)], f[:len(x)], c[:len(x)]
 		for j, xj := range x {
 			hj := h[j]
 			a2 := xj*xj + hj*hj
 			inv := 1 / (a2 + eps)
 			r := math.Sqrt(a2)
-			q[j] = float32(hj)
 			a[j] = float32(r)
 			ph[j] = float32(fastAtan2(hj, xj) * toDeg)
 			f[j] = float32((xj*dh[j] - hj*dx[j]) * inv2pi * inv)
@@ -64,7 +62,7 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 			for j, g := range p.gap {
 				if g {
 					nan := float32(math.NaN())
-					q[j], a[j], ph[j], f[j], c[j] = nan, nan, nan, nan, nan
+					a[j], ph[j], f[j], c[j] = nan, nan, nan, nan
 				}
 			}
 		}

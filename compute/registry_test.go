@@ -185,7 +185,7 @@ func TestEveryAttributeShapeGapsAndFinite(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for id, s := range map[string]Section{"quadrature": set.Quadrature, "envelope": set.Envelope, "instantaneous-phase": set.Phase,
+	for id, s := range map[string]Section{"envelope": set.Envelope, "instantaneous-phase": set.Phase,
 		"instantaneous-frequency": set.Frequency, "cosine-phase": set.CosPhase} {
 		r := compute(t, id, nil, sec)
 		for i := range r.Traces {
