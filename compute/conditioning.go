@@ -11,7 +11,7 @@ import (
 // Conditioning is the optional preparation applied to traces before an
 // attribute: a zero-phase band-pass, then automatic gain control.
 //
-// Band-pass: the trace, zero-padded to a fast length of at least twice its
+// Band-pass: the trace, zero-padded to a power of two at least twice its
 // own (so the filter does not wrap one end onto the other), is multiplied
 // in the frequency domain by a real, non-negative gain, so no phase shift.
 // Each corner f_c is the half-amplitude (-6 dB) point of a cosine-squared

@@ -100,7 +100,7 @@ func (a *Attribute) Compute(ctx context.Context, in Section, p Params, progress 
 // Parameter specs shared by several attributes.
 func padParam() ParamSpec {
 	return ParamSpec{Name: "pad", Default: PadFast, Choices: PadModes(),
-		Description: "end treatment of the FFT: none = plain discrete analytic signal (Marple 1999); fast = zero-pad to a 2^a3^b5^c length; double = zero-pad to at least twice the trace"}
+		Description: "end treatment of the FFT: none = plain discrete analytic signal (Marple 1999); fast = zero-pad to the next power of two; double = zero-pad to a power of two at least twice the trace"}
 }
 
 func taperParam() ParamSpec {
