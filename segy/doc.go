@@ -22,7 +22,8 @@
 //     3269-3272 when set); if it is 0 or disagrees with the first trace
 //     header, the value that divides the data into whole traces is used.
 //   - Sample interval: the binary header's; the first trace header's only
-//     when the binary one is not positive.
+//     when the binary one is not positive. A negative trace-header interval
+//     is reported; a zero one is not (many writers leave it 0).
 //   - Start time: delay (trace bytes 109-110) times the time scalar
 //     (215-216) of the first trace.
 //   - A file whose data is not a whole number of traces is refused with an
@@ -31,7 +32,8 @@
 //   - Headers only: opens with Traces == 0, Layout "empty" and a "no traces"
 //     warning.
 //   - Missing and duplicate traces are counted, never fatal; the first of
-//     duplicates is used.
+//     duplicates is used. NaN and infinite samples, and traces that are all
+//     zero (every sampled one), are reported; samples are returned as read.
 //   - Nothing is allocated from sizes the headers claim: the trace count
 //     comes from the file size and the grid is built only when it has at
 //     most 4*traces+1024 cells (else the layout is "unstructured" and

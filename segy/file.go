@@ -236,7 +236,13 @@ func (f *File) bytesAt(off int64, n int, buf []byte) ([]byte, error) {
 		buf = make([]byte, n)
 	}
 	buf = buf[:n]
-	if _, err := f.r.ReadAt(buf, off); err != nil && !(errors.Is(err, io.EOF) && len(buf) == n) {
+	// io.ReaderAt may return io.EOF with a full read at the end of the
+	// data; a short read is an error whatever err says (the data ended
+	// before the size given at Open, e.g. a file cut short since).
+	if m, err := f.r.ReadAt(buf, off); m < n {
+		if err == nil || errors.Is(err, io.EOF) {
+			err = io.ErrUnexpectedEOF
+		}
 		return nil, err
 	}
 	return buf, nil
@@ -543,7 +549,10 @@ func (f *File) sizeTraces(bin []byte) error {
 		ivTr = i16(th, thInterval, 1, f.order)
 	}
 	switch {
-	case ivBin > 0 && (ivTr <= 0 || ivTr == ivBin):
+	case ivBin > 0 && ivTr < 0:
+		f.info.IntervalUS = ivBin
+		f.warnf("first trace header interval is %d (byte %d): using %d from the binary header", ivTr, f.dataStart+thInterval, ivBin)
+	case ivBin > 0 && (ivTr == 0 || ivTr == ivBin):
 		f.info.IntervalUS = ivBin
 	case ivBin > 0:
 		f.info.IntervalUS = ivBin

@@ -6,6 +6,8 @@ import (
 	"math"
 	"slices"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 // Sample formats of SEG-Y rev 1 (2002) section 4 (codes 1, 2, 3, 5, 8) and
@@ -59,10 +61,10 @@ func TestSampleFormats(t *testing.T) {
 				if little {
 					order = binary.LittleEndian
 				}
-				s := synthFile{order: order, format: c.format, samples: len(raw), interval: 2000, trSamples: -1, trIntvl: -1,
-					traces:      grid3D([]int{10, 11}, []int{100, 101, 102}, len(raw)),
-					sampleBytes: func(tr, k int) []byte { return raw[k] }}
-				f, err := openBytes(s.bytes(), "formats.sgy", Options{})
+				s := segytest.File{Order: order, Format: c.format, Samples: len(raw), Interval: 2000, TraceSamples: -1, TraceInterval: -1,
+					Traces:      segytest.Grid3D([]int{10, 11}, []int{100, 101, 102}, len(raw)),
+					SampleBytes: func(tr, k int) []byte { return raw[k] }}
+				f, err := openBytes(s.Bytes(), "formats.sgy", Options{})
 				if err != nil {
 					t.Fatal(err)
 				}

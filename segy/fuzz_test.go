@@ -7,6 +7,8 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 // Native fuzz targets (go test -fuzz=FuzzX -fuzztime=20s ./segy/). Seeds:
@@ -34,13 +36,19 @@ func addCorpusSeeds(f *testing.F) {
 }
 
 func malformedSeeds() [][]byte {
-	good := base3D().bytes()
+	good := base3D().Bytes()
 	le := base3D()
-	le.order = binary.LittleEndian
+	le.Order = binary.LittleEndian
 	ext := base3D()
-	ext.extCount = -1
-	ext.extBlocks = []string{"((SEG: EndText))"}
-	return [][]byte{good, le.bytes(), ext.bytes(), good[:3700], good[:3600+272*3+10], nil}
+	ext.ExtTextCount = -1
+	ext.ExtText = []string{"((SEG: EndText))"}
+	seeds := [][]byte{good, le.Bytes(), ext.Bytes(), good[:3700], good[:3600+272*3+10], nil}
+	for _, c := range segytest.Malformed() {
+		if !c.Dir {
+			seeds = append(seeds, c.Bytes)
+		}
+	}
+	return seeds
 }
 
 // checkOpened exercises an opened file within bounded work and checks
@@ -114,11 +122,11 @@ func FuzzOpen(f *testing.F) {
 // FuzzBinaryHeader varies the 400-byte binary header over a fixed textual
 // header and trace data.
 func FuzzBinaryHeader(f *testing.F) {
-	good := base3D().bytes()
+	good := base3D().Bytes()
 	f.Add(good[3200:3600], good[3600:])
 	le := base3D()
-	le.order = binary.LittleEndian
-	lb := le.bytes()
+	le.Order = binary.LittleEndian
+	lb := le.Bytes()
 	f.Add(lb[3200:3600], lb[3600:])
 	text := good[:3200]
 	f.Fuzz(func(t *testing.T, bin, rest []byte) {
@@ -137,15 +145,15 @@ func FuzzBinaryHeader(f *testing.F) {
 // traces of a 1-sample, 1-byte format file (240-byte header + 1 sample).
 func FuzzTraceHeaders(f *testing.F) {
 	s := base3D()
-	s.format, s.samples = 16, 1
-	s.sampleBytes = func(tr, k int) []byte { return []byte{byte(tr)} }
-	f.Add(s.bytes()[3600:])
+	s.Format, s.Samples = 16, 1
+	s.SampleBytes = func(tr, k int) []byte { return []byte{byte(tr)} }
+	f.Add(s.Bytes()[3600:])
 	for _, name := range []string{"small-ps.sgy", "shot-gather.sgy"} {
 		if b, err := os.ReadFile(filepath.Join(corpusDir, name)); err == nil {
 			f.Add(b[3600:])
 		}
 	}
-	hdr := s.bytes()[:3600]
+	hdr := s.Bytes()[:3600]
 	f.Fuzz(func(t *testing.T, traces []byte) {
 		data := append(append([]byte(nil), hdr...), traces...)
 		data = data[:3600+(len(traces)/241)*241]

@@ -419,5 +419,8 @@ func (f *File) sampleAmplitudes() error {
 	if bad > 0 {
 		f.warnf("%d NaN or infinite samples among %d sampled traces", bad, k)
 	}
+	if count > 0 && lo == 0 && hi == 0 {
+		f.warnf("every sample of the %d sampled traces is zero", k)
+	}
 	return nil
 }

@@ -3,17 +3,19 @@ package segy
 import (
 	"strings"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 func TestGeometryLayouts(t *testing.T) {
 	t.Run("crossline-sorted with steps", func(t *testing.T) {
-		s := synthFile{format: 5, samples: 4, interval: 2000, trSamples: -1, trIntvl: -1}
-		for _, xl := range seq(100, 120, 5) {
-			for _, il := range seq(10, 20, 2) {
-				s.traces = append(s.traces, synthTrace{il: il, xl: xl, values: []float64{valueRule(il, xl, 0)}})
+		s := segytest.File{Format: 5, Samples: 4, Interval: 2000, TraceSamples: -1, TraceInterval: -1}
+		for _, xl := range segytest.Seq(100, 120, 5) {
+			for _, il := range segytest.Seq(10, 20, 2) {
+				s.Traces = append(s.Traces, segytest.Trace{Inline: il, Crossline: xl, Values: []float64{valueRule(il, xl, 0)}})
 			}
 		}
-		f, err := openBytes(s.bytes(), "xl.sgy", Options{})
+		f, err := openBytes(s.Bytes(), "xl.sgy", Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -47,22 +49,22 @@ func TestGeometryLayouts(t *testing.T) {
 		}
 	})
 	t.Run("2D line numbered at 189/193", func(t *testing.T) {
-		s := synthFile{format: 5, samples: 4, interval: 2000, trSamples: -1, trIntvl: -1}
+		s := segytest.File{Format: 5, Samples: 4, Interval: 2000, TraceSamples: -1, TraceInterval: -1}
 		for xl := 1; xl <= 30; xl++ {
-			s.traces = append(s.traces, synthTrace{il: 7, xl: xl, x: 1000 + 25*xl, y: 500, scalar: 1})
+			s.Traces = append(s.Traces, segytest.Trace{Inline: 7, Crossline: xl, X: 1000 + 25*xl, Y: 500, CoordScalar: 1})
 		}
-		f, _ := openBytes(s.bytes(), "2d.sgy", Options{})
+		f, _ := openBytes(s.Bytes(), "2d.sgy", Options{})
 		in := f.Info()
 		if in.Layout != Layout2D || in.Inline.Count != 1 || in.Crossline.Count != 30 || in.InlineSpacingM != 25 || in.CrosslineSpacingM != 0 {
 			t.Fatalf("%s %+v %+v spacing %v %v", in.Layout, in.Inline, in.Crossline, in.InlineSpacingM, in.CrosslineSpacingM)
 		}
 	})
 	t.Run("2D line falls back to bytes 9/21", func(t *testing.T) {
-		s := synthFile{format: 5, samples: 4, interval: 2000, trSamples: -1, trIntvl: -1}
+		s := segytest.File{Format: 5, Samples: 4, Interval: 2000, TraceSamples: -1, TraceInterval: -1}
 		for cdp := 101; cdp <= 140; cdp++ {
-			s.traces = append(s.traces, synthTrace{cdp: cdp, ffid: 3, x: 20 * cdp, y: 0, scalar: -10})
+			s.Traces = append(s.Traces, segytest.Trace{CDP: cdp, FieldRecord: 3, X: 20 * cdp, Y: 0, CoordScalar: -10})
 		}
-		f, _ := openBytes(s.bytes(), "2d.sgy", Options{})
+		f, _ := openBytes(s.Bytes(), "2d.sgy", Options{})
 		in := f.Info()
 		if in.Layout != Layout2D || in.Crossline != (Range{101, 140, 1, 40}) || !hasWarning(in, "fell back to bytes 9/21") {
 			t.Fatalf("%s %+v warnings %q", in.Layout, in.Crossline, in.Warnings)
@@ -73,13 +75,13 @@ func TestGeometryLayouts(t *testing.T) {
 		}
 	})
 	t.Run("2D CDP gathers fall back to byte 21", func(t *testing.T) {
-		s := synthFile{format: 5, samples: 4, interval: 2000, trSamples: -1, trIntvl: -1}
+		s := segytest.File{Format: 5, Samples: 4, Interval: 2000, TraceSamples: -1, TraceInterval: -1}
 		for cdp := 11; cdp <= 20; cdp++ {
 			for k, off := range []int{100, 200, 300} {
-				s.traces = append(s.traces, synthTrace{cdp: cdp, ffid: cdp + k, off: off})
+				s.Traces = append(s.Traces, segytest.Trace{CDP: cdp, FieldRecord: cdp + k, Offset: off})
 			}
 		}
-		f, _ := openBytes(s.bytes(), "2dps.sgy", Options{})
+		f, _ := openBytes(s.Bytes(), "2dps.sgy", Options{})
 		in := f.Info()
 		if in.Layout != LayoutPrestack || in.Crossline != (Range{11, 20, 1, 10}) || in.Inline.Count != 1 || len(in.Offsets) != 3 || in.MissingTraces != 0 || !hasWarning(in, "fell back to byte 21") {
 			t.Fatalf("%s %+v %+v %v %q", in.Layout, in.Inline, in.Crossline, in.Offsets, in.Warnings)
@@ -89,22 +91,22 @@ func TestGeometryLayouts(t *testing.T) {
 		}
 	})
 	t.Run("no numbering at all", func(t *testing.T) {
-		s := synthFile{format: 5, samples: 4, interval: 2000, trSamples: -1, trIntvl: -1, traces: make([]synthTrace, 9)}
-		f, _ := openBytes(s.bytes(), "none.sgy", Options{})
+		s := segytest.File{Format: 5, Samples: 4, Interval: 2000, TraceSamples: -1, TraceInterval: -1, Traces: make([]segytest.Trace, 9)}
+		f, _ := openBytes(s.Bytes(), "none.sgy", Options{})
 		in := f.Info()
 		if in.Layout != LayoutUnstructured || in.Crossline.Count != 9 || len(f.InlineTraces(0, 0)) != 9 || !hasWarning(in, "numbered 1..9 by position") {
 			t.Fatalf("%s %+v %q", in.Layout, in.Crossline, in.Warnings)
 		}
 	})
 	t.Run("overridden byte locations", func(t *testing.T) {
-		s := synthFile{format: 5, samples: 4, interval: 2000, trSamples: -1, trIntvl: -1}
+		s := segytest.File{Format: 5, Samples: 4, Interval: 2000, TraceSamples: -1, TraceInterval: -1}
 		for il := 1; il <= 3; il++ {
 			for xl := 1; xl <= 4; xl++ {
 				// inline in field record (9), crossline in CDP (21)
-				s.traces = append(s.traces, synthTrace{ffid: il, cdp: xl, off: 5})
+				s.Traces = append(s.Traces, segytest.Trace{FieldRecord: il, CDP: xl, Offset: 5, Values: []float64{valueRule(il, xl, 0)}})
 			}
 		}
-		f, err := openBytes(s.bytes(), "ovr.sgy", Options{InlineByte: 9, CrosslineByte: 21})
+		f, err := openBytes(s.Bytes(), "ovr.sgy", Options{InlineByte: 9, CrosslineByte: 21})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -124,12 +126,12 @@ func TestGeometryLayouts(t *testing.T) {
 			want          float64
 		}{{100, 0, 100}, {100, -10, 10}, {-40, 1, -40}, {25, 2, 50}} {
 			s := base3D()
-			s.asciiText = true
-			s.text = "C 1 CLIENT INVENTED EXAMPLE ONLY"
-			for i := range s.traces {
-				s.traces[i].delay, s.traces[i].timeScalar = c.delay, c.scalar
+			s.ASCIIText = true
+			s.Text = "C 1 CLIENT INVENTED EXAMPLE ONLY"
+			for i := range s.Traces {
+				s.Traces[i].Delay, s.Traces[i].TimeScalar = c.delay, c.scalar
 			}
-			f, _ := openBytes(s.bytes(), "delay.sgy", Options{})
+			f, _ := openBytes(s.Bytes(), "delay.sgy", Options{})
 			if f.Info().StartMS != c.want {
 				t.Errorf("delay %d scalar %d: start %v, want %v", c.delay, c.scalar, f.Info().StartMS, c.want)
 			}

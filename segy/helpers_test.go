@@ -5,6 +5,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 // corpusDir is ../shared/segy-corpus relative to the project root (see
@@ -42,4 +44,16 @@ func hasWarning(info Info, sub string) bool {
 		}
 	}
 	return false
+}
+
+// base3D is segytest.Base3D: 3 inlines x 4 crosslines of 8 IEEE samples.
+func base3D() segytest.File { return segytest.Base3D() }
+
+func writeTemp(t testing.TB, data []byte) string {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), "synthetic.sgy")
+	if err := os.WriteFile(p, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
 }

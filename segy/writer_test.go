@@ -82,7 +82,7 @@ func TestWriterCopiesCorpus(t *testing.T) {
 
 func TestWriterRefusesItsInput(t *testing.T) {
 	dir := t.TempDir()
-	data := base3D().bytes()
+	data := base3D().Bytes()
 	in := filepath.Join(dir, "in.sgy")
 	if err := os.WriteFile(in, data, 0o644); err != nil {
 		t.Fatal(err)
