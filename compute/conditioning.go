@@ -157,8 +157,9 @@ func highCutGain(f, fc float64) float64 {
 }
 
 // Apply conditions every trace of a section on all cores, band-pass first,
-// then AGC; gap samples stay NaN. A high corner at or above the Nyquist
-// frequency is an error. With nothing to do it returns a copy.
+// then AGC; gap samples stay NaN. A corner at or above the Nyquist
+// frequency is an error. With nothing to do it returns a copy. Cancellation
+// and progress work as for Attribute.Compute.
 func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done, total int)) (Section, error) {
 	if err := c.check(); err != nil {
 		return Section{}, fmt.Errorf("conditioning %q: %w", c.String(), err)

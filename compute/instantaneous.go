@@ -19,8 +19,8 @@ type InstantaneousSet struct {
 
 // Instantaneous computes the InstantaneousSet of a section on all cores:
 // per trace one forward real FFT and three inverse real FFTs (for h, x' and
-// h'), with plans and buffers reused per worker. It stops with ctx.Err()
-// when ctx is cancelled; progress (may be nil) gets finished traces.
+// h'), with plans and buffers reused per worker. Cancellation and progress
+// work as for Attribute.Compute.
 func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress func(done, total int)) (InstantaneousSet, error) {
 	var set InstantaneousSet
 	if err := in.validate(); err != nil {

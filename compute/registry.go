@@ -75,9 +75,12 @@ func Lookup(id string) (*Attribute, error) {
 }
 
 // Compute computes the attribute on a section with all cores. p comes from
-// a.Resolve (the zero Params means all defaults). It stops with ctx.Err()
-// when ctx is cancelled; progress (may be nil) gets finished traces. NaN
-// and Inf samples are gaps: NaN in the output at the same samples.
+// a.Resolve (the zero Params means all defaults). It stops with an error
+// wrapping ctx.Err() when ctx is cancelled. progress (may be nil) is called
+// from the worker goroutines, one call at a time, with the number of
+// finished traces, non-decreasing, up to about 200 times and last with
+// done == total. NaN and Inf samples are gaps: NaN in the output at the same
+// samples.
 func (a *Attribute) Compute(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
 	if p.text == nil {
 		var err error
