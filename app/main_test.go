@@ -1,0 +1,45 @@
+package app
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestDispatch checks that the command words reach their commands and that
+// wrong calls exit 2 with the usage, without opening a window.
+func TestDispatch(t *testing.T) {
+	small := filepath.Join("..", "..", "shared", "segy-corpus", "small.sgy")
+	if _, err := os.Stat(small); err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("segy corpus missing under CI: %v", err)
+		}
+		t.Skipf("segy corpus not found: %v", err)
+	}
+	for _, c := range []struct {
+		args   []string
+		code   int
+		stdout string // substring
+		stderr string // substring
+	}{
+		{[]string{"help"}, 0, "usage:", ""},
+		{[]string{"version"}, 0, "quadtrace ", ""},
+		{[]string{"attributes"}, 0, "instantaneous-phase", ""},
+		{[]string{"scan", small, "--json"}, 0, `"layout": "3d-inline-sorted"`, ""},
+		{[]string{"scan"}, 2, "", "usage: quadtrace scan"},
+		{[]string{"--no-such-flag"}, 2, "", "unknown call"},
+		{[]string{"a.sgy", "b.sgy"}, 2, "", "unknown call"},
+		{[]string{"--snapshot"}, 2, "", "--snapshot takes"},
+		{[]string{"export"}, 2, "", ""},
+		{[]string{"join"}, 2, "", ""},
+	} {
+		var out, errb bytes.Buffer
+		code := Main(c.args, &out, &errb)
+		if code != c.code || !strings.Contains(out.String(), c.stdout) || !strings.Contains(errb.String(), c.stderr) {
+			t.Errorf("quadtrace %v: exit %d, stdout %.80q, stderr %.120q; want exit %d, stdout with %q, stderr with %q",
+				c.args, code, out.String(), errb.String(), c.code, c.stdout, c.stderr)
+		}
+	}
+}
