@@ -12,15 +12,17 @@ import (
 // full -180..180 degrees, signed ones a diverging palette centred on zero,
 // magnitudes a sequential palette starting at zero.
 func TestFamilyAndRange(t *testing.T) {
-	data := [][]float32{{-3, -1, 0, 2, 4}, {1, 2, 3, 5, 0.5}}
+	signed := [][]float32{{-3, -1, 0, 2, 4}, {1, 2, 3, 5, 0.5}}
+	positive := [][]float32{{3, 1, 2, 2, 4}, {1, 2, 3, 5, 0.5}}
 	for _, c := range []struct {
 		id     string
+		data   [][]float32
 		family palettes.Family
 		check  func(lo, hi float32) bool
 	}{
-		{"instantaneous-phase", palettes.Cyclic, func(lo, hi float32) bool { return lo == -180 && hi == 180 }},
-		{"amplitude", palettes.Diverging, func(lo, hi float32) bool { return lo == -hi && hi > 0 }},
-		{"envelope", palettes.Sequential, func(lo, hi float32) bool { return lo == 0 && hi > 0 }},
+		{"instantaneous-phase", signed, palettes.Cyclic, func(lo, hi float32) bool { return lo == -180 && hi == 180 }},
+		{"amplitude", signed, palettes.Diverging, func(lo, hi float32) bool { return lo == -hi && hi == 5 }},
+		{"envelope", positive, palettes.Sequential, func(lo, hi float32) bool { return lo == 0 && hi == 5 }},
 	} {
 		a, err := compute.Lookup(c.id)
 		if err != nil {
@@ -33,7 +35,7 @@ func TestFamilyAndRange(t *testing.T) {
 		if err != nil || pal.Family != c.family {
 			t.Errorf("%s: default palette %v (%v), want family %v", c.id, pal, err, c.family)
 		}
-		if lo, hi := Range(a, data, 100); !c.check(lo, hi) {
+		if lo, hi := Range(a, c.data, 100); !c.check(lo, hi) {
 			t.Errorf("%s: range %g..%g", c.id, lo, hi)
 		}
 	}
