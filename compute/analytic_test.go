@@ -142,8 +142,7 @@ func TestZeroPhaseRickerPhaseAtPeak(t *testing.T) {
 	}
 }
 
-// randomBandLimited returns reproducible traces: white noise smoothed by a
-// short binomial filter, with a few Ricker events.
+// randomTraces returns reproducible traces of white Gaussian noise at 4 ms.
 func randomTraces(ntr, ns int, seed uint64) Section {
 	r := rand.New(rand.NewPCG(seed, 7))
 	sec := Section{Traces: make([][]float32, ntr), DT: 0.004}
