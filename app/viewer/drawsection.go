@@ -1,0 +1,109 @@
+package viewer
+
+import (
+	"fmt"
+	"image"
+	"image/color"
+	"math"
+
+	"quadtrace/app/style"
+	"quadtrace/app/volume"
+	"quadtrace/compute"
+	"quadtrace/palettes"
+	"quadtrace/render"
+)
+
+// renderSection draws the requested layers at the requested pixel size:
+// sections through render.DrawSection with the state's viewport, time slices
+// through render.DrawMap on the part of the grid in view. It runs in a
+// background job.
+func renderSection(req renderRequest, basePal, ovPal *palettes.Palette) renderResult {
+	st, pl, d := req.state, req.plan, req.data
+	res := renderResult{newRanges: map[string][2]float32{}}
+	rangeOf := func(key string, a *compute.Attribute, data [][]float32) (float32, float32) {
+		k := fmt.Sprintf("%s@%g", key, st.ClipPercent)
+		if r, ok := req.ranges[k]; ok {
+			return r[0], r[1]
+		}
+		lo, hi := style.Range(a, data, st.ClipPercent)
+		res.newRanges[k] = [2]float32{lo, hi}
+		return lo, hi
+	}
+	res.base = render.Layer{Data: d.base.Traces, Palette: basePal, Opacity: 1}
+	res.base.Lo, res.base.Hi = rangeOf(d.baseKey, pl.Base, d.base.Traces)
+	var ov *render.Layer
+	if pl.Overlay != nil && d.over != nil {
+		res.ov = render.Layer{Data: d.over.Traces, Palette: ovPal, Opacity: clamp(st.Opacity, 0, 1), OpacityFollowsValue: st.OpacityFollowsValue}
+		res.ov.Lo, res.ov.Hi = rangeOf(d.overKey, pl.Overlay, d.over.Traces)
+		res.hasOv = true
+		ov = &res.ov
+	}
+	amp := d.amp
+	if amp.Slice.Orientation == volume.TimeSlice {
+		nx, ny := len(amp.Traces[0]), len(amp.Traces)
+		vp := st.viewport(nx, ny)
+		c0, c1 := int(math.Floor(vp.Trace0+1e-9)), int(math.Ceil(vp.Trace1-1e-9))
+		r0, r1 := int(math.Floor(vp.Sample0+1e-9)), int(math.Ceil(vp.Sample1-1e-9))
+		res.vp = render.Viewport{Trace0: float64(c0), Trace1: float64(c1), Sample0: float64(r0), Sample1: float64(r1)}
+		aspect := amp.MapAspect
+		if !(aspect > 0) {
+			aspect = 1
+		}
+		// The plot area keeps the map's shape; the image fills it.
+		res.aspect = float64(c1-c0) * aspect / float64(r1-r0)
+		w, h := fitAspect(req.width, req.height, res.aspect)
+		res.img = image.NewRGBA(image.Rect(0, 0, w, h))
+		base := res.base
+		base.Data = cropGrid(base.Data, r0, r1, c0, c1)
+		if ov != nil {
+			o := *ov
+			o.Data = cropGrid(o.Data, r0, r1, c0, c1)
+			ov = &o
+		}
+		render.DrawMap(res.img, base, ov, aspect)
+		res.axes = sectionAxes{HTitle: "Crossline", VTitle: "Inline", HKeys: amp.Keys, VKeys: amp.InlineKeys}
+		return res
+	}
+	n, m := len(amp.Traces), len(amp.Traces[0])
+	res.vp = st.viewport(n, m)
+	res.img = image.NewRGBA(image.Rect(0, 0, req.width, req.height))
+	var wig *render.WiggleStyle
+	if st.Wiggle {
+		wig = &render.WiggleStyle{Color: color.RGBA{20, 20, 20, 255}, Fill: true, Gain: 1}
+		if pl.Base.ID != amplitudeID || d.base != d.amp {
+			wig.Data = amp.Traces
+			_, hi := rangeOf(d.ampKey, lookup(amplitudeID), amp.Traces)
+			wig.Clip = float64(hi)
+		}
+	}
+	render.DrawSection(res.img, res.base, ov, wig, res.vp)
+	h := "Crossline"
+	if amp.Slice.Orientation == volume.Crossline {
+		h = "Inline"
+	}
+	res.axes = sectionAxes{HTitle: h, VTitle: "Time (ms)", HKeys: amp.Keys, T0MS: amp.T0 * 1000, DTMS: amp.DT * 1000}
+	return res
+}
+
+// fitAspect is the largest w x h inside width x height with w/h = aspect.
+func fitAspect(width, height int, aspect float64) (int, int) {
+	if !(aspect > 0) || width <= 0 || height <= 0 {
+		return max(width, 1), max(height, 1)
+	}
+	if float64(width)/float64(height) > aspect {
+		return max(int(math.Round(float64(height)*aspect)), 1), height
+	}
+	return width, max(int(math.Round(float64(width)/aspect)), 1)
+}
+
+// cropGrid returns rows r0..r1 and columns c0..c1 of g without copying
+// samples.
+func cropGrid(g [][]float32, r0, r1, c0, c1 int) [][]float32 {
+	r0, r1 = max(r0, 0), min(r1, len(g))
+	out := make([][]float32, 0, max(r1-r0, 0))
+	for _, row := range g[r0:r1] {
+		a, b := min(c0, len(row)), min(c1, len(row))
+		out = append(out, row[a:b])
+	}
+	return out
+}

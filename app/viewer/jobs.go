@@ -1,0 +1,118 @@
+package viewer
+
+import (
+	"context"
+	"sync"
+	"time"
+
+	"fyne.io/fyne/v2"
+)
+
+// jobs runs the viewer's work off the UI goroutine. Work is sorted into
+// lanes (open a file, read and compute a section, render it, the trace
+// panel, ...); a lane runs at most one job that matters at a time: starting
+// a job cancels the lane's previous job, whose results are then dropped, so a
+// stale request never delays or overwrites a fresh one.
+type jobs struct {
+	root  context.Context
+	stop  context.CancelFunc
+	busy  sync.WaitGroup
+	mu    sync.Mutex
+	lanes map[string]*laneState
+}
+
+type laneState struct {
+	gen    uint64
+	cancel context.CancelFunc
+}
+
+func newJobs() *jobs {
+	ctx, stop := context.WithCancel(context.Background())
+	return &jobs{root: ctx, stop: stop, lanes: map[string]*laneState{}}
+}
+
+// job is the handle a running job uses to hand results to the UI.
+type job struct {
+	ctx  context.Context
+	js   *jobs
+	lane string
+	gen  uint64
+}
+
+// current reports whether this job is still the newest of its lane and has
+// not been cancelled. (It does not look at ctx, which is released when the
+// job's goroutine returns, before its last fyne.Do callback has run.)
+func (j *job) current() bool {
+	j.js.mu.Lock()
+	defer j.js.mu.Unlock()
+	return j.js.lanes[j.lane].gen == j.gen
+}
+
+// ui runs f on the UI goroutine (through fyne.Do) if the job is still
+// current when f gets there; it reports whether f ran.
+func (j *job) ui(f func()) {
+	fyne.Do(func() {
+		if j.current() {
+			f()
+		}
+	})
+}
+
+// start cancels the lane's running job and starts run in a new goroutine.
+func (js *jobs) start(lane string, run func(j *job)) {
+	js.mu.Lock()
+	ls := js.lanes[lane]
+	if ls == nil {
+		ls = &laneState{}
+		js.lanes[lane] = ls
+	}
+	if ls.cancel != nil {
+		ls.cancel()
+	}
+	ctx, cancel := context.WithCancel(js.root)
+	ls.gen++
+	ls.cancel = cancel
+	j := &job{ctx: ctx, js: js, lane: lane, gen: ls.gen}
+	js.busy.Add(1)
+	js.mu.Unlock()
+	go func() {
+		defer js.busy.Done()
+		defer cancel()
+		run(j)
+	}()
+}
+
+// cancel stops the lane's running job, if any.
+func (js *jobs) cancel(lane string) {
+	js.mu.Lock()
+	defer js.mu.Unlock()
+	if ls := js.lanes[lane]; ls != nil && ls.cancel != nil {
+		ls.cancel()
+		ls.gen++
+	}
+}
+
+// wait blocks until no job is running (tests use it; with fyne's test
+// driver fyne.Do runs inline, so the UI has been updated by then).
+func (js *jobs) wait() { js.busy.Wait() }
+
+// close cancels every job.
+func (js *jobs) close() { js.stop() }
+
+// progressThrottle turns a job's progress calls into at most a few UI
+// updates a second.
+type progressThrottle struct {
+	mu   sync.Mutex
+	last time.Time
+}
+
+func (p *progressThrottle) due(done, total int) bool {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	now := time.Now()
+	if done < total && now.Sub(p.last) < 100*time.Millisecond {
+		return false
+	}
+	p.last = now
+	return true
+}

@@ -1,0 +1,346 @@
+package viewer
+
+import (
+	"fmt"
+	"image"
+	"image/color"
+	"math"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/theme"
+
+	"quadtrace/app/volume"
+	"quadtrace/compute"
+	"quadtrace/render"
+)
+
+// Curve colours of the trace panel's attribute tracks, chosen to read on
+// both the light and the dark theme.
+var trackColours = []color.RGBA{{232, 120, 20, 255}, {20, 150, 175, 255}}
+
+// traceTrack is one column of the trace panel: a curve of values against
+// sample index, drawn between Lo and Hi.
+type traceTrack struct {
+	Name   string
+	Values []float32
+	Lo, Hi float64
+	Wiggle bool // amplitude: a wiggle with its positive lobes filled
+	Colour color.RGBA
+}
+
+// tracePicture is what the trace panel and the spectrum show for one trace.
+type tracePicture struct {
+	title          string
+	tracks         []traceTrack
+	s0, s1         float64 // sample range shown (the section's, for sections)
+	markSample     float64 // a time to mark (the time slice's); NaN: none
+	t0ms, dtms     float64
+	spectrum       compute.Spectrum
+	spectrumOK     bool
+	fg, grid, fill color.RGBA
+}
+
+// requestTrace fills the trace panel for the picked trace in the
+// background: its amplitude and attribute curves and its spectrum.
+func (v *viewer) requestTrace() {
+	d := v.data
+	if d.amp == nil || d.base == nil || v.state.PickTrace < 0 || v.vol == nil {
+		v.ui.trace.setMessage("Click a trace to see it here")
+		v.ui.spectrum.setMessage("")
+		return
+	}
+	st := v.state
+	pl := st.plan()
+	vol := v.vol
+	tw, th := v.ui.trace.plotPixels()
+	sw, sh := v.ui.spectrum.plotPixels()
+	fg := toRGBA(theme.Color(theme.ColorNameForeground))
+	grid := toRGBA(theme.Color(theme.ColorNameSeparator))
+	ranges := copyRanges(v.ranges)
+	ampRange := ranges[fmt.Sprintf("%s@%g", d.ampKey, st.ClipPercent)]
+	if pl.Base.ID == amplitudeID && d.base == d.amp {
+		ampRange = ranges[fmt.Sprintf("%s@%g", d.baseKey, st.ClipPercent)]
+	}
+	baseParams := copyMap(st.Params[pl.Base.ID])
+	var overParams map[string]string
+	if pl.Overlay != nil {
+		overParams = copyMap(st.Params[pl.Overlay.ID])
+	}
+	nx, ny := v.dims()
+	vp := st.viewport(nx, ny)
+	v.jobs.start("trace", func(j *job) {
+		pic := tracePicture{fg: fg, grid: grid, markSample: math.NaN()}
+		pic.fill = fg
+		pic.fill.A = 150
+		var amp []float32
+		attrs := []struct {
+			a      *compute.Attribute
+			key    string
+			sec    *volume.Section
+			params map[string]string
+		}{}
+		if pl.Overlay != nil {
+			attrs = append(attrs, struct {
+				a      *compute.Attribute
+				key    string
+				sec    *volume.Section
+				params map[string]string
+			}{pl.Overlay, d.overKey, d.over, overParams})
+		}
+		if pl.Base.ID != amplitudeID {
+			attrs = append(attrs, struct {
+				a      *compute.Attribute
+				key    string
+				sec    *volume.Section
+				params map[string]string
+			}{pl.Base, d.baseKey, d.base, baseParams})
+		}
+		var curves [][]float32
+		if d.amp.Slice.Orientation == volume.TimeSlice {
+			// A map pick is a point: read that trace and compute its
+			// attributes on it alone.
+			row, col := st.PickTrace/max(nx, 1), st.PickTrace%max(nx, 1)
+			if row >= len(d.amp.InlineKeys) || col >= len(d.amp.Keys) {
+				return
+			}
+			il, xl := d.amp.InlineKeys[row], d.amp.Keys[col]
+			pic.title = fmt.Sprintf("Inline %d, crossline %d", il, xl)
+			var err error
+			amp, err = vol.Trace(il, xl, st.Offset)
+			if err != nil {
+				v.onUI(j, func() { v.ui.trace.setMessage(err.Error()); v.ui.spectrum.setMessage("") })
+				return
+			}
+			for _, at := range attrs {
+				p, err := at.a.Resolve(at.params)
+				if err != nil {
+					return
+				}
+				c, err := vol.TraceAttribute(j.ctx, il, xl, st.Offset, at.a, p, st.Cond)
+				if err != nil {
+					v.onUI(j, func() { v.ui.trace.setMessage(err.Error()) })
+					return
+				}
+				curves = append(curves, c)
+			}
+			pic.s0, pic.s1 = 0, float64(len(amp))
+			pic.markSample = float64(d.amp.Slice.Number) + 0.5
+		} else {
+			i := st.PickTrace
+			if i >= len(d.amp.Traces) {
+				return
+			}
+			amp = d.amp.Traces[i]
+			for _, at := range attrs {
+				curves = append(curves, at.sec.Traces[i])
+			}
+			what := "Crossline"
+			if d.amp.Slice.Orientation == volume.Crossline {
+				what = "Inline"
+			}
+			pic.title = fmt.Sprintf("%s %d", what, d.amp.Keys[i])
+			pic.s0, pic.s1 = vp.Sample0, vp.Sample1
+		}
+		pic.t0ms, pic.dtms = d.amp.T0*1000, d.amp.DT*1000
+		hi := float64(max(math.Abs(float64(ampRange[0])), math.Abs(float64(ampRange[1]))))
+		if !(hi > 0) {
+			hi = maxAbs(amp)
+		}
+		pic.tracks = append(pic.tracks, traceTrack{Name: "Amplitude", Values: amp, Lo: -hi, Hi: hi, Wiggle: true, Colour: fg})
+		for k, at := range attrs {
+			lo, hi := finiteRange(curves[k])
+			if r, ok := ranges[fmt.Sprintf("%s@%g", at.key, st.ClipPercent)]; ok && d.amp.Slice.Orientation != volume.TimeSlice {
+				lo, hi = float64(r[0]), float64(r[1])
+			}
+			pic.tracks = append(pic.tracks, traceTrack{Name: at.a.Name, Values: curves[k], Lo: lo, Hi: hi, Colour: trackColours[k%len(trackColours)]})
+		}
+		if hasFinite(amp) {
+			pic.spectrum = compute.TraceSpectrum(withoutGaps(amp), d.amp.DT)
+			pic.spectrumOK = len(pic.spectrum.Freqs) > 1
+		}
+		timg, tlabels := drawTracks(pic, tw, th)
+		simg, slabels := drawSpectrum(pic, sw, sh)
+		v.onUI(j, func() {
+			v.ui.trace.set(timg, tlabels)
+			if simg != nil {
+				v.ui.spectrum.set(simg, slabels)
+			} else {
+				v.ui.spectrum.setMessage("No spectrum: the trace is missing")
+			}
+			v.traceDrawn++
+			v.maybeSnapshot()
+		})
+	})
+}
+
+// drawTracks draws the trace panel's tracks side by side on a shared time
+// axis and returns the picture with its labels.
+func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
+	img := image.NewRGBA(image.Rect(0, 0, w, h))
+	labels := []plotLabel{{X: 0, Y: -20.0 / float64(h), Text: pic.title, Bold: true}}
+	if len(pic.tracks) == 0 || !(pic.s1 > pic.s0) {
+		return img, labels
+	}
+	tw := float64(w) / float64(len(pic.tracks))
+	row := func(s float64) float64 { return (s - pic.s0) / (pic.s1 - pic.s0) * float64(h) }
+	// Time grid at the section's tick times.
+	t0 := pic.t0ms + pic.s0*pic.dtms
+	t1 := pic.t0ms + pic.s1*pic.dtms
+	for _, t := range ticks(t0, t1, h/45+1) {
+		y := int(row((t - pic.t0ms) / pic.dtms))
+		fillRect(img, image.Rect(0, y, w, y+1), pic.grid)
+	}
+	if !math.IsNaN(pic.markSample) {
+		y := row(pic.markSample)
+		fillRect(img, image.Rect(0, int(y)-1, w, int(y)+1), color.RGBA{255, 200, 0, 255})
+	}
+	i0 := max(int(math.Floor(pic.s0)), 0)
+	for k, tr := range pic.tracks {
+		left := float64(k) * tw
+		if k > 0 {
+			fillRect(img, image.Rect(int(left), 0, int(left)+1, h), pic.grid)
+		}
+		i1 := min(int(math.Ceil(pic.s1))+1, len(tr.Values))
+		if i1 <= i0 || !(tr.Hi > tr.Lo) {
+			continue
+		}
+		xs := make([]float64, 0, i1-i0)
+		ys := make([]float64, 0, i1-i0)
+		pad := 6.0
+		col := func(v float64) float64 {
+			f := clamp((v-tr.Lo)/(tr.Hi-tr.Lo), -0.05, 1.05)
+			return left + pad + f*(tw-2*pad)
+		}
+		for i := i0; i < i1; i++ {
+			x := float64(tr.Values[i])
+			if math.IsNaN(x) || math.IsInf(x, 0) {
+				xs, ys = append(xs, math.NaN()), append(ys, math.NaN())
+				continue
+			}
+			xs = append(xs, col(x))
+			ys = append(ys, row(float64(i)+0.5))
+		}
+		if tr.Wiggle {
+			zero := col(0)
+			fillRect(img, image.Rect(int(zero), 0, int(zero)+1, h), pic.grid)
+			fillPositive(img, xs, ys, zero, pic.fill)
+		}
+		strokePolyline(img, xs, ys, 1.5, tr.Colour)
+		labels = append(labels,
+			plotLabel{X: (left + tw/2) / float64(w), Y: -8.0 / float64(h), Text: shortName(tr.Name), Align: fyne.TextAlignCenter, Color: colourOrNil(tr, pic.fg)},
+		)
+	}
+	return img, labels
+}
+
+// drawSpectrum draws the amplitude spectrum with its peak and centroid.
+func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
+	if !pic.spectrumOK {
+		return nil, nil
+	}
+	sp := pic.spectrum
+	img := image.NewRGBA(image.Rect(0, 0, w, h))
+	fmax := sp.Freqs[len(sp.Freqs)-1]
+	amax := 0.0
+	for _, a := range sp.Amps {
+		amax = math.Max(amax, a)
+	}
+	if !(fmax > 0) || !(amax > 0) {
+		return nil, nil
+	}
+	xOf := func(f float64) float64 { return f / fmax * float64(w) }
+	yOf := func(a float64) float64 { return float64(h) - a/amax*float64(h-4) }
+	var labels []plotLabel
+	for _, f := range ticks(0, fmax, w/60+1) {
+		x := int(xOf(f))
+		fillRect(img, image.Rect(x, 0, x+1, h), pic.grid)
+		labels = append(labels, plotLabel{X: f / fmax, Y: 1 + 9.0/float64(h), Text: render.FormatTick(f, 0), Align: fyne.TextAlignCenter})
+	}
+	xs := make([]float64, len(sp.Freqs))
+	ys := make([]float64, len(sp.Freqs))
+	for i := range sp.Freqs {
+		xs[i], ys[i] = xOf(sp.Freqs[i]), yOf(sp.Amps[i])
+	}
+	strokePolyline(img, xs, ys, 1.5, pic.fg)
+	peak, cent := color.RGBA{220, 50, 50, 255}, color.RGBA{40, 120, 220, 255}
+	px, cx := int(xOf(sp.PeakHz)), int(xOf(sp.CentroidHz))
+	fillRect(img, image.Rect(px-1, 0, px+1, h), peak)
+	for y := 0; y < h; y += 6 { // dashed: the centroid is a statistic, not a bin
+		fillRect(img, image.Rect(cx-1, y, cx+1, min(y+3, h)), cent)
+	}
+	labels = append(labels,
+		plotLabel{X: 0, Y: -22.0 / float64(h), Text: "Amplitude spectrum (Hz)", Bold: true},
+		plotLabel{X: 0, Y: -8.0 / float64(h), Text: fmt.Sprintf("peak %.0f Hz", sp.PeakHz), Color: peak},
+		plotLabel{X: 1, Y: -8.0 / float64(h), Text: fmt.Sprintf("centroid %.0f Hz", sp.CentroidHz), Align: fyne.TextAlignTrailing, Color: cent},
+	)
+	return img, labels
+}
+
+func colourOrNil(tr traceTrack, fg color.RGBA) color.Color {
+	if tr.Wiggle {
+		return nil
+	}
+	return tr.Colour
+}
+
+// shortName keeps a track heading within its column.
+func shortName(s string) string {
+	if r := []rune(s); len(r) > 22 {
+		return string(r[:21]) + "…"
+	}
+	return s
+}
+
+func maxAbs(x []float32) float64 {
+	m := 0.0
+	for _, v := range x {
+		if a := math.Abs(float64(v)); a > m && !math.IsInf(a, 0) {
+			m = a
+		}
+	}
+	if m == 0 {
+		return 1
+	}
+	return m
+}
+
+func finiteRange(x []float32) (float64, float64) {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, v := range x {
+		f := float64(v)
+		if math.IsNaN(f) || math.IsInf(f, 0) {
+			continue
+		}
+		lo, hi = math.Min(lo, f), math.Max(hi, f)
+	}
+	if !(hi > lo) {
+		return lo - 1, lo + 1
+	}
+	return lo, hi
+}
+
+func hasFinite(x []float32) bool {
+	for _, v := range x {
+		if f := float64(v); !math.IsNaN(f) && !math.IsInf(f, 0) {
+			return true
+		}
+	}
+	return false
+}
+
+// withoutGaps returns x with NaN and infinite samples set to zero (a gap
+// carries no energy into the spectrum).
+func withoutGaps(x []float32) []float32 {
+	out := make([]float32, len(x))
+	for i, v := range x {
+		if f := float64(v); !math.IsNaN(f) && !math.IsInf(f, 0) {
+			out[i] = v
+		}
+	}
+	return out
+}
+
+func toRGBA(c color.Color) color.RGBA {
+	r, g, b, a := c.RGBA()
+	return color.RGBA{uint8(r >> 8), uint8(g >> 8), uint8(b >> 8), uint8(a >> 8)}
+}

@@ -1,0 +1,440 @@
+// Package viewer is quadtrace's desktop window: a survey opened from a
+// SEG-Y file (or the built-in demo survey), paged through by inline,
+// crossline and time slice, with any attribute of the registry drawn alone
+// or over another layer, a trace panel with curves and spectrum, figures and
+// exports. It is the only package besides app that imports fyne.
+//
+// The UI goroutine only arranges widgets: every read, computation and
+// rendering runs in background jobs (see jobs), whose results come back
+// through fyne.Do; a new request cancels the stale one.
+package viewer
+
+import (
+	"context"
+	"fmt"
+	"image"
+	"math"
+	"path/filepath"
+	"strings"
+	"sync"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/app"
+
+	"quadtrace/app/volume"
+	"quadtrace/compute"
+	"quadtrace/compute/synth"
+	"quadtrace/render"
+	"quadtrace/segy"
+)
+
+// Options says what the viewer opens and whether it only takes a snapshot.
+type Options struct {
+	// Path is the SEG-Y file to open; "" opens the built-in demo survey.
+	Path string
+	// Snapshot, when not empty, makes the viewer write a PNG of its window
+	// to this path once the first section, attribute and trace panel are
+	// drawn, and then quit.
+	Snapshot string
+	// SegyOptions override the header byte locations and byte order.
+	SegyOptions segy.Options
+}
+
+// Run opens the viewer window and returns when it is closed. With
+// opt.Snapshot set it returns after writing the snapshot, or with the error
+// that prevented it.
+func Run(opt Options) error {
+	a := app.NewWithID("org.quadtrace.viewer")
+	v := newViewer(a, opt)
+	v.win.ShowAndRun()
+	v.jobs.close()
+	if v.vol != nil {
+		v.vol.Close()
+	}
+	return v.exitErr
+}
+
+// survey is what the viewer needs of an opened volume (*volume.Volume).
+type survey interface {
+	Info() segy.Info
+	Name() string
+	Path() string
+	Close() error
+	Read(ctx context.Context, s volume.Slice) (volume.Section, error)
+	Trace(inline, crossline, offset int) ([]float32, error)
+	Attribute(ctx context.Context, s volume.Slice, a *compute.Attribute, p compute.Params, cond compute.Conditioning, progress func(done, total int)) (volume.Section, error)
+	TraceAttribute(ctx context.Context, inline, crossline, offset int, a *compute.Attribute, p compute.Params, cond compute.Conditioning) ([]float32, error)
+}
+
+// shown holds the data behind the picture: the amplitude of the slice and
+// the sections of the base and overlay layers, with the keys they were made
+// for. Sections are never changed once made, so jobs may read them freely.
+type shown struct {
+	ampKey, baseKey, overKey string
+	amp, base, over          *volume.Section
+}
+
+// viewer is the window and everything it shows. Its fields belong to the UI
+// goroutine; jobs get copies of what they need.
+type viewer struct {
+	app     fyne.App
+	win     fyne.Window
+	opt     Options
+	jobs    *jobs
+	uiMu    sync.Mutex // serialises job results when fyne.Do runs inline (test driver)
+	exitErr error
+
+	vol      survey
+	info     segy.Info
+	segyOpt  segy.Options
+	state    viewState
+	data     shown
+	ranges   map[string][2]float32 // display ranges by section key and clip
+	pickInfo string                // what the trace panel shows, for the status bar
+
+	// What the window currently shows, kept for tests and the snapshot.
+	lastSection   *image.RGBA
+	sectionDrawn  int // renders shown so far
+	traceDrawn    int // trace panels shown so far
+	snapshotTaken bool
+
+	ui *widgets
+}
+
+// newViewer builds the window on app a and starts opening opt.Path (or the
+// demo survey). The caller shows the window.
+func newViewer(a fyne.App, opt Options) *viewer {
+	v := &viewer{app: a, opt: opt, jobs: newJobs(), segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}}
+	v.win = a.NewWindow("quadtrace")
+	v.buildUI()
+	v.restoreWindowSize()
+	if opt.Snapshot != "" {
+		v.startSnapshotTimer()
+	}
+	if opt.Path != "" {
+		v.openFile(opt.Path)
+	} else {
+		v.openDemo()
+	}
+	return v
+}
+
+// onUI runs f on the UI goroutine for job j, if j is still current.
+func (v *viewer) onUI(j *job, f func()) {
+	j.ui(func() {
+		v.uiMu.Lock()
+		defer v.uiMu.Unlock()
+		f()
+	})
+}
+
+// --- opening ---
+
+// openFile opens a SEG-Y file in the background.
+func (v *viewer) openFile(path string) {
+	opt := v.segyOpt
+	v.startOpen(filepath.Base(path), func(ctx context.Context, progress func(int, int)) (survey, error) {
+		vol, err := volume.Open(path, opt)
+		if err != nil {
+			return nil, err
+		}
+		return vol, nil
+	}, path)
+}
+
+// openDemo generates the built-in demo survey in the background.
+func (v *viewer) openDemo() {
+	v.startOpen("the demo survey", func(ctx context.Context, progress func(int, int)) (survey, error) {
+		vol, err := volume.Demo(ctx, synth.DefaultConfig(), progress)
+		if err != nil {
+			return nil, err
+		}
+		return vol, nil
+	}, "")
+}
+
+// startOpen runs open in the "open" lane, then shows what it opened.
+func (v *viewer) startOpen(what string, open func(context.Context, func(int, int)) (survey, error), path string) {
+	v.jobs.cancel("data")
+	v.ui.section.setMessage("Opening " + what + "…")
+	v.setBusy(v.ui.work, "Opening "+what, 0, 0, func() { v.jobs.cancel("open") })
+	v.jobs.start("open", func(j *job) {
+		var thr progressThrottle
+		vol, err := open(j.ctx, func(done, total int) {
+			if thr.due(done, total) {
+				v.onUI(j, func() { v.setBusy(v.ui.work, "Opening "+what, done, total, func() { v.jobs.cancel("open") }) })
+			}
+		})
+		if err != nil && vol != nil {
+			vol.Close()
+		}
+		if j.ctx.Err() != nil {
+			if vol != nil {
+				vol.Close()
+			}
+			fyne.Do(func() { v.setIdle(v.ui.work) })
+			return
+		}
+		v.onUI(j, func() {
+			v.setIdle(v.ui.work)
+			if err != nil {
+				msg := fmt.Sprintf("Could not open %s: %v", what, err)
+				v.ui.section.setMessage(msg)
+				v.showError(msg)
+				v.failSnapshot(err)
+				return
+			}
+			v.setSurvey(vol)
+			if path != "" {
+				v.addRecent(path)
+			}
+		})
+	})
+}
+
+// setSurvey shows a newly opened survey from its middle inline.
+func (v *viewer) setSurvey(vol survey) {
+	if v.vol != nil {
+		v.jobs.cancel("data")
+		v.vol.Close()
+	}
+	v.vol = vol
+	v.info = vol.Info()
+	v.data = shown{}
+	v.ranges = map[string][2]float32{}
+	v.state = newViewState(v.info)
+	v.loadPalettePrefs()
+	v.win.SetTitle("quadtrace — " + vol.Name())
+	v.refreshControls()
+	v.requestData()
+}
+
+// --- the data pipeline: read, compute, render ---
+
+// requestData starts a job that reads and computes whatever the state needs
+// and the shown data lacks; it cancels any such job still running.
+func (v *viewer) requestData() {
+	if v.vol == nil {
+		return
+	}
+	st := v.state
+	sl := st.slice()
+	pl := st.plan()
+	have := v.data
+	vol := v.vol
+	zero := compute.Conditioning{}
+	ampKey := attrKey(sl, lookup(amplitudeID), nil, zero)
+	baseKey := attrKey(sl, pl.Base, st.Params[pl.Base.ID], st.Cond)
+	overKey := ""
+	if pl.Overlay != nil {
+		overKey = attrKey(sl, pl.Overlay, st.Params[pl.Overlay.ID], st.Cond)
+	}
+	if have.ampKey == ampKey && have.baseKey == baseKey && have.overKey == overKey {
+		v.requestRender()
+		return
+	}
+	baseParams := copyMap(st.Params[pl.Base.ID])
+	var overParams map[string]string
+	if pl.Overlay != nil {
+		overParams = copyMap(st.Params[pl.Overlay.ID])
+	}
+	cond := st.Cond
+	what := "Reading " + strings.ToLower(st.title(v.info))
+	cancel := func() { v.jobs.cancel("data") }
+	v.setBusy(v.ui.work, what, 0, 0, cancel)
+	v.jobs.start("data", func(j *job) {
+		var thr progressThrottle
+		progress := func(label string) func(done, total int) {
+			return func(done, total int) {
+				if thr.due(done, total) {
+					v.onUI(j, func() { v.setBusy(v.ui.work, label, done, total, cancel) })
+				}
+			}
+		}
+		out := have
+		var err error
+		get := func(key string, a *compute.Attribute, params map[string]string, c compute.Conditioning, cur *volume.Section, curKey string) (*volume.Section, error) {
+			switch {
+			case key == curKey && cur != nil:
+				return cur, nil
+			case key == out.ampKey && out.amp != nil:
+				return out.amp, nil
+			case key == have.baseKey && have.base != nil:
+				return have.base, nil
+			case key == have.overKey && have.over != nil:
+				return have.over, nil
+			}
+			if a.ID == amplitudeID && c.IsZero() {
+				s, err := vol.Read(j.ctx, sl)
+				return &s, err
+			}
+			p, err := a.Resolve(params)
+			if err != nil {
+				return nil, fmt.Errorf("%s: %w", a.Name, err)
+			}
+			label := fmt.Sprintf("Computing %s", strings.ToLower(a.Name))
+			if sl.Orientation == volume.TimeSlice {
+				label += " for the whole volume"
+			}
+			s, err := vol.Attribute(j.ctx, sl, a, p, c, progress(label))
+			return &s, err
+		}
+		if out.amp, err = get(ampKey, lookup(amplitudeID), nil, zero, have.amp, have.ampKey); err == nil {
+			out.ampKey = ampKey
+			if out.base, err = get(baseKey, pl.Base, baseParams, cond, have.base, have.baseKey); err == nil {
+				out.baseKey = baseKey
+				out.over, out.overKey = nil, ""
+				if pl.Overlay != nil {
+					if out.over, err = get(overKey, pl.Overlay, overParams, cond, have.over, have.overKey); err == nil {
+						out.overKey = overKey
+					}
+				}
+			}
+		}
+		if j.ctx.Err() != nil {
+			return
+		}
+		v.onUI(j, func() {
+			v.setIdle(v.ui.work)
+			if err != nil {
+				v.ui.section.setMessage(err.Error())
+				v.showStatus(err.Error())
+				v.failSnapshot(err)
+				return
+			}
+			newShape := v.data.amp == nil || sectionShape(v.data.amp) != sectionShape(out.amp)
+			v.data = out
+			if newShape {
+				n, m := v.dims()
+				v.state.fit(n, m)
+				v.state.PickTrace = n / 2
+			}
+			v.refreshNavigation()
+			v.requestRender()
+			v.requestTrace()
+		})
+	})
+}
+
+// sectionShape is the size of a section's grid.
+func sectionShape(s *volume.Section) [3]int {
+	if s == nil || len(s.Traces) == 0 {
+		return [3]int{}
+	}
+	return [3]int{int(s.Slice.Orientation), len(s.Traces), len(s.Traces[0])}
+}
+
+// dims is the shown section's size along the view's horizontal and vertical
+// axes: traces by samples for a section, crosslines by inlines for a map.
+func (v *viewer) dims() (int, int) {
+	s := v.data.amp
+	if s == nil || len(s.Traces) == 0 {
+		return 0, 0
+	}
+	if s.Slice.Orientation == volume.TimeSlice {
+		return len(s.Traces[0]), len(s.Traces)
+	}
+	return len(s.Traces), len(s.Traces[0])
+}
+
+// renderRequest is everything a render job needs, copied from the UI.
+type renderRequest struct {
+	state         viewState
+	plan          layerPlan
+	data          shown
+	ranges        map[string][2]float32
+	width, height int
+}
+
+// renderResult is a rendered section with what the view needs to label it.
+type renderResult struct {
+	img       *image.RGBA
+	vp        render.Viewport
+	axes      sectionAxes
+	aspect    float64
+	base, ov  render.Layer
+	hasOv     bool
+	newRanges map[string][2]float32
+}
+
+// requestRender renders the shown data at the section view's size in the
+// background and shows it.
+func (v *viewer) requestRender() {
+	if v.data.amp == nil || v.data.base == nil {
+		return
+	}
+	w, h := v.ui.section.plotPixels()
+	st := v.state
+	st.Params, st.Palettes = nil, nil // not needed, and not to be shared
+	req := renderRequest{state: st, plan: v.state.plan(), data: v.data, ranges: copyRanges(v.ranges), width: w, height: h}
+	basePal := v.state.paletteFor(req.plan.Base, false)
+	var ovPal = basePal
+	if req.plan.Overlay != nil {
+		ovPal = v.state.paletteFor(req.plan.Overlay, true)
+	}
+	v.jobs.start("render", func(j *job) {
+		res := renderSection(req, basePal, ovPal)
+		v.onUI(j, func() {
+			for k, r := range res.newRanges {
+				v.ranges[k] = r
+			}
+			v.lastSection = res.img
+			v.ui.section.setImage(res.img, res.vp, res.axes, res.aspect)
+			v.ui.section.setPick(v.pickIndex())
+			v.sectionDrawn++
+			v.refreshLegends(req.plan, res)
+			v.maybeSnapshot()
+		})
+	})
+}
+
+// pickIndex is the picked trace's index along the section (NaN: none, or a
+// map, where the pick is a point).
+func (v *viewer) pickIndex() float64 {
+	if v.state.PickTrace < 0 || v.state.Orientation == volume.TimeSlice {
+		return math.NaN()
+	}
+	return float64(v.state.PickTrace)
+}
+
+func copyMap(m map[string]string) map[string]string {
+	out := make(map[string]string, len(m))
+	for k, x := range m {
+		out[k] = x
+	}
+	return out
+}
+
+func copyRanges(m map[string][2]float32) map[string][2]float32 {
+	out := make(map[string][2]float32, len(m))
+	for k, x := range m {
+		out[k] = x
+	}
+	return out
+}
+
+// --- status and progress ---
+
+// showStatus puts a message in the status bar.
+func (v *viewer) showStatus(msg string) {
+	v.ui.message.SetText(msg)
+}
+
+// failSnapshot ends a snapshot run that cannot succeed.
+func (v *viewer) failSnapshot(err error) {
+	if v.opt.Snapshot == "" || v.snapshotTaken {
+		return
+	}
+	v.snapshotTaken = true
+	v.exitErr = fmt.Errorf("snapshot: %w", err)
+	v.app.Quit()
+}
+
+// timeMS is the time of fractional sample index s of the shown data.
+func (v *viewer) timeMS(s float64) float64 {
+	sec := v.data.amp
+	if sec == nil {
+		return 0
+	}
+	return (sec.T0 + s*sec.DT) * 1000
+}
