@@ -143,7 +143,7 @@ func (v *viewer) buildUI() {
 	u.spectrum = newPlotView(34, 20, 10, 10, fyne.NewSize(200, 120))
 	u.spectrum.onResize = v.requestTrace
 	u.legends = container.NewVBox()
-	u.cursor = widget.NewLabel("")
+	u.cursor = widget.NewLabel(cursorHint)
 	u.cursor.TextStyle.Monospace = true
 	u.message = widget.NewLabel("")
 	u.message.Truncation = fyne.TextTruncateEllipsis
@@ -542,8 +542,10 @@ func (v *viewer) refreshControls() {
 	v.refreshNavigation()
 }
 
+// unitSuffix is " (unit)", or nothing for unitless values and for values in
+// the input's own amplitude units, which SEG-Y does not name.
 func unitSuffix(unit string) string {
-	if unit == "" {
+	if unit == "" || unit == "amplitude" {
 		return ""
 	}
 	return " (" + unit + ")"
@@ -864,7 +866,7 @@ func (v *viewer) setPalette(a *compute.Attribute, overlay bool, name string) {
 // panel with it.
 func (v *viewer) hover(trace, sample float64, inside bool) {
 	if !inside || v.data.amp == nil {
-		v.ui.cursor.SetText(v.pickInfo)
+		v.ui.cursor.SetText(cursorHint)
 		return
 	}
 	v.ui.cursor.SetText(v.describePoint(trace, sample))
@@ -1002,6 +1004,9 @@ func (v *viewer) typedKey(e *fyne.KeyEvent) {
 		v.fitView()
 	}
 }
+
+// cursorHint fills the status bar while the pointer is off the section.
+const cursorHint = "Point at the section to read its values; click a trace to show it on the right"
 
 // keyHelp lists the keys for the Help menu.
 const keyHelp = `Right / Left arrow    next / previous line

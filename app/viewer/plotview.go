@@ -13,10 +13,11 @@ import (
 
 // plotLabel is a line of text placed on a plotView: X is a fraction of the
 // plot width, Y a fraction of its height (negative values reach into the top
-// margin, values above 1 into the bottom one). Align says which end of the
-// text sits at X.
+// margin, values above 1 into the bottom one), moved down by DY. Align says
+// which end of the text sits at X.
 type plotLabel struct {
 	X, Y  float64
+	DY    float32 // added to the height given by Y, in fyne units
 	Text  string
 	Align fyne.TextAlign
 	Color color.Color // nil: the theme's foreground
@@ -163,7 +164,7 @@ func (r *plotRenderer) Layout(size fyne.Size) {
 			x -= ts.Width
 		}
 		x = max(0, min(x, size.Width-ts.Width))
-		y := pos.Y + float32(l.Y)*ps.Height - ts.Height/2
+		y := pos.Y + float32(l.Y)*ps.Height + l.DY - ts.Height/2
 		t.Move(fyne.NewPos(x, y))
 		r.texts = append(r.texts, t)
 	}

@@ -18,7 +18,7 @@ import (
 // Margins around the plot area of the section view, in fyne units. The trace
 // panel uses the same top and bottom margins so both share one time axis.
 const (
-	plotTop    = 28
+	plotTop    = 42
 	plotBottom = 10
 	plotLeft   = 58
 	plotRight  = 8
@@ -290,8 +290,11 @@ func (r *sectionRenderer) Layout(size fyne.Size) {
 	}
 	r.hTitle.Hidden, r.vTitle.Hidden = false, false
 	r.layoutTicks(pos, ps)
-	r.hTitle.Move(fyne.NewPos(4, 2))
-	r.vTitle.Move(fyne.NewPos(4, plotTop-14))
+	// Titles share the top row: the vertical axis's over its labels, the
+	// horizontal axis's centred over the plot; tick labels sit below them.
+	r.vTitle.Move(fyne.NewPos(4, 2))
+	hs := r.hTitle.MinSize()
+	r.hTitle.Move(fyne.NewPos(pos.X+(ps.Width-hs.Width)/2, 2))
 }
 
 // layoutTicks places tick marks and labels for the keys along the top and

@@ -177,7 +177,7 @@ func (v *viewer) requestTrace() {
 // axis and returns the picture with its labels.
 func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	img := image.NewRGBA(image.Rect(0, 0, w, h))
-	labels := []plotLabel{{X: 0, Y: -20.0 / float64(h), Text: pic.title, Bold: true}}
+	labels := []plotLabel{{X: 0, DY: -30, Text: pic.title, Bold: true}}
 	if len(pic.tracks) == 0 || !(pic.s1 > pic.s0) {
 		return img, labels
 	}
@@ -227,7 +227,7 @@ func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 		}
 		strokePolyline(img, xs, ys, 1.5, tr.Colour)
 		labels = append(labels,
-			plotLabel{X: (left + tw/2) / float64(w), Y: -8.0 / float64(h), Text: shortName(tr.Name), Align: fyne.TextAlignCenter, Color: colourOrNil(tr, pic.fg)},
+			plotLabel{X: (left + tw/2) / float64(w), DY: -11, Text: shortName(tr.Name), Align: fyne.TextAlignCenter, Color: colourOrNil(tr, pic.fg)},
 		)
 	}
 	return img, labels
@@ -240,10 +240,18 @@ func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	}
 	sp := pic.spectrum
 	img := image.NewRGBA(image.Rect(0, 0, w, h))
-	fmax := sp.Freqs[len(sp.Freqs)-1]
 	amax := 0.0
 	for _, a := range sp.Amps {
 		amax = math.Max(amax, a)
+	}
+	// Show up to a little past the last frequency with 2 % of the peak
+	// amplitude: above it the plot would be an empty tail to Nyquist.
+	fmax := sp.Freqs[len(sp.Freqs)-1]
+	for i := len(sp.Amps) - 1; i > 0; i-- {
+		if sp.Amps[i] >= 0.02*amax {
+			fmax = math.Min(fmax, niceCeil(sp.Freqs[i]*1.15))
+			break
+		}
 	}
 	if !(fmax > 0) || !(amax > 0) {
 		return nil, nil
@@ -254,12 +262,14 @@ func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	for _, f := range ticks(0, fmax, w/60+1) {
 		x := int(xOf(f))
 		fillRect(img, image.Rect(x, 0, x+1, h), pic.grid)
-		labels = append(labels, plotLabel{X: f / fmax, Y: 1 + 9.0/float64(h), Text: render.FormatTick(f, 0), Align: fyne.TextAlignCenter})
+		labels = append(labels, plotLabel{X: f / fmax, Y: 1, DY: 9, Text: render.FormatTick(f, 0), Align: fyne.TextAlignCenter})
 	}
-	xs := make([]float64, len(sp.Freqs))
-	ys := make([]float64, len(sp.Freqs))
+	var xs, ys []float64
 	for i := range sp.Freqs {
-		xs[i], ys[i] = xOf(sp.Freqs[i]), yOf(sp.Amps[i])
+		if sp.Freqs[i] > fmax {
+			break
+		}
+		xs, ys = append(xs, xOf(sp.Freqs[i])), append(ys, yOf(sp.Amps[i]))
 	}
 	strokePolyline(img, xs, ys, 1.5, pic.fg)
 	peak, cent := color.RGBA{220, 50, 50, 255}, color.RGBA{40, 120, 220, 255}
@@ -269,11 +279,17 @@ func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 		fillRect(img, image.Rect(cx-1, y, cx+1, min(y+3, h)), cent)
 	}
 	labels = append(labels,
-		plotLabel{X: 0, Y: -22.0 / float64(h), Text: "Amplitude spectrum (Hz)", Bold: true},
-		plotLabel{X: 0, Y: -8.0 / float64(h), Text: fmt.Sprintf("peak %.0f Hz", sp.PeakHz), Color: peak},
-		plotLabel{X: 1, Y: -8.0 / float64(h), Text: fmt.Sprintf("centroid %.0f Hz", sp.CentroidHz), Align: fyne.TextAlignTrailing, Color: cent},
+		plotLabel{X: 0, DY: -25, Text: "Amplitude spectrum (Hz)", Bold: true},
+		plotLabel{X: 0, DY: -10, Text: fmt.Sprintf("peak %.0f Hz", sp.PeakHz), Color: peak},
+		plotLabel{X: 1, DY: -10, Text: fmt.Sprintf("centroid %.0f Hz", sp.CentroidHz), Align: fyne.TextAlignTrailing, Color: cent},
 	)
 	return img, labels
+}
+
+// niceCeil rounds f up to a multiple of a 1-2-5 step.
+func niceCeil(f float64) float64 {
+	step := niceStep(f, 5)
+	return math.Ceil(f/step) * step
 }
 
 func colourOrNil(tr traceTrack, fg color.RGBA) color.Color {

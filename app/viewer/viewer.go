@@ -211,37 +211,109 @@ func (v *viewer) setSurvey(vol survey) {
 
 // --- the data pipeline: read, compute, render ---
 
+// dataRequest names the sections a picture needs and the keys that tell
+// whether the shown data already hold them.
+type dataRequest struct {
+	slice                    volume.Slice
+	plan                     layerPlan
+	baseParams, overParams   map[string]string
+	cond                     compute.Conditioning
+	ampKey, baseKey, overKey string
+}
+
+// dataRequestFor works out the sections state st needs.
+func dataRequestFor(st *viewState) dataRequest {
+	r := dataRequest{slice: st.slice(), plan: st.plan(), cond: st.Cond}
+	r.ampKey = attrKey(r.slice, lookup(amplitudeID), nil, compute.Conditioning{})
+	r.baseParams = copyMap(st.Params[r.plan.Base.ID])
+	r.baseKey = attrKey(r.slice, r.plan.Base, r.baseParams, r.cond)
+	if r.plan.Overlay != nil {
+		r.overParams = copyMap(st.Params[r.plan.Overlay.ID])
+		r.overKey = attrKey(r.slice, r.plan.Overlay, r.overParams, r.cond)
+	}
+	return r
+}
+
+// satisfied reports whether d already holds what r asks for.
+func (r dataRequest) satisfied(d shown) bool {
+	return d.ampKey == r.ampKey && d.baseKey == r.baseKey && d.overKey == r.overKey
+}
+
+// fetchData reads and computes the sections of req, reusing those of have
+// whose keys match. progress(label) gives the progress callback of a
+// computation. It runs in a background job.
+func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, progress func(label string) func(done, total int)) (shown, error) {
+	var out shown
+	reuse := func(key string) *volume.Section {
+		switch {
+		case key == out.ampKey && out.amp != nil:
+			return out.amp
+		case key == have.ampKey && have.amp != nil:
+			return have.amp
+		case key == have.baseKey && have.base != nil:
+			return have.base
+		case key == have.overKey && have.over != nil:
+			return have.over
+		}
+		return nil
+	}
+	get := func(key string, a *compute.Attribute, params map[string]string, c compute.Conditioning) (*volume.Section, error) {
+		if s := reuse(key); s != nil {
+			return s, nil
+		}
+		if a.ID == amplitudeID && c.IsZero() {
+			s, err := vol.Read(ctx, req.slice)
+			return &s, err
+		}
+		p, err := a.Resolve(params)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", a.Name, err)
+		}
+		label := "Computing " + strings.ToLower(a.Name)
+		if req.slice.Orientation == volume.TimeSlice {
+			label += " for the whole volume"
+		}
+		var pf func(int, int)
+		if progress != nil {
+			pf = progress(label)
+		}
+		s, err := vol.Attribute(ctx, req.slice, a, p, c, pf)
+		return &s, err
+	}
+	var err error
+	if out.amp, err = get(req.ampKey, lookup(amplitudeID), nil, compute.Conditioning{}); err != nil {
+		return shown{}, err
+	}
+	out.ampKey = req.ampKey
+	if out.base, err = get(req.baseKey, req.plan.Base, req.baseParams, req.cond); err != nil {
+		return shown{}, err
+	}
+	out.baseKey = req.baseKey
+	if req.plan.Overlay != nil {
+		if out.over, err = get(req.overKey, req.plan.Overlay, req.overParams, req.cond); err != nil {
+			return shown{}, err
+		}
+		out.overKey = req.overKey
+	}
+	return out, nil
+}
+
 // requestData starts a job that reads and computes whatever the state needs
-// and the shown data lacks; it cancels any such job still running.
+// and the shown data lack; it cancels any such job still running.
 func (v *viewer) requestData() {
 	if v.vol == nil {
 		return
 	}
-	st := v.state
-	sl := st.slice()
-	pl := st.plan()
-	have := v.data
-	vol := v.vol
-	zero := compute.Conditioning{}
-	ampKey := attrKey(sl, lookup(amplitudeID), nil, zero)
-	baseKey := attrKey(sl, pl.Base, st.Params[pl.Base.ID], st.Cond)
-	overKey := ""
-	if pl.Overlay != nil {
-		overKey = attrKey(sl, pl.Overlay, st.Params[pl.Overlay.ID], st.Cond)
-	}
-	if have.ampKey == ampKey && have.baseKey == baseKey && have.overKey == overKey {
+	req := dataRequestFor(&v.state)
+	if req.satisfied(v.data) {
+		v.setIdle(v.ui.work)
+		v.jobs.cancel("data")
 		v.requestRender()
 		return
 	}
-	baseParams := copyMap(st.Params[pl.Base.ID])
-	var overParams map[string]string
-	if pl.Overlay != nil {
-		overParams = copyMap(st.Params[pl.Overlay.ID])
-	}
-	cond := st.Cond
-	what := "Reading " + strings.ToLower(st.title(v.info))
-	cancel := func() { v.jobs.cancel("data") }
-	v.setBusy(v.ui.work, what, 0, 0, cancel)
+	have, vol := v.data, v.vol
+	cancel := func() { v.jobs.cancel("data"); v.setIdle(v.ui.work) }
+	v.setBusy(v.ui.work, "Reading "+strings.ToLower(v.state.title(v.info)), 0, 0, cancel)
 	v.jobs.start("data", func(j *job) {
 		var thr progressThrottle
 		progress := func(label string) func(done, total int) {
@@ -251,46 +323,7 @@ func (v *viewer) requestData() {
 				}
 			}
 		}
-		out := have
-		var err error
-		get := func(key string, a *compute.Attribute, params map[string]string, c compute.Conditioning, cur *volume.Section, curKey string) (*volume.Section, error) {
-			switch {
-			case key == curKey && cur != nil:
-				return cur, nil
-			case key == out.ampKey && out.amp != nil:
-				return out.amp, nil
-			case key == have.baseKey && have.base != nil:
-				return have.base, nil
-			case key == have.overKey && have.over != nil:
-				return have.over, nil
-			}
-			if a.ID == amplitudeID && c.IsZero() {
-				s, err := vol.Read(j.ctx, sl)
-				return &s, err
-			}
-			p, err := a.Resolve(params)
-			if err != nil {
-				return nil, fmt.Errorf("%s: %w", a.Name, err)
-			}
-			label := fmt.Sprintf("Computing %s", strings.ToLower(a.Name))
-			if sl.Orientation == volume.TimeSlice {
-				label += " for the whole volume"
-			}
-			s, err := vol.Attribute(j.ctx, sl, a, p, c, progress(label))
-			return &s, err
-		}
-		if out.amp, err = get(ampKey, lookup(amplitudeID), nil, zero, have.amp, have.ampKey); err == nil {
-			out.ampKey = ampKey
-			if out.base, err = get(baseKey, pl.Base, baseParams, cond, have.base, have.baseKey); err == nil {
-				out.baseKey = baseKey
-				out.over, out.overKey = nil, ""
-				if pl.Overlay != nil {
-					if out.over, err = get(overKey, pl.Overlay, overParams, cond, have.over, have.overKey); err == nil {
-						out.overKey = overKey
-					}
-				}
-			}
-		}
+		out, err := fetchData(j.ctx, vol, req, have, progress)
 		if j.ctx.Err() != nil {
 			return
 		}
@@ -308,6 +341,9 @@ func (v *viewer) requestData() {
 				n, m := v.dims()
 				v.state.fit(n, m)
 				v.state.PickTrace = n / 2
+				if v.state.Orientation == volume.TimeSlice {
+					v.state.PickTrace = m/2*n + n/2
+				}
 			}
 			v.refreshNavigation()
 			v.requestRender()
