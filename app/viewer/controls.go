@@ -48,6 +48,7 @@ type widgets struct {
 	offsetPick  *widget.Select
 	byteEntries map[string]*widget.Entry
 	byteOrder   *widget.Select
+	headerCard  *widget.Card
 
 	// attribute tab
 	attrTree    *widget.Tree
@@ -65,6 +66,7 @@ type widgets struct {
 	coRenderCheck   *widget.Check
 	baseChoice      *widget.Select
 	opacitySlider   *widget.Slider
+	opacityLabel    *widget.Label
 	followCheck     *widget.Check
 	stretchSlider   *widget.Slider
 	followCursor    *widget.Check
@@ -291,7 +293,8 @@ func (v *viewer) surveyTab() fyne.CanvasObject {
 	form.Add(widget.NewLabel("Byte order"))
 	form.Add(u.byteOrder)
 	rescan := widget.NewButtonWithIcon("Read the file again with these", theme.ViewRefreshIcon(), v.rescan)
-	headers := widget.NewCard("", "Trace header byte locations", container.NewVBox(form, rescan))
+	u.headerCard = widget.NewCard("", "Trace header byte locations", container.NewVBox(form, rescan))
+	headers := u.headerCard
 	return container.NewVScroll(container.NewVBox(u.surveyName, u.surveyFacts, u.offsetRow, headerBtn, headers))
 }
 
@@ -449,6 +452,8 @@ func (v *viewer) displayTab() fyne.CanvasObject {
 	})
 	u.opacitySlider = widget.NewSlider(0, 1)
 	u.opacitySlider.Step = 0.05
+	u.opacityLabel = widget.NewLabel("")
+	u.opacitySlider.OnChanged = func(f float64) { u.opacityLabel.SetText(fmt.Sprintf("Opacity %.0f %%", f*100)) }
 	u.opacitySlider.OnChangeEnded = func(f float64) {
 		if u.refreshing {
 			return
@@ -485,7 +490,7 @@ func (v *viewer) displayTab() fyne.CanvasObject {
 		u.clipLabel, u.clipSlider)
 	layers := container.New(layout.NewFormLayout(),
 		widget.NewLabel("Base layer"), u.baseChoice,
-		widget.NewLabel("Opacity"), u.opacitySlider)
+		u.opacityLabel, u.opacitySlider)
 	view := container.New(layout.NewFormLayout(), widget.NewLabel("Vertical stretch"), u.stretchSlider)
 	return container.NewVScroll(container.NewVBox(
 		oneClick,
@@ -537,6 +542,12 @@ func (v *viewer) refreshControls() {
 		u.followCheck.Disable()
 	}
 	u.stretchSlider.SetValue(st.Exaggeration)
+	u.opacityLabel.SetText(fmt.Sprintf("Opacity %.0f %%", st.Opacity*100))
+	if st.Orientation == volume.TimeSlice {
+		u.stretchSlider.Disable() // a map keeps its true shape
+	} else {
+		u.stretchSlider.Enable()
+	}
 	u.followCursor.SetChecked(st.FollowCursor)
 	v.refreshSurvey()
 	v.refreshNavigation()
@@ -602,8 +613,8 @@ func (v *viewer) refreshSurvey() {
 	add("Traces", fmt.Sprintf("%d (%s)", in.Traces, in.Layout))
 	add("Inlines", rangeText(in.Inline))
 	add("Crosslines", rangeText(in.Crossline))
-	if len(in.Offsets) > 0 {
-		add("Offsets", fmt.Sprint(len(in.Offsets)))
+	if len(in.Offsets) > 1 {
+		add("Offsets", fmt.Sprintf("%d (%d to %d)", len(in.Offsets), in.Offsets[0], in.Offsets[len(in.Offsets)-1]))
 	}
 	if in.MissingTraces > 0 || in.DuplicateTraces > 0 {
 		add("Gaps", fmt.Sprintf("%d missing, %d duplicate", in.MissingTraces, in.DuplicateTraces))
@@ -616,6 +627,12 @@ func (v *viewer) refreshSurvey() {
 	add("Amplitude", fmt.Sprintf("%.3g to %.3g, RMS %.3g", in.AmplitudeMin, in.AmplitudeMax, in.AmplitudeRMS))
 	for _, w := range in.Warnings {
 		add("Note", w)
+	}
+	// Byte locations mean something only for a file.
+	if v.vol.Path() == "" {
+		u.headerCard.Hide()
+	} else {
+		u.headerCard.Show()
 	}
 	if len(in.Offsets) > 1 {
 		var opts []string
@@ -754,7 +771,7 @@ func (v *viewer) setOrientation(o volume.Orientation) {
 	}
 	v.state.Orientation = o
 	v.state.PickTrace = -1
-	v.refreshNavigation()
+	v.refreshControls()
 	v.requestData()
 }
 

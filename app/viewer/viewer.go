@@ -46,6 +46,7 @@ type Options struct {
 func Run(opt Options) error {
 	a := app.NewWithID("org.quadtrace.viewer")
 	v := newViewer(a, opt)
+	v.start()
 	v.win.ShowAndRun()
 	v.jobs.close()
 	if v.vol != nil {
@@ -89,6 +90,7 @@ type viewer struct {
 	segyOpt  segy.Options
 	state    viewState
 	data     shown
+	cache    *sectionCache
 	ranges   map[string][2]float32 // display ranges by section key and clip
 	pickInfo string                // what the trace panel shows, for the status bar
 
@@ -101,22 +103,27 @@ type viewer struct {
 	ui *widgets
 }
 
-// newViewer builds the window on app a and starts opening opt.Path (or the
-// demo survey). The caller shows the window.
+// newViewer builds the window on app a; start opens the survey. The caller
+// shows the window.
 func newViewer(a fyne.App, opt Options) *viewer {
-	v := &viewer{app: a, opt: opt, jobs: newJobs(), segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}}
+	v := &viewer{app: a, opt: opt, jobs: newJobs(), segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
 	v.win = a.NewWindow("quadtrace")
 	v.buildUI()
 	v.restoreWindowSize()
-	if opt.Snapshot != "" {
+	return v
+}
+
+// start opens opt.Path, or the demo survey when it is empty, in the
+// background.
+func (v *viewer) start() {
+	if v.opt.Snapshot != "" {
 		v.startSnapshotTimer()
 	}
-	if opt.Path != "" {
-		v.openFile(opt.Path)
+	if v.opt.Path != "" {
+		v.openFile(v.opt.Path)
 	} else {
 		v.openDemo()
 	}
-	return v
 }
 
 // onUI runs f on the UI goroutine for job j, if j is still current.
@@ -201,6 +208,7 @@ func (v *viewer) setSurvey(vol survey) {
 	v.vol = vol
 	v.info = vol.Info()
 	v.data = shown{}
+	v.cache.clear()
 	v.ranges = map[string][2]float32{}
 	v.state = newViewState(v.info)
 	v.loadPalettePrefs()
@@ -240,11 +248,14 @@ func (r dataRequest) satisfied(d shown) bool {
 }
 
 // fetchData reads and computes the sections of req, reusing those of have
-// whose keys match. progress(label) gives the progress callback of a
+// and of cached whose keys match. progress(label) gives the progress callback of a
 // computation. It runs in a background job.
-func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, progress func(label string) func(done, total int)) (shown, error) {
+func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cached map[string]*volume.Section, progress func(label string) func(done, total int)) (shown, error) {
 	var out shown
 	reuse := func(key string) *volume.Section {
+		if s := cached[key]; s != nil {
+			return s
+		}
 		switch {
 		case key == out.ampKey && out.amp != nil:
 			return out.amp
@@ -311,7 +322,7 @@ func (v *viewer) requestData() {
 		v.requestRender()
 		return
 	}
-	have, vol := v.data, v.vol
+	have, vol, cached := v.data, v.vol, v.cache.snapshot()
 	cancel := func() { v.jobs.cancel("data"); v.setIdle(v.ui.work) }
 	v.setBusy(v.ui.work, "Reading "+strings.ToLower(v.state.title(v.info)), 0, 0, cancel)
 	v.jobs.start("data", func(j *job) {
@@ -323,7 +334,7 @@ func (v *viewer) requestData() {
 				}
 			}
 		}
-		out, err := fetchData(j.ctx, vol, req, have, progress)
+		out, err := fetchData(j.ctx, vol, req, have, cached, progress)
 		if j.ctx.Err() != nil {
 			return
 		}
@@ -337,6 +348,9 @@ func (v *viewer) requestData() {
 			}
 			newShape := v.data.amp == nil || sectionShape(v.data.amp) != sectionShape(out.amp)
 			v.data = out
+			v.cache.put(out.ampKey, out.amp)
+			v.cache.put(out.baseKey, out.base)
+			v.cache.put(out.overKey, out.over)
 			if newShape {
 				n, m := v.dims()
 				v.state.fit(n, m)

@@ -40,6 +40,7 @@ func openViewer(t *testing.T, path string) *viewer {
 	a := test.NewTempApp(t)
 	v := newViewer(a, Options{Path: path})
 	v.win.Resize(fyne.NewSize(1400, 900))
+	v.start()
 	v.jobs.wait()
 	t.Cleanup(func() {
 		v.jobs.close()
@@ -203,7 +204,7 @@ func TestOpenStepPickAndClick(t *testing.T) {
 	v.ui.attrTree.Select("attr:instantaneous-phase")
 	v.jobs.wait()
 	if v.state.AttributeID != "instantaneous-phase" {
-		t.Fatalf("attribute %q after picking instantaneous phase", v.state.AttributeID)
+		t.Fatalf("attribute %q after picking instantaneous phase (refreshing %v)", v.state.AttributeID, v.ui.refreshing)
 	}
 	pl := v.state.plan()
 	if pl.Overlay == nil || pl.Overlay.ID != "instantaneous-phase" || pl.Base.ID != amplitudeID {
@@ -451,6 +452,7 @@ func TestPalettePreferenceKept(t *testing.T) {
 func TestBadFileShowsError(t *testing.T) {
 	a := test.NewTempApp(t)
 	v := newViewer(a, Options{Path: corpus(t, "text.sgy")})
+	v.start()
 	v.jobs.wait()
 	defer v.jobs.close()
 	if v.ui.section.message == "" || !strings.Contains(v.ui.message.Text, "text.sgy") {
