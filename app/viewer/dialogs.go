@@ -82,6 +82,12 @@ func (v *viewer) showOpenDialog() {
 	}, v.win)
 	d.SetFilter(storage.NewExtensionFileFilter([]string{".sgy", ".segy", ".SGY", ".SEGY"}))
 	d.Resize(fyne.NewSize(900, 600))
+	// Start where the last file came from.
+	if recent := v.recentFiles(); len(recent) > 0 {
+		if l, err := storage.ListerForURI(storage.NewFileURI(filepath.Dir(recent[0]))); err == nil {
+			d.SetLocation(l)
+		}
+	}
 	d.Show()
 }
 

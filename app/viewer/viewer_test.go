@@ -12,6 +12,7 @@ import (
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/driver/desktop"
+	"fyne.io/fyne/v2/storage"
 	"fyne.io/fyne/v2/test"
 
 	"quadtrace/app/style"
@@ -444,6 +445,27 @@ func TestPalettePreferenceKept(t *testing.T) {
 	// small-lsb.sgy holds the same values little-endian (corpus README).
 	if got := v.data.amp.Traces[0][0]; !near(got, corpusValue(3, 20, 0)) {
 		t.Errorf("small-lsb.sgy inline 3 first sample %v, want %v", got, corpusValue(3, 20, 0))
+	}
+}
+
+// TestDropOpensSegyFile drops a text file and then a SEG-Y file on the
+// window: only the SEG-Y file is opened.
+func TestDropOpensSegyFile(t *testing.T) {
+	v := openViewer(t, corpus(t, "small.sgy"))
+	readme, _ := filepath.Abs(corpus(t, "README.md"))
+	v.dropped(fyne.NewPos(10, 10), []fyne.URI{storage.NewFileURI(readme)})
+	v.jobs.wait()
+	if v.vol.Path() != corpus(t, "small.sgy") || !strings.Contains(v.ui.message.Text, ".sgy") {
+		t.Errorf("dropping a README: survey %q, status %q", v.vol.Path(), v.ui.message.Text)
+	}
+	tiny, _ := filepath.Abs(corpus(t, "tiny.sgy"))
+	v.dropped(fyne.NewPos(10, 10), []fyne.URI{storage.NewFileURI(tiny)})
+	v.jobs.wait()
+	if v.vol.Path() != tiny || v.info.Traces != 6 {
+		t.Errorf("dropping tiny.sgy opened %q with %d traces, want tiny.sgy with 6", v.vol.Path(), v.info.Traces)
+	}
+	if r := v.recentFiles(); len(r) < 2 || r[0] != tiny {
+		t.Errorf("recent files %v, want tiny.sgy first", r)
 	}
 }
 
