@@ -140,6 +140,7 @@ func (v *viewer) buildUI() {
 	u.section.onZoom = v.zoomAt
 	u.section.onPan = v.panBy
 	u.section.onResize = v.requestRender
+	u.section.onKey = v.typedKey
 	u.trace = newPlotView(plotTop, plotBottom, 4, 4, fyne.NewSize(200, 200))
 	u.trace.onResize = v.requestTrace
 	u.spectrum = newPlotView(34, 20, 10, 10, fyne.NewSize(200, 120))
@@ -222,6 +223,7 @@ func (v *viewer) navigationBar() fyne.CanvasObject {
 	u.lineSlider.OnChangeEnded = func(f float64) {
 		if !u.refreshing {
 			v.goToLine(int(math.Round(f)))
+			u.section.focus()
 		}
 	}
 	u.lineEntry = widget.NewEntry()
@@ -810,6 +812,7 @@ func (v *viewer) setAttribute(id string) {
 	v.state.AttributeID = id
 	v.refreshControls()
 	v.requestData()
+	v.ui.section.focus() // the arrow keys go on stepping lines
 }
 
 // setParam changes one parameter of attribute a.
@@ -1000,7 +1003,8 @@ func (v *viewer) fitView() {
 	v.requestTrace()
 }
 
-// typedKey handles the keys of the section view (when no entry has focus):
+// typedKey handles the keys of the section view (when it has the focus, or
+// nothing has):
 // Right/Left step one line, Page Down/Page Up ten, + and - zoom, Home shows
 // the whole section.
 func (v *viewer) typedKey(e *fyne.KeyEvent) {

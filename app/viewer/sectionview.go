@@ -55,6 +55,8 @@ type sectionView struct {
 	onZoom   func(factor, trace, sample float64)
 	onPan    func(dTrace, dSample float64)
 	onResize func()
+	onKey    func(*fyne.KeyEvent)
+	focused  bool
 }
 
 func newSectionView() *sectionView {
@@ -147,8 +149,33 @@ func (v *sectionView) MouseOut() {
 	}
 }
 
-// Tapped picks the trace under the pointer.
+// FocusGained is part of fyne.Focusable: the section takes the stepping and
+// zoom keys once clicked, whatever control had them before.
+func (v *sectionView) FocusGained() { v.focused = true; v.Refresh() }
+
+// FocusLost is part of fyne.Focusable.
+func (v *sectionView) FocusLost() { v.focused = false; v.Refresh() }
+
+// TypedRune is part of fyne.Focusable; "+" and "-" arrive as keys too.
+func (v *sectionView) TypedRune(rune) {}
+
+// TypedKey passes keys to the viewer while the section has the focus.
+func (v *sectionView) TypedKey(e *fyne.KeyEvent) {
+	if v.onKey != nil {
+		v.onKey(e)
+	}
+}
+
+// focus gives the section the keyboard.
+func (v *sectionView) focus() {
+	if c := fyne.CurrentApp().Driver().CanvasForObject(v); c != nil {
+		c.Focus(v)
+	}
+}
+
+// Tapped picks the trace under the pointer and takes the keyboard.
 func (v *sectionView) Tapped(e *fyne.PointEvent) {
+	v.focus()
 	t, s, in := v.toData(e.Position)
 	if in && v.onPick != nil {
 		v.onPick(t, s)
@@ -244,6 +271,9 @@ func (r *sectionRenderer) Refresh() {
 	fg := theme.Color(theme.ColorNameForeground)
 	r.bg.FillColor = theme.Color(theme.ColorNameInputBackground)
 	r.frame.StrokeColor = theme.Color(theme.ColorNameSeparator)
+	if r.v.focused {
+		r.frame.StrokeColor = theme.Color(theme.ColorNameFocus)
+	}
 	r.message.Color, r.hTitle.Color, r.vTitle.Color = fg, fg, fg
 	r.message.Text = r.v.message
 	r.image.Image = r.v.img

@@ -207,6 +207,9 @@ func TestOpenStepPickAndClick(t *testing.T) {
 	if v.state.AttributeID != "instantaneous-phase" {
 		t.Fatalf("attribute %q after picking instantaneous phase (refreshing %v)", v.state.AttributeID, v.ui.refreshing)
 	}
+	if v.win.Canvas().Focused() != v.ui.section {
+		t.Error("after picking an attribute the section does not have the keyboard")
+	}
 	pl := v.state.plan()
 	if pl.Overlay == nil || pl.Overlay.ID != "instantaneous-phase" || pl.Base.ID != amplitudeID {
 		t.Fatalf("plan %+v, want phase over amplitude", pl)
