@@ -506,7 +506,7 @@ func (v *viewer) runExport(ej export.Job) {
 			}
 		})
 		cancelled := j.ctx.Err() != nil
-		fyne.Do(func() {
+		v.jobs.do(func() {
 			v.setIdle(v.ui.export)
 			switch {
 			case cancelled:

@@ -3,6 +3,7 @@ package viewer
 import (
 	"context"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"fyne.io/fyne/v2"
@@ -14,11 +15,18 @@ import (
 // a job cancels the lane's previous job, whose results are then dropped, so a
 // stale request never delays or overwrites a fresh one.
 type jobs struct {
-	root  context.Context
-	stop  context.CancelFunc
-	busy  sync.WaitGroup
-	mu    sync.Mutex
-	lanes map[string]*laneState
+	root    context.Context
+	stop    context.CancelFunc
+	running atomic.Int64 // jobs whose goroutine has not returned
+	mu      sync.Mutex
+	lanes   map[string]*laneState
+
+	// post hands a function to the UI goroutine: fyne.Do in the window.
+	// Tests set it to queue the functions and run them on the test's own
+	// goroutine in wait, which stands in for the single UI goroutine (fyne's
+	// test driver would run them at once on the job's goroutine instead).
+	post   func(func())
+	queued []func()
 }
 
 type laneState struct {
@@ -28,8 +36,23 @@ type laneState struct {
 
 func newJobs() *jobs {
 	ctx, stop := context.WithCancel(context.Background())
-	return &jobs{root: ctx, stop: stop, lanes: map[string]*laneState{}}
+	return &jobs{root: ctx, stop: stop, lanes: map[string]*laneState{}, post: fyne.Do}
 }
+
+// newQueuedJobs returns jobs whose UI functions wait in a queue until wait
+// runs them (for tests).
+func newQueuedJobs() *jobs {
+	js := newJobs()
+	js.post = func(f func()) {
+		js.mu.Lock()
+		js.queued = append(js.queued, f)
+		js.mu.Unlock()
+	}
+	return js
+}
+
+// do runs f on the UI goroutine.
+func (js *jobs) do(f func()) { js.post(f) }
 
 // job is the handle a running job uses to hand results to the UI.
 type job struct {
@@ -49,9 +72,9 @@ func (j *job) current() bool {
 }
 
 // ui runs f on the UI goroutine (through fyne.Do) if the job is still
-// current when f gets there; it reports whether f ran.
+// current when f gets there.
 func (j *job) ui(f func()) {
-	fyne.Do(func() {
+	j.js.post(func() {
 		if j.current() {
 			f()
 		}
@@ -73,10 +96,10 @@ func (js *jobs) start(lane string, run func(j *job)) {
 	ls.gen++
 	ls.cancel = cancel
 	j := &job{ctx: ctx, js: js, lane: lane, gen: ls.gen}
-	js.busy.Add(1)
+	js.running.Add(1)
 	js.mu.Unlock()
 	go func() {
-		defer js.busy.Done()
+		defer js.running.Add(-1)
 		defer cancel()
 		run(j)
 	}()
@@ -92,9 +115,30 @@ func (js *jobs) cancel(lane string) {
 	}
 }
 
-// wait blocks until no job is running (tests use it; with fyne's test
-// driver fyne.Do runs inline, so the UI has been updated by then).
-func (js *jobs) wait() { js.busy.Wait() }
+// wait runs the queued UI functions (see newQueuedJobs) until no job is
+// running and none is queued, including the jobs those functions start.
+// With post = fyne.Do it only waits for the jobs to end.
+func (js *jobs) wait() {
+	for {
+		// A job queues its last UI function before it stops running, so
+		// reading running before the queue sees every function of a
+		// finished job.
+		idle := js.running.Load() == 0
+		js.mu.Lock()
+		fs := js.queued
+		js.queued = nil
+		js.mu.Unlock()
+		for _, f := range fs {
+			f()
+		}
+		if len(fs) == 0 {
+			if idle {
+				return
+			}
+			time.Sleep(time.Millisecond)
+		}
+	}
+}
 
 // close cancels every job.
 func (js *jobs) close() { js.stop() }

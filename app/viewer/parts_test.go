@@ -19,7 +19,7 @@ import (
 // cancellation, then a newer one in the same lane: the first is cancelled
 // and its result never reaches the UI; the second's does.
 func TestStaleJobIsCancelledAndDropped(t *testing.T) {
-	js := newJobs()
+	js := newQueuedJobs()
 	defer js.close()
 	started := make(chan struct{})
 	var staleShown, freshShown, staleCancelled atomic.Bool

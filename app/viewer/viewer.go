@@ -16,7 +16,6 @@ import (
 	"math"
 	"path/filepath"
 	"strings"
-	"sync"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/app"
@@ -45,7 +44,7 @@ type Options struct {
 // that prevented it.
 func Run(opt Options) error {
 	a := app.NewWithID("org.quadtrace.viewer")
-	v := newViewer(a, opt)
+	v := newViewer(a, opt, newJobs())
 	v.start()
 	v.win.ShowAndRun()
 	v.jobs.close()
@@ -82,7 +81,6 @@ type viewer struct {
 	win     fyne.Window
 	opt     Options
 	jobs    *jobs
-	uiMu    sync.Mutex // serialises job results when fyne.Do runs inline (test driver)
 	exitErr error
 
 	vol      survey
@@ -103,10 +101,10 @@ type viewer struct {
 	ui *widgets
 }
 
-// newViewer builds the window on app a; start opens the survey. The caller
-// shows the window.
-func newViewer(a fyne.App, opt Options) *viewer {
-	v := &viewer{app: a, opt: opt, jobs: newJobs(), segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
+// newViewer builds the window on app a, with its background work run by js;
+// start opens the survey. The caller shows the window.
+func newViewer(a fyne.App, opt Options, js *jobs) *viewer {
+	v := &viewer{app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
 	v.win = a.NewWindow("quadtrace")
 	v.buildUI()
 	v.restoreWindowSize()
@@ -128,11 +126,7 @@ func (v *viewer) start() {
 
 // onUI runs f on the UI goroutine for job j, if j is still current.
 func (v *viewer) onUI(j *job, f func()) {
-	j.ui(func() {
-		v.uiMu.Lock()
-		defer v.uiMu.Unlock()
-		f()
-	})
+	j.ui(f)
 }
 
 // --- opening ---
@@ -179,7 +173,7 @@ func (v *viewer) startOpen(what string, open func(context.Context, func(int, int
 			if vol != nil {
 				vol.Close()
 			}
-			fyne.Do(func() { v.setIdle(v.ui.work) })
+			v.jobs.do(func() { v.setIdle(v.ui.work) })
 			return
 		}
 		v.onUI(j, func() {

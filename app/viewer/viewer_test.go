@@ -39,7 +39,7 @@ func corpus(t *testing.T, name string) string {
 func openViewer(t *testing.T, path string) *viewer {
 	t.Helper()
 	a := test.NewTempApp(t)
-	v := newViewer(a, Options{Path: path})
+	v := newViewer(a, Options{Path: path}, newQueuedJobs())
 	v.win.Resize(fyne.NewSize(1400, 900))
 	v.start()
 	v.jobs.wait()
@@ -476,7 +476,7 @@ func TestDropOpensSegyFile(t *testing.T) {
 // keeps going.
 func TestBadFileShowsError(t *testing.T) {
 	a := test.NewTempApp(t)
-	v := newViewer(a, Options{Path: corpus(t, "text.sgy")})
+	v := newViewer(a, Options{Path: corpus(t, "text.sgy")}, newQueuedJobs())
 	v.start()
 	v.jobs.wait()
 	defer v.jobs.close()
