@@ -7,7 +7,9 @@
 # screen with ImageMagick's `import -window root` while the window is still
 # there, crops the grab at the window position the viewer reports, and
 # compares the two pixel by pixel. It also checks that the snapshot is not
-# blank: the section area holds many distinct colours.
+# blank: the section area holds many distinct colours (over 200; a blank
+# window shows a few dozen, the demo survey thousands, the flat corpus file
+# small.sgy about 300).
 # Needs xvfb-run and imagemagick (import, convert, compare, identify).
 set -euo pipefail
 bin=$(realpath "${1:?usage: snapshot-check.sh QUADTRACE_BINARY [FILE]}"); shift
@@ -28,5 +30,5 @@ diff=$(compare -metric AE "$work/snap.png" "$work/crop.png" null: 2>&1 || true)
 colours=$(convert "$work/snap.png" -crop 50%x60%+400+120 +repage -format %k info:)
 echo "snapshot $(identify -format %wx%h "$work/snap.png"), window at ${geom#*+}; pixels differing from the screen grab: $diff; colours in the section area: $colours"
 [ "$diff" = "0" ] || { echo "FAIL: the snapshot differs from the screen"; exit 1; }
-[ "$colours" -gt 500 ] || { echo "FAIL: the snapshot looks blank"; exit 1; }
+[ "$colours" -gt 200 ] || { echo "FAIL: the snapshot looks blank"; exit 1; }
 echo "snapshot check: 1 passed, 0 failed"
