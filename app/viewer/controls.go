@@ -162,8 +162,6 @@ func (v *viewer) buildUI() {
 		container.NewTabItem("Display", v.displayTab()),
 		container.NewTabItem("Survey", v.surveyTab()),
 	)
-	side := container.NewGridWrap(fyne.NewSize(330, 10), tabs) // width only; height follows the border
-	_ = side
 	status := container.NewBorder(nil, nil, u.cursor, container.NewHBox(u.export.box, u.work.box), u.message)
 	split := container.NewHSplit(tabs, main)
 	split.Offset = 0.24

@@ -459,7 +459,7 @@ func (v *viewer) showExportDialog() {
 	note := widget.NewLabel("Files are named after the input and the attribute; the current parameters and conditioning are used.")
 	note.Wrapping = fyne.TextWrapWord
 	scroll := container.NewVScroll(pick)
-	scroll.SetMinSize(fyne.NewSize(320, 260))
+	scroll.SetMinSize(fyne.NewSize(460, 260))
 	body := container.NewVBox(
 		widget.NewLabel("Attributes"), scroll,
 		container.New(layout.NewFormLayout(), widget.NewLabel("Samples"), format, widget.NewLabel("Folder"), container.NewBorder(nil, nil, nil, browse, folder)),
