@@ -218,6 +218,16 @@ func (v *viewer) navigationBar() fyne.CanvasObject {
 	u.orientation.Horizontal = true
 	u.orientation.Required = true
 	u.lineSlider = widget.NewSlider(0, 1)
+	u.lineSlider.OnChanged = func(f float64) {
+		// While dragging, the entry previews the line; it is read at the end.
+		switch {
+		case u.refreshing:
+		case v.state.Orientation == volume.TimeSlice:
+			u.lineEntry.SetText(formatMS(v.info.StartMS + math.Round(f)*float64(v.info.IntervalUS)/1000))
+		default:
+			u.lineEntry.SetText(fmt.Sprint(int(math.Round(f))))
+		}
+	}
 	u.lineSlider.OnChangeEnded = func(f float64) {
 		if !u.refreshing {
 			v.goToLine(int(math.Round(f)))

@@ -208,6 +208,13 @@ func (v *viewer) setSurvey(vol survey) {
 	v.loadPalettePrefs()
 	v.win.SetTitle("quadtrace — " + vol.Name())
 	v.refreshControls()
+	if v.info.Traces == 0 {
+		msg := filepath.Base(vol.Name()) + " holds headers but no traces"
+		v.ui.section.setMessage(msg)
+		v.showStatus(msg)
+		v.failSnapshot(fmt.Errorf("%s", msg))
+		return
+	}
 	v.requestData()
 }
 

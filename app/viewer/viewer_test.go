@@ -510,7 +510,7 @@ func TestBadFileShowsError(t *testing.T) {
 	v.start()
 	v.jobs.wait()
 	defer v.jobs.close()
-	if v.ui.section.message == "" || !strings.Contains(v.ui.message.Text, "text.sgy") {
+	if !strings.Contains(v.ui.section.message, "no traces") || !strings.Contains(v.ui.message.Text, "text.sgy") {
 		t.Errorf("no error shown for a file without traces: section %q, status %q", v.ui.section.message, v.ui.message.Text)
 	}
 }
