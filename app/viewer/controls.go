@@ -401,12 +401,13 @@ func (v *viewer) displayTab() fyne.CanvasObject {
 	u := v.ui
 	var names []string
 	for _, p := range palettes.All() {
-		names = append(names, p.Name)
+		names = append(names, paletteLabel(p))
 	}
-	u.palettePick = widget.NewSelect(names, func(s string) {
+	u.palettePick = widget.NewSelect(names, func(label string) {
 		if u.refreshing {
 			return
 		}
+		s := paletteName(label)
 		pl := v.state.plan()
 		if pl.Overlay != nil {
 			v.setPalette(pl.Overlay, true, s)
@@ -414,11 +415,11 @@ func (v *viewer) displayTab() fyne.CanvasObject {
 			v.setPalette(pl.Base, false, s)
 		}
 	})
-	u.basePalettePick = widget.NewSelect(names, func(s string) {
+	u.basePalettePick = widget.NewSelect(names, func(label string) {
 		if u.refreshing {
 			return
 		}
-		v.setPalette(v.state.plan().Base, false, s)
+		v.setPalette(v.state.plan().Base, false, paletteName(label))
 	})
 	u.clipLabel = widget.NewLabel("")
 	u.clipSlider = widget.NewSlider(90, 100)
@@ -510,6 +511,20 @@ func (v *viewer) displayTab() fyne.CanvasObject {
 	))
 }
 
+// paletteLabel names a palette in the choice lists with its family, so the
+// user can tell a cyclic map from a sequential one.
+func paletteLabel(p *palettes.Palette) string {
+	return p.Name + " (" + p.Family.String() + ")"
+}
+
+// paletteName is the palette name of a label made by paletteLabel.
+func paletteName(label string) string {
+	if i := strings.LastIndex(label, " ("); i > 0 {
+		return label[:i]
+	}
+	return label
+}
+
 // --- keeping the controls in step with the state ---
 
 // refreshControls sets every control from the state and the survey.
@@ -527,11 +542,11 @@ func (v *viewer) refreshControls() {
 	v.buildParamControls(attr)
 	// Display tab.
 	if pl.Overlay != nil {
-		u.palettePick.SetSelected(st.paletteFor(pl.Overlay, true).Name)
-		u.basePalettePick.SetSelected(st.paletteFor(pl.Base, false).Name)
+		u.palettePick.SetSelected(paletteLabel(st.paletteFor(pl.Overlay, true)))
+		u.basePalettePick.SetSelected(paletteLabel(st.paletteFor(pl.Base, false)))
 		u.basePalettePick.Enable()
 	} else {
-		u.palettePick.SetSelected(st.paletteFor(pl.Base, false).Name)
+		u.palettePick.SetSelected(paletteLabel(st.paletteFor(pl.Base, false)))
 		u.basePalettePick.ClearSelected()
 		u.basePalettePick.Disable()
 	}
@@ -737,7 +752,7 @@ func (v *viewer) refreshLegends(pl layerPlan, res renderResult) {
 		lo := widget.NewLabel(render.FormatTick(float64(l.Lo), decimalsFor(l.Lo, l.Hi)))
 		hi := widget.NewLabel(render.FormatTick(float64(l.Hi), decimalsFor(l.Lo, l.Hi)))
 		u.legends.Add(head)
-		u.legends.Add(container.NewBorder(nil, nil, lo, hi, bar))
+		u.legends.Add(container.NewBorder(nil, nil, lo, hi, container.NewVBox(layout.NewSpacer(), bar, layout.NewSpacer())))
 	}
 	if res.hasOv {
 		note := fmt.Sprintf("over, %.0f %% opacity", v.state.Opacity*100)

@@ -134,11 +134,11 @@ func (v *viewer) requestTrace() {
 			for _, at := range attrs {
 				curves = append(curves, at.sec.Traces[i])
 			}
-			what := "Crossline"
+			il, xl := st.Inline, d.amp.Keys[i]
 			if d.amp.Slice.Orientation == volume.Crossline {
-				what = "Inline"
+				il, xl = d.amp.Keys[i], st.Crossline
 			}
-			pic.title = fmt.Sprintf("%s %d", what, d.amp.Keys[i])
+			pic.title = fmt.Sprintf("Inline %d, crossline %d", il, xl)
 			pic.s0, pic.s1 = vp.Sample0, vp.Sample1
 		}
 		pic.t0ms, pic.dtms = d.amp.T0*1000, d.amp.DT*1000

@@ -18,6 +18,7 @@ import (
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
+	"quadtrace/palettes"
 	"quadtrace/render"
 )
 
@@ -254,7 +255,7 @@ func TestOpenStepPickAndClick(t *testing.T) {
 		t.Error("phase alone: the drawn section differs from render's output")
 	}
 	assertCanvasShowsSection(t, v)
-	if p := v.state.paletteFor(lookup("instantaneous-phase"), false); v.ui.palettePick.Selected != p.Name {
+	if p := v.state.paletteFor(lookup("instantaneous-phase"), false); paletteName(v.ui.palettePick.Selected) != p.Name || p.Family != palettes.Cyclic {
 		t.Errorf("palette control shows %q, the layer uses %q", v.ui.palettePick.Selected, p.Name)
 	}
 
@@ -269,7 +270,7 @@ func TestOpenStepPickAndClick(t *testing.T) {
 	if v.state.PickTrace != 1 {
 		t.Fatalf("picked trace %d after clicking the second trace", v.state.PickTrace)
 	}
-	if v.ui.trace.img == nil || !hasLabel(v.ui.trace.labels, "Crossline 21") {
+	if v.ui.trace.img == nil || !hasLabel(v.ui.trace.labels, "Inline 3, crossline 21") {
 		t.Errorf("trace panel labels %v, want a picture of crossline 21", labelTexts(v.ui.trace.labels))
 	}
 	if !hasLabel(v.ui.trace.labels, "Instantaneous phase") {
@@ -437,12 +438,12 @@ func TestPalettePreferenceKept(t *testing.T) {
 	}
 	v.ui.palettePick.SetSelected(other)
 	v.jobs.wait()
-	if got := v.state.paletteFor(v.state.plan().Overlay, true).Name; got != other {
+	if got := paletteLabel(v.state.paletteFor(v.state.plan().Overlay, true)); got != other {
 		t.Fatalf("overlay palette %q, want %q", got, other)
 	}
 	v.openFile(corpus(t, "small-lsb.sgy"))
 	v.jobs.wait()
-	if got := v.state.paletteFor(v.state.plan().Overlay, true).Name; got != other {
+	if got := paletteLabel(v.state.paletteFor(v.state.plan().Overlay, true)); got != other {
 		t.Errorf("after reopening, overlay palette %q, want the kept %q", got, other)
 	}
 	// small-lsb.sgy holds the same values little-endian (corpus README).
@@ -512,5 +513,23 @@ func TestBadFileShowsError(t *testing.T) {
 	defer v.jobs.close()
 	if !strings.Contains(v.ui.section.message, "no traces") || !strings.Contains(v.ui.message.Text, "text.sgy") {
 		t.Errorf("no error shown for a file without traces: section %q, status %q", v.ui.section.message, v.ui.message.Text)
+	}
+}
+
+// TestOpensEveryCorpusFile opens each corpus file: every one with traces
+// is drawn with its trace panel, including the one-line and one-trace
+// surveys the corpus README says must open.
+func TestOpensEveryCorpusFile(t *testing.T) {
+	for _, name := range []string{"small.sgy", "small-lsb.sgy", "tiny.sgy", "normal-small.sgy", "small-ps.sgy", "1x1.sgy", "1xN.sgy", "Mx1.sgy", "multi-text.sgy", "shot-gather.sgy"} {
+		t.Run(name, func(t *testing.T) {
+			v := openViewer(t, corpus(t, name))
+			if v.sectionDrawn == 0 || v.traceDrawn == 0 {
+				t.Errorf("%s: section drawn %d times, trace panel %d; status %q, section %q", name, v.sectionDrawn, v.traceDrawn, v.ui.message.Text, v.ui.section.message)
+			}
+			n, m := v.dims()
+			if n*m == 0 || n != len(v.data.amp.Traces) {
+				t.Errorf("%s: shown section %d x %d", name, n, m)
+			}
+		})
 	}
 }
