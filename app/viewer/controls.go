@@ -247,6 +247,18 @@ func (v *viewer) navigationBar() fyne.CanvasObject {
 		}
 		v.goToLine(n)
 	}
+	u.offsetPick = widget.NewSelect(nil, func(s string) {
+		if u.refreshing {
+			return
+		}
+		if n, err := strconv.Atoi(s); err == nil {
+			v.state.Offset = n
+			v.refreshNavigation()
+			v.requestData()
+		}
+	})
+	u.offsetRow = container.NewHBox(widget.NewSeparator(), widget.NewLabel("Offset"), u.offsetPick)
+	u.offsetRow.Hide()
 	u.lineRange = widget.NewLabel("")
 	u.title = widget.NewLabel("")
 	u.title.TextStyle.Bold = true
@@ -264,7 +276,7 @@ func (v *viewer) navigationBar() fyne.CanvasObject {
 	fit := btn(theme.ZoomFitIcon(), "whole section", v.fitView)
 	entry := container.NewGridWrap(fyne.NewSize(90, u.lineEntry.MinSize().Height), u.lineEntry)
 	left := container.NewHBox(u.orientation, widget.NewSeparator(), back10, back)
-	right := container.NewHBox(next, next10, entry, u.lineRange, widget.NewSeparator(), zoomOut, zoomIn, fit)
+	right := container.NewHBox(next, next10, entry, u.lineRange, u.offsetRow, widget.NewSeparator(), zoomOut, zoomIn, fit)
 	row1 := container.NewBorder(nil, nil, left, right, u.lineSlider)
 	return container.NewVBox(row1, u.title)
 }
@@ -277,17 +289,6 @@ func (v *viewer) surveyTab() fyne.CanvasObject {
 	u.surveyName.TextStyle.Bold = true
 	u.surveyName.Wrapping = fyne.TextWrapBreak
 	u.surveyFacts = container.New(layout.NewFormLayout())
-	u.offsetPick = widget.NewSelect(nil, func(s string) {
-		if u.refreshing {
-			return
-		}
-		if n, err := strconv.Atoi(s); err == nil {
-			v.state.Offset = n
-			v.requestData()
-		}
-	})
-	u.offsetRow = container.NewBorder(nil, nil, widget.NewLabel("Offset shown"), nil, u.offsetPick)
-	u.offsetRow.Hide()
 	headerBtn := widget.NewButtonWithIcon("Textual header…", theme.DocumentIcon(), v.showTextHeader)
 	u.byteEntries = map[string]*widget.Entry{}
 	form := container.New(layout.NewFormLayout())
@@ -305,7 +306,7 @@ func (v *viewer) surveyTab() fyne.CanvasObject {
 	rescan := widget.NewButtonWithIcon("Read the file again with these", theme.ViewRefreshIcon(), v.rescan)
 	u.headerCard = widget.NewCard("", "Trace header byte locations", container.NewVBox(form, rescan))
 	headers := u.headerCard
-	return container.NewVScroll(container.NewVBox(u.surveyName, u.surveyFacts, u.offsetRow, headerBtn, headers))
+	return container.NewVScroll(container.NewVBox(u.surveyName, u.surveyFacts, headerBtn, headers))
 }
 
 // byteFields are the trace header fields whose byte location can be set.

@@ -165,16 +165,22 @@ func (s *viewState) step(info segy.Info, count int) bool {
 	return s.setNumber(info, s.number()+count*step)
 }
 
-// title names the shown slice for people, e.g. "Inline 1074" or
-// "Time slice 812 ms".
+// title names the shown slice for people, e.g. "Inline 1074", "Time slice
+// 812 ms" or, in a pre-stack survey, "Inline 3, offset 250".
 func (s *viewState) title(info segy.Info) string {
+	var t string
 	switch s.Orientation {
 	case volume.Crossline:
-		return fmt.Sprintf("Crossline %d", s.Crossline)
+		t = fmt.Sprintf("Crossline %d", s.Crossline)
 	case volume.TimeSlice:
-		return fmt.Sprintf("Time slice %s ms", formatMS(info.StartMS+float64(s.SampleIndex)*float64(info.IntervalUS)/1000))
+		t = fmt.Sprintf("Time slice %s ms", formatMS(info.StartMS+float64(s.SampleIndex)*float64(info.IntervalUS)/1000))
+	default:
+		t = fmt.Sprintf("Inline %d", s.Inline)
 	}
-	return fmt.Sprintf("Inline %d", s.Inline)
+	if len(info.Offsets) > 1 {
+		t += fmt.Sprintf(", offset %d", s.Offset)
+	}
+	return t
 }
 
 // params returns the text values of the parameters of attribute id.
