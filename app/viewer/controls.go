@@ -981,7 +981,6 @@ func (v *viewer) pickAt(trace, sample float64) {
 		return
 	}
 	v.state.PickTrace = pick
-	v.pickInfo = v.describePoint(trace, sample)
 	v.ui.section.setPick(v.pickIndex())
 	v.requestTrace()
 }

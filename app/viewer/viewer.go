@@ -83,14 +83,13 @@ type viewer struct {
 	jobs    *jobs
 	exitErr error
 
-	vol      survey
-	info     segy.Info
-	segyOpt  segy.Options
-	state    viewState
-	data     shown
-	cache    *sectionCache
-	ranges   map[string][2]float32 // display ranges by section key and clip
-	pickInfo string                // what the trace panel shows, for the status bar
+	vol     survey
+	info    segy.Info
+	segyOpt segy.Options
+	state   viewState
+	data    shown
+	cache   *sectionCache
+	ranges  map[string][2]float32 // display ranges by section key and clip
 
 	// What the window currently shows, kept for tests and the snapshot.
 	lastSection   *image.RGBA
@@ -426,6 +425,9 @@ func (v *viewer) requestRender() {
 	v.jobs.start("render", func(j *job) {
 		res := renderSection(req, basePal, ovPal)
 		v.onUI(j, func() {
+			if len(v.ranges) > 256 { // keep the ranges of recent sections only
+				v.ranges = map[string][2]float32{}
+			}
 			for k, r := range res.newRanges {
 				v.ranges[k] = r
 			}

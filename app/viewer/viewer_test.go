@@ -281,6 +281,14 @@ func TestOpenStepPickAndClick(t *testing.T) {
 	if got := v.ui.cursor.Text; !strings.Contains(got, "IL 3  XL 21  t 0 ms") || !strings.Contains(got, "amplitude 3.21") {
 		t.Errorf("status bar %q, want IL 3 XL 21 at 0 ms with amplitude 3.21", got)
 	}
+	// Asked to follow the cursor, the trace panel moves with it.
+	test.Tap(v.ui.followCursor)
+	x4 := pos.X + float32((3.5-vp.Trace0)/(vp.Trace1-vp.Trace0))*size.Width
+	v.ui.section.MouseMoved(&desktop.MouseEvent{PointEvent: fyne.PointEvent{Position: fyne.NewPos(x4, pos.Y+size.Height/2)}})
+	v.jobs.wait()
+	if !v.state.FollowCursor || v.state.PickTrace != 3 || !hasLabel(v.ui.trace.labels, "Inline 3, crossline 23") {
+		t.Errorf("following the cursor over crossline 23: pick %d, labels %v", v.state.PickTrace, labelTexts(v.ui.trace.labels))
+	}
 }
 
 func hasLabel(ls []plotLabel, prefix string) bool {
