@@ -26,7 +26,9 @@ import (
 // testdata/snapshot-check.sh holds the window open after the snapshot
 // (QUADTRACE_SNAPSHOT_HOLD), grabs the screen with `import -window root`,
 // crops it at the window position printed on stderr and compares the two
-// pixel by pixel (ImageMagick compare -metric AE): they are identical.
+// pixel by pixel (ImageMagick compare -metric AE): they are identical. It
+// also has fyne's Canvas().Capture() written beside them
+// (QUADTRACE_SNAPSHOT_GL_CAPTURE) and reports how it differs.
 
 // snapshotTimeout bounds a snapshot run that never gets its first picture.
 const snapshotTimeout = 3 * time.Minute
@@ -64,6 +66,15 @@ func (v *viewer) takeSnapshot() {
 	img, at, err := v.stableCapture()
 	if err == nil {
 		err = writePNG(v.opt.Snapshot, img)
+	}
+	if path := os.Getenv("QUADTRACE_SNAPSHOT_GL_CAPTURE"); err == nil && path != "" {
+		// For the check script: what fyne's own capture gives at the same
+		// moment, to compare with the screen.
+		var gl image.Image
+		fyne.DoAndWait(func() { gl = v.win.Canvas().Capture() })
+		if gl != nil {
+			err = writePNG(path, gl)
+		}
 	}
 	if err == nil {
 		fmt.Fprintf(os.Stderr, "snapshot: %s: window %dx%d at %d,%d on the screen\n", v.opt.Snapshot, img.Bounds().Dx(), img.Bounds().Dy(), at.X, at.Y)
