@@ -115,6 +115,18 @@ func (js *jobs) cancel(lane string) {
 	}
 }
 
+// drain runs the UI functions queued so far (see newQueuedJobs) without
+// waiting for running jobs.
+func (js *jobs) drain() {
+	js.mu.Lock()
+	fs := js.queued
+	js.queued = nil
+	js.mu.Unlock()
+	for _, f := range fs {
+		f()
+	}
+}
+
 // wait runs the queued UI functions (see newQueuedJobs) until no job is
 // running and none is queued, including the jobs those functions start.
 // With post = fyne.Do it only waits for the jobs to end.

@@ -98,6 +98,29 @@ func middle(r segy.Range) int {
 	return r.Min + (r.Count-1)/2*step
 }
 
+// dataFields returns a copy of the fields that decide which sections are
+// read and computed (slice, layers, parameters, conditioning), the rest
+// zero.
+func (s *viewState) dataFields() viewState {
+	params := make(map[string]map[string]string, len(s.Params))
+	for id, m := range s.Params {
+		c := make(map[string]string, len(m))
+		for k, v := range m {
+			c[k] = v
+		}
+		params[id] = c
+	}
+	return viewState{Orientation: s.Orientation, Inline: s.Inline, Crossline: s.Crossline, SampleIndex: s.SampleIndex,
+		Offset: s.Offset, AttributeID: s.AttributeID, Params: params, Cond: s.Cond, CoRender: s.CoRender, BaseID: s.BaseID}
+}
+
+// restoreDataFields sets the fields dataFields copies from d.
+func (s *viewState) restoreDataFields(d viewState) {
+	s.Orientation, s.Inline, s.Crossline, s.SampleIndex, s.Offset = d.Orientation, d.Inline, d.Crossline, d.SampleIndex, d.Offset
+	s.AttributeID, s.Cond, s.CoRender, s.BaseID = d.AttributeID, d.Cond, d.CoRender, d.BaseID
+	s.Params = d.dataFields().Params
+}
+
 // slice is the slice of the survey the state shows.
 func (s *viewState) slice() volume.Slice {
 	return volume.Slice{Orientation: s.Orientation, Number: s.number(), Offset: s.Offset}

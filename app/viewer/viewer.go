@@ -88,8 +88,11 @@ type viewer struct {
 	segyOpt segy.Options
 	state   viewState
 	data    shown
-	cache   *sectionCache
-	ranges  map[string][2]float32 // display ranges by section key and clip
+	// shownState holds the state's data fields (slice, layers, parameters)
+	// of what the picture shows; a cancelled request goes back to them.
+	shownState viewState
+	cache      *sectionCache
+	ranges     map[string][2]float32 // display ranges by section key and clip
 
 	// What the window currently shows, kept for tests and the snapshot.
 	lastSection   *image.RGBA
@@ -323,7 +326,11 @@ func (v *viewer) requestData() {
 		return
 	}
 	have, vol, cached := v.data, v.vol, v.cache.snapshot()
-	cancel := func() { v.jobs.cancel("data"); v.setIdle(v.ui.work) }
+	cancel := func() {
+		v.jobs.cancel("data")
+		v.setIdle(v.ui.work)
+		v.backToShown()
+	}
 	v.setBusy(v.ui.work, "Reading "+strings.ToLower(v.state.title(v.info)), 0, 0, cancel)
 	v.jobs.start("data", func(j *job) {
 		var thr progressThrottle
@@ -348,6 +355,7 @@ func (v *viewer) requestData() {
 			}
 			newShape := v.data.amp == nil || sectionShape(v.data.amp) != sectionShape(out.amp)
 			v.data = out
+			v.shownState = v.state.dataFields()
 			v.cache.put(out.ampKey, out.amp)
 			v.cache.put(out.baseKey, out.base)
 			v.cache.put(out.overKey, out.over)
@@ -364,6 +372,17 @@ func (v *viewer) requestData() {
 			v.requestTrace()
 		})
 	})
+}
+
+// backToShown undoes the requested change whose data were cancelled, so the
+// controls name what the picture shows.
+func (v *viewer) backToShown() {
+	if v.data.amp == nil {
+		return
+	}
+	v.state.restoreDataFields(v.shownState)
+	v.refreshControls()
+	v.showStatus("Cancelled; still showing " + strings.ToLower(v.state.title(v.info)))
 }
 
 // sectionShape is the size of a section's grid.

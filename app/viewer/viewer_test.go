@@ -541,3 +541,50 @@ func TestOpensEveryCorpusFile(t *testing.T) {
 		})
 	}
 }
+
+// slowSurvey is a survey whose attribute computations wait until they are
+// cancelled, like a whole-volume time slice on a large file.
+type slowSurvey struct {
+	survey
+	started chan struct{}
+}
+
+func (s *slowSurvey) Attribute(ctx context.Context, sl volume.Slice, a *compute.Attribute, p compute.Params, c compute.Conditioning, progress func(done, total int)) (volume.Section, error) {
+	if sl.Orientation != volume.TimeSlice {
+		return s.survey.Attribute(ctx, sl, a, p, c, progress)
+	}
+	progress(1, 100)
+	close(s.started)
+	<-ctx.Done()
+	return volume.Section{}, ctx.Err()
+}
+
+// TestCancelLongJob starts a time slice whose attribute takes long, checks
+// the progress and cancel button show while the window stays usable, then
+// cancels: the picture and the controls stay on the inline shown before.
+func TestCancelLongJob(t *testing.T) {
+	v := openViewer(t, corpus(t, "small.sgy"))
+	slow := &slowSurvey{survey: v.vol, started: make(chan struct{})}
+	v.vol = slow
+	before := v.lastSection
+	v.ui.orientation.SetSelected("Time slice")
+	<-slow.started
+	v.jobs.drain() // shows the progress report; the job itself still waits
+	if v.ui.work.box.Hidden || v.ui.work.bar.Hidden || v.ui.work.cancel.Disabled() {
+		t.Fatalf("no progress or cancel shown for a long computation (box hidden %v)", v.ui.work.box.Hidden)
+	}
+	if !strings.Contains(v.ui.work.label.Text, "whole volume") {
+		t.Errorf("progress label %q does not say the whole volume is computed", v.ui.work.label.Text)
+	}
+	test.Tap(v.ui.work.cancel)
+	v.jobs.wait()
+	if v.state.Orientation != volume.Inline || v.ui.orientation.Selected != "Inline" || !strings.HasPrefix(v.ui.title.Text, "Inline 3") {
+		t.Errorf("after cancel: orientation %v, selector %q, title %q; want inline 3 as shown", v.state.Orientation, v.ui.orientation.Selected, v.ui.title.Text)
+	}
+	if v.lastSection != before || !v.ui.work.box.Hidden {
+		t.Error("cancelling changed the picture or left the progress shown")
+	}
+	if !strings.Contains(v.ui.message.Text, "Cancelled") {
+		t.Errorf("status %q after cancelling", v.ui.message.Text)
+	}
+}
