@@ -175,6 +175,8 @@ func (v *viewer) buildUI() {
 		v.saveWindowSize()
 		v.win.Close()
 	})
+	// File > Quit ends the app without closing the window first.
+	v.app.Lifecycle().SetOnStopped(v.saveWindowSize)
 }
 
 // workspaceLayout places the section with the trace panel to its right at

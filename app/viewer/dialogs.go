@@ -238,6 +238,9 @@ func (v *viewer) restoreWindowSize() {
 }
 
 func (v *viewer) saveWindowSize() {
+	if v.opt.Snapshot != "" {
+		return // a snapshot run leaves the user's window size alone
+	}
 	s := v.win.Canvas().Size()
 	if s.Width > 0 && s.Height > 0 {
 		v.app.Preferences().SetFloat(prefWidth, float64(s.Width))
