@@ -2,22 +2,16 @@ package app
 
 import (
 	"bytes"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 // TestDispatch checks that the command words reach their commands and that
 // wrong calls exit 2 with the usage, without opening a window.
 func TestDispatch(t *testing.T) {
-	small := filepath.Join("..", "..", "shared", "segy-corpus", "small.sgy")
-	if _, err := os.Stat(small); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("segy corpus missing under CI: %v", err)
-		}
-		t.Skipf("segy corpus not found: %v", err)
-	}
+	small := segytest.CorpusFile(t, "small.sgy")
 	for _, c := range []struct {
 		args   []string
 		code   int

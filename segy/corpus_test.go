@@ -5,6 +5,8 @@ import (
 	"math"
 	"os"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 // Checks against the open files of ../shared/segy-corpus (written by
@@ -33,7 +35,7 @@ func TestCorpusPostStack3D(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			f := openT(t, corpusFile(t, c.name), Options{})
+			f := openT(t, segytest.CorpusFile(t, c.name), Options{})
 			in := f.Info()
 			nil_, nxl := c.il1-c.il0+1, c.xl1-c.xl0+1
 			if in.Traces != nil_*nxl || in.Samples != c.samples || in.IntervalUS != c.dtUS {
@@ -78,7 +80,7 @@ func TestCorpusPostStack3D(t *testing.T) {
 }
 
 func TestCorpusReadmeValues(t *testing.T) {
-	f := openT(t, corpusFile(t, "small.sgy"), Options{})
+	f := openT(t, segytest.CorpusFile(t, "small.sgy"), Options{})
 	first, _ := f.ReadTrace(0, nil)
 	last, _ := f.ReadTrace(f.Info().Traces-1, nil)
 	// README: trace 0 starts 1.20000, 1.20001, 1.20002; last trace ends 5.24048, 5.24049.
@@ -94,8 +96,8 @@ func TestCorpusReadmeValues(t *testing.T) {
 
 // small-lsb.sgy must read exactly like small.sgy (README).
 func TestCorpusLittleEndianTwin(t *testing.T) {
-	be := openT(t, corpusFile(t, "small.sgy"), Options{})
-	le := openT(t, corpusFile(t, "small-lsb.sgy"), Options{})
+	be := openT(t, segytest.CorpusFile(t, "small.sgy"), Options{})
+	le := openT(t, segytest.CorpusFile(t, "small-lsb.sgy"), Options{})
 	if le.Info().ByteOrder != "little" || be.Info().ByteOrder != "big" {
 		t.Fatalf("byte orders %s / %s", be.Info().ByteOrder, le.Info().ByteOrder)
 	}
@@ -117,7 +119,7 @@ func TestCorpusLittleEndianTwin(t *testing.T) {
 		}
 	}
 	// Forcing the wrong order must not panic; it fails on the format code.
-	if _, err := Open(corpusFile(t, "small-lsb.sgy"), Options{ByteOrder: "big"}); err == nil {
+	if _, err := Open(segytest.CorpusFile(t, "small-lsb.sgy"), Options{ByteOrder: "big"}); err == nil {
 		t.Error("small-lsb.sgy read as big-endian opened without error")
 	}
 }
@@ -126,7 +128,7 @@ func TestCorpusLittleEndianTwin(t *testing.T) {
 // xl 20) at X=0,Y=0; (1, 21) Y=1; (5, 24) X=4,Y=4 raw. SEG-Y rev 1 table 3,
 // bytes 71-72: a positive scalar multiplies.
 func TestCorpusCoordinates(t *testing.T) {
-	f := openT(t, corpusFile(t, "normal-small.sgy"), Options{})
+	f := openT(t, segytest.CorpusFile(t, "normal-small.sgy"), Options{})
 	for _, c := range []struct {
 		il, xl int
 		x, y   float64
@@ -166,7 +168,7 @@ func TestCorpusPrestack(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			f := openT(t, corpusFile(t, c.name), Options{})
+			f := openT(t, segytest.CorpusFile(t, c.name), Options{})
 			in := f.Info()
 			if in.Layout != LayoutPrestack || in.Inline.Count != c.nil_ || in.Crossline.Count != c.nxl || len(in.Offsets) != c.offsets {
 				t.Fatalf("layout %s inline %+v crossline %+v offsets %v", in.Layout, in.Inline, in.Crossline, in.Offsets)
@@ -211,7 +213,7 @@ func TestCorpusPrestack(t *testing.T) {
 // numbers 2, 3, 5, 8 at bytes 9-12; the first sample of each trace equals
 // its field record number; 61 traces of 25 samples, 1 ms.
 func TestCorpusShotGather(t *testing.T) {
-	f := openT(t, corpusFile(t, "shot-gather.sgy"), Options{})
+	f := openT(t, segytest.CorpusFile(t, "shot-gather.sgy"), Options{})
 	in := f.Info()
 	if in.Traces != 61 || in.Samples != 25 || in.IntervalUS != 1000 {
 		t.Fatalf("traces %d samples %d interval %d", in.Traces, in.Samples, in.IntervalUS)
@@ -247,7 +249,7 @@ func TestCorpusShotGather(t *testing.T) {
 // README: multi-text.sgy has 4 extended textual headers; the trace starts
 // after 3600 + 4*3200 bytes.
 func TestCorpusExtendedText(t *testing.T) {
-	p := corpusFile(t, "multi-text.sgy")
+	p := segytest.CorpusFile(t, "multi-text.sgy")
 	f := openT(t, p, Options{})
 	in := f.Info()
 	if len(in.TextHeaders) != 5 || in.Traces != 1 || in.Samples != 1 {
@@ -272,7 +274,7 @@ func TestCorpusExtendedText(t *testing.T) {
 
 // README: text.sgy holds headers only; it must open and report "no traces".
 func TestCorpusNoTraces(t *testing.T) {
-	f := openT(t, corpusFile(t, "text.sgy"), Options{})
+	f := openT(t, segytest.CorpusFile(t, "text.sgy"), Options{})
 	in := f.Info()
 	if in.Traces != 0 || in.Layout != LayoutEmpty || !hasWarning(in, "no traces") {
 		t.Fatalf("traces %d layout %s warnings %q", in.Traces, in.Layout, in.Warnings)

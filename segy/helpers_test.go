@@ -13,20 +13,6 @@ import (
 // /work/shared/segy-corpus/README.md): open SEG-Y files written by segyio.
 const corpusDir = "../../shared/segy-corpus"
 
-// corpusFile returns the path of a corpus file; it fails under CI=true
-// when the corpus is missing and skips otherwise.
-func corpusFile(t testing.TB, name string) string {
-	t.Helper()
-	p := filepath.Join(corpusDir, name)
-	if _, err := os.Stat(p); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("segy corpus file %s missing (CI=true): %v", p, err)
-		}
-		t.Skipf("segy corpus file %s missing: %v (set up ../shared/segy-corpus)", p, err)
-	}
-	return p
-}
-
 func openT(t testing.TB, path string, opt Options) *File {
 	t.Helper()
 	f, err := Open(path, opt)

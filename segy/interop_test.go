@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 // Interoperability with Debian's python3-segyio 1.8.3, run through
@@ -208,7 +210,7 @@ func TestQuadtraceWritesSegyioReads(t *testing.T) {
 	}
 	// Copies of little-endian inputs (corpus and segyio-written) to big-endian IEEE and IBM.
 	for _, format := range []int{1, 5} {
-		src := openT(t, corpusFile(t, "small-lsb.sgy"), Options{})
+		src := openT(t, segytest.CorpusFile(t, "small-lsb.sgy"), Options{})
 		p := filepath.Join(dir, "copy-lsb-"+strconv.Itoa(format)+".sgy")
 		copyVolume(t, src, p, WriteOptions{Format: format})
 		var vals [][]float32

@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 // copyVolume writes every trace of src to dst with the given options.
@@ -36,7 +38,7 @@ func TestWriterCopiesCorpus(t *testing.T) {
 	for _, name := range []string{"small.sgy", "small-lsb.sgy", "normal-small.sgy", "small-ps.sgy", "shot-gather.sgy"} {
 		for _, format := range []int{1, 5} {
 			t.Run(name+map[int]string{1: "/ibm", 5: "/ieee"}[format], func(t *testing.T) {
-				src := openT(t, corpusFile(t, name), Options{})
+				src := openT(t, segytest.CorpusFile(t, name), Options{})
 				dst := filepath.Join(t.TempDir(), "out.sgy")
 				copyVolume(t, src, dst, WriteOptions{Format: format})
 				out := openT(t, dst, Options{})

@@ -8,22 +8,9 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-)
 
-// corpus returns the path of a file of the open SEG-Y corpus that sits
-// beside the project (../shared/segy-corpus, written by segyio; see its
-// README). Under CI=true a missing corpus fails the test.
-func corpus(t *testing.T, name string) string {
-	t.Helper()
-	p := filepath.Join("..", "..", "..", "shared", "segy-corpus", name)
-	if _, err := os.Stat(p); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("segy corpus file missing under CI: %v", err)
-		}
-		t.Skipf("segy corpus not found beside the project: %v", err)
-	}
-	return p
-}
+	"quadtrace/segy/segytest"
+)
 
 func run(cmd func([]string, *bytes.Buffer, *bytes.Buffer) int, args ...string) (int, string, string) {
 	var out, errb bytes.Buffer
@@ -45,7 +32,7 @@ func TestScanJSONCorpus(t *testing.T) {
 		file, order string
 	}{{"small.sgy", "big"}, {"small-lsb.sgy", "little"}} {
 		t.Run(c.file, func(t *testing.T) {
-			code, out, errs := run(scanCmd, corpus(t, c.file), "--json")
+			code, out, errs := run(scanCmd, segytest.CorpusFile(t, c.file), "--json")
 			if code != 0 {
 				t.Fatalf("exit %d, stderr %s", code, errs)
 			}
@@ -79,7 +66,7 @@ func TestScanJSONCorpus(t *testing.T) {
 
 // TestScanText checks the human report names the facts and the text header.
 func TestScanText(t *testing.T) {
-	code, out, errs := run(scanCmd, corpus(t, "normal-small.sgy"))
+	code, out, errs := run(scanCmd, segytest.CorpusFile(t, "normal-small.sgy"))
 	if code != 0 {
 		t.Fatalf("exit %d, stderr %s", code, errs)
 	}
@@ -108,7 +95,7 @@ func TestScanFailures(t *testing.T) {
 	if code, _, _ := run(scanCmd); code != 2 {
 		t.Errorf("scan without a file: exit %d, want 2", code)
 	}
-	code, out, errs := run(scanCmd, corpus(t, "text.sgy"))
+	code, out, errs := run(scanCmd, segytest.CorpusFile(t, "text.sgy"))
 	if code != 0 || !strings.Contains(out, "no traces") {
 		t.Errorf("text.sgy: exit %d, stderr %q, report:\n%s\nwant exit 0 and a 'no traces' warning", code, errs, out)
 	}

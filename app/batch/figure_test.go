@@ -12,6 +12,7 @@ import (
 
 	"quadtrace/app/volume"
 	"quadtrace/segy"
+	"quadtrace/segy/segytest"
 )
 
 // pngPhys returns the pHYs chunk's pixels per unit (x, y) and unit byte
@@ -33,7 +34,7 @@ func pngPhys(t *testing.T, b []byte) (uint32, uint32, byte) {
 // resolution (200 dpi = 7874 pixels per metre, 1 inch = 0.0254 m) and the
 // scale bar's pixels per metre against the plot width over 5 traces of 10 m.
 func TestFigureCommand(t *testing.T) {
-	file := corpus(t, "normal-small.sgy")
+	file := segytest.CorpusFile(t, "normal-small.sgy")
 	out := filepath.Join(t.TempDir(), "fig.png")
 	code, stdout, errs := run(figureCmd, file, "--inline", "3", "--attribute", "envelope", "--overlay", "instantaneous-phase", "--size", "800x500", "--dpi", "200", "--out", out)
 	if code != 0 {
@@ -84,7 +85,7 @@ func TestFigureCommand(t *testing.T) {
 
 // TestFigureWrongCalls: wrong calls exit 2 and write nothing.
 func TestFigureWrongCalls(t *testing.T) {
-	file := corpus(t, "small.sgy")
+	file := segytest.CorpusFile(t, "small.sgy")
 	dir := t.TempDir()
 	out := filepath.Join(dir, "fig.png")
 	for _, args := range [][]string{

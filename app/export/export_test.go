@@ -11,22 +11,8 @@ import (
 	"testing"
 
 	"quadtrace/compute"
+	"quadtrace/segy/segytest"
 )
-
-// corpusFile returns the path of a file of ../shared/segy-corpus (segyio's
-// open test data, see its README). It fails when CI=true and the corpus is
-// missing, and skips otherwise.
-func corpusFile(t *testing.T, name string) string {
-	t.Helper()
-	p := filepath.Join(projectRoot(t), "..", "shared", "segy-corpus", name)
-	if _, err := os.Stat(p); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("segy corpus file missing: %v", err)
-		}
-		t.Skipf("segy corpus file missing: %v", err)
-	}
-	return p
-}
 
 // expected computes what an export of attribute id should hold: the same
 // attribute on the whole input section in memory, after the conditioning.
@@ -89,8 +75,8 @@ func TestExportReadBackBySegyio(t *testing.T) {
 			[]string{"envelope", "instantaneous-phase", "weighted-frequency"}, map[string]string{"window": "40"}, "", 5, 200 << 10},
 		{"invented volume, conditioned, IBM", invented,
 			[]string{"envelope"}, map[string]string{"pad": "double"}, "bandpass=6-70,agc=200", 1, 0},
-		{"segyio's small.sgy, IBM in, IEEE out", corpusFile(t, "small.sgy"), []string{"envelope", "cosine-phase"}, nil, "", 5, 0},
-		{"segyio's small.sgy, IBM in and out", corpusFile(t, "small.sgy"), []string{"quadrature"}, nil, "", 1, 0},
+		{"segyio's small.sgy, IBM in, IEEE out", segytest.CorpusFile(t, "small.sgy"), []string{"envelope", "cosine-phase"}, nil, "", 5, 0},
+		{"segyio's small.sgy, IBM in and out", segytest.CorpusFile(t, "small.sgy"), []string{"quadrature"}, nil, "", 1, 0},
 	}
 	for n, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

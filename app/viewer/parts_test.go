@@ -13,6 +13,7 @@ import (
 	"quadtrace/app/volume"
 	"quadtrace/render"
 	"quadtrace/segy"
+	"quadtrace/segy/segytest"
 )
 
 // TestStaleJobIsCancelledAndDropped starts a job that waits for its
@@ -111,7 +112,7 @@ func abs(x float64) float64 {
 
 // TestSaveFigure writes the current view as a figure and reads it back.
 func TestSaveFigure(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
 	out := filepath.Join(t.TempDir(), "inline-3.png")
 	v.saveFigure(out, v.figureTitle(), 900, 600, 150)
 	v.jobs.wait()
@@ -142,7 +143,7 @@ func TestSaveFigure(t *testing.T) {
 // TestExportFromWindow runs the export job as the window starts it and
 // checks the written volume opens with the input's geometry.
 func TestExportFromWindow(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
 	out := filepath.Join(t.TempDir(), "small-envelope.sgy")
 	v.runExport(export.Job{Input: v.vol.Path(), Attributes: []string{"envelope"}, Output: out, Format: 5})
 	v.jobs.wait()

@@ -5,7 +5,6 @@ import (
 	"image"
 	"image/color"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -20,20 +19,8 @@ import (
 	"quadtrace/compute"
 	"quadtrace/palettes"
 	"quadtrace/render"
+	"quadtrace/segy/segytest"
 )
-
-// corpus returns the path of an open SEG-Y test file in ../shared/segy-corpus
-// (relative to the project root, two levels up from this package). The
-// files are an outside reference written by segyio; their contents are
-// documented in that folder's README. A missing corpus fails the test.
-func corpus(t *testing.T, name string) string {
-	t.Helper()
-	p := filepath.Join("..", "..", "..", "shared", "segy-corpus", name)
-	if _, err := os.Stat(p); err != nil {
-		t.Fatalf("SEG-Y corpus file missing (the tests need ../shared/segy-corpus): %v", err)
-	}
-	return p
-}
 
 // openViewer starts a viewer on the fyne test driver with path opened and
 // waits until its jobs are done.
@@ -138,7 +125,7 @@ func samePixels(a, b *image.RGBA) bool {
 // small.sgy: open, step one inline forward and back with the keyboard, pick
 // an attribute in the tree, switch co-rendering off, click a trace.
 func TestOpenStepPickAndClick(t *testing.T) {
-	path := corpus(t, "small.sgy")
+	path := segytest.CorpusFile(t, "small.sgy")
 	v := openViewer(t, path)
 
 	// Opened on the middle inline (3 of 1..5), envelope over amplitude.
@@ -311,7 +298,7 @@ func labelTexts(ls []plotLabel) []string {
 // TestEnvelopeOverAmplitudeOneClick checks the one-click co-rendering and
 // the opacity controls.
 func TestEnvelopeOverAmplitudeOneClick(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
 	v.setAttribute(amplitudeID)
 	v.jobs.wait()
 	if v.state.plan().Overlay != nil {
@@ -342,7 +329,7 @@ func TestEnvelopeOverAmplitudeOneClick(t *testing.T) {
 // TestTimeSliceAndCrossline switches orientation and checks the data and
 // the axes against the corpus value rule.
 func TestTimeSliceAndCrossline(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
 	v.ui.orientation.SetSelected("Crossline")
 	v.jobs.wait()
 	if v.state.Orientation != volume.Crossline || v.state.Crossline != 22 {
@@ -386,7 +373,7 @@ func TestTimeSliceAndCrossline(t *testing.T) {
 // TestPrestackOffsetChoice opens a pre-stack file and picks the second
 // offset.
 func TestPrestackOffsetChoice(t *testing.T) {
-	v := openViewer(t, corpus(t, "small-ps.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small-ps.sgy"))
 	if len(v.info.Offsets) != 2 {
 		t.Fatalf("small-ps.sgy has %d offsets, the README says 2", len(v.info.Offsets))
 	}
@@ -406,7 +393,7 @@ func TestPrestackOffsetChoice(t *testing.T) {
 
 // TestZoomPanAndFit drives the wheel, a drag and the fit button.
 func TestZoomPanAndFit(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
 	origin := fyne.CurrentApp().Driver().AbsolutePositionForObject(v.ui.section)
 	pos, size := v.ui.section.plotRect(v.ui.section.Size())
 	centre := fyne.NewPos(origin.X+pos.X+size.Width/2, origin.Y+pos.Y+size.Height/2)
@@ -436,7 +423,7 @@ func TestZoomPanAndFit(t *testing.T) {
 // TestPalettePreferenceKept checks that a palette choice is stored in the
 // preferences and used again for the next survey.
 func TestPalettePreferenceKept(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
 	var other string
 	for _, o := range v.ui.palettePick.Options {
 		if o != v.ui.palettePick.Selected {
@@ -449,7 +436,7 @@ func TestPalettePreferenceKept(t *testing.T) {
 	if got := paletteLabel(v.state.paletteFor(v.state.plan().Overlay, true)); got != other {
 		t.Fatalf("overlay palette %q, want %q", got, other)
 	}
-	v.openFile(corpus(t, "small-lsb.sgy"))
+	v.openFile(segytest.CorpusFile(t, "small-lsb.sgy"))
 	v.jobs.wait()
 	if got := paletteLabel(v.state.paletteFor(v.state.plan().Overlay, true)); got != other {
 		t.Errorf("after reopening, overlay palette %q, want the kept %q", got, other)
@@ -463,14 +450,14 @@ func TestPalettePreferenceKept(t *testing.T) {
 // TestDropOpensSegyFile drops a text file and then a SEG-Y file on the
 // window: only the SEG-Y file is opened.
 func TestDropOpensSegyFile(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
-	readme, _ := filepath.Abs(corpus(t, "README.md"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	readme, _ := filepath.Abs(segytest.CorpusFile(t, "README.md"))
 	v.dropped(fyne.NewPos(10, 10), []fyne.URI{storage.NewFileURI(readme)})
 	v.jobs.wait()
-	if v.vol.Path() != corpus(t, "small.sgy") || !strings.Contains(v.ui.message.Text, ".sgy") {
+	if v.vol.Path() != segytest.CorpusFile(t, "small.sgy") || !strings.Contains(v.ui.message.Text, ".sgy") {
 		t.Errorf("dropping a README: survey %q, status %q", v.vol.Path(), v.ui.message.Text)
 	}
-	tiny, _ := filepath.Abs(corpus(t, "tiny.sgy"))
+	tiny, _ := filepath.Abs(segytest.CorpusFile(t, "tiny.sgy"))
 	v.dropped(fyne.NewPos(10, 10), []fyne.URI{storage.NewFileURI(tiny)})
 	v.jobs.wait()
 	if v.vol.Path() != tiny || v.info.Traces != 6 {
@@ -485,7 +472,7 @@ func TestDropOpensSegyFile(t *testing.T) {
 // crossline byte locations swapped (189 and 193 are its real ones, corpus
 // README): the survey then runs over "inlines" 20..24.
 func TestRescanWithOtherHeaderBytes(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
 	v.ui.byteEntries["inline"].SetText("193")
 	v.ui.byteEntries["crossline"].SetText("189")
 	v.ui.byteOrder.SetSelected("big")
@@ -515,7 +502,7 @@ func TestRescanWithOtherHeaderBytes(t *testing.T) {
 // keeps going.
 func TestBadFileShowsError(t *testing.T) {
 	a := test.NewTempApp(t)
-	v := newViewer(a, Options{Path: corpus(t, "text.sgy")}, newQueuedJobs())
+	v := newViewer(a, Options{Path: segytest.CorpusFile(t, "text.sgy")}, newQueuedJobs())
 	v.start()
 	v.jobs.wait()
 	defer v.jobs.close()
@@ -530,7 +517,7 @@ func TestBadFileShowsError(t *testing.T) {
 func TestOpensEveryCorpusFile(t *testing.T) {
 	for _, name := range []string{"small.sgy", "small-lsb.sgy", "tiny.sgy", "normal-small.sgy", "small-ps.sgy", "1x1.sgy", "1xN.sgy", "Mx1.sgy", "multi-text.sgy", "shot-gather.sgy"} {
 		t.Run(name, func(t *testing.T) {
-			v := openViewer(t, corpus(t, name))
+			v := openViewer(t, segytest.CorpusFile(t, name))
 			if v.sectionDrawn == 0 || v.traceDrawn == 0 {
 				t.Errorf("%s: section drawn %d times, trace panel %d; status %q, section %q", name, v.sectionDrawn, v.traceDrawn, v.ui.message.Text, v.ui.section.message)
 			}
@@ -563,7 +550,7 @@ func (s *slowSurvey) Attribute(ctx context.Context, sl volume.Slice, a *compute.
 // the progress and cancel button show while the window stays usable, then
 // cancels: the picture and the controls stay on the inline shown before.
 func TestCancelLongJob(t *testing.T) {
-	v := openViewer(t, corpus(t, "small.sgy"))
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
 	slow := &slowSurvey{survey: v.vol, started: make(chan struct{})}
 	v.vol = slow
 	before := v.lastSection

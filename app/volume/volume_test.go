@@ -4,27 +4,13 @@ import (
 	"context"
 	"math"
 	"os"
-	"path/filepath"
 	"testing"
 
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
 	"quadtrace/segy"
+	"quadtrace/segy/segytest"
 )
-
-// corpus returns a file of the open SEG-Y corpus beside the project
-// (../shared/segy-corpus, written by segyio; check values in its README).
-func corpus(t *testing.T, name string) string {
-	t.Helper()
-	p := filepath.Join("..", "..", "..", "shared", "segy-corpus", name)
-	if _, err := os.Stat(p); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("segy corpus file missing under CI: %v", err)
-		}
-		t.Skipf("segy corpus not found beside the project: %v", err)
-	}
-	return p
-}
 
 // corpusValue is the corpus README's value rule for small.sgy and its
 // twins: sample k of (il, xl) = il + xl/100 + k*1e-5, as float32.
@@ -45,7 +31,7 @@ func near(got, want float32) bool {
 // corpus value rule.
 func TestSectionsFollowCorpusRule(t *testing.T) {
 	for _, name := range []string{"small.sgy", "small-lsb.sgy"} {
-		v, err := Open(corpus(t, name), segy.Options{})
+		v, err := Open(segytest.CorpusFile(t, name), segy.Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
