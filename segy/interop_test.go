@@ -3,7 +3,6 @@ package segy
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"strconv"
@@ -18,24 +17,9 @@ import (
 // testdata/segy/segyio_interop.py.
 
 const (
-	systemPython  = "/usr/bin/python3"
+	systemPython  = segytest.Python
 	interopScript = "../testdata/segy/segyio_interop.py"
 )
-
-// needSegyio fails under CI=true and skips otherwise when /usr/bin/python3
-// or its segyio module is missing.
-func needSegyio(t *testing.T) {
-	t.Helper()
-	out, err := exec.Command(systemPython, "-c", "import segyio, numpy; print(segyio.__version__)").CombinedOutput()
-	if err != nil {
-		msg := "python3-segyio via " + systemPython + " unavailable (apt-get install python3-segyio): " + strings.TrimSpace(string(out)) + " " + err.Error()
-		if os.Getenv("CI") == "true" {
-			t.Fatal(msg)
-		}
-		t.Skip(msg)
-	}
-	t.Logf("segyio %s", strings.TrimSpace(string(out)))
-}
 
 type segyioDump struct {
 	Endian     string         `json:"endian"`
@@ -135,7 +119,7 @@ func compareWithSegyio(t *testing.T, f *File, d segyioDump) {
 }
 
 func TestSegyioWritesQuadtraceReads(t *testing.T) {
-	needSegyio(t)
+	segytest.NeedPython(t, "segyio", "numpy")
 	dir := t.TempDir()
 	var manifest []struct {
 		Name     string `json:"name"`
@@ -174,7 +158,7 @@ func TestSegyioWritesQuadtraceReads(t *testing.T) {
 }
 
 func TestQuadtraceWritesSegyioReads(t *testing.T) {
-	needSegyio(t)
+	segytest.NeedPython(t, "segyio", "numpy")
 	dir := t.TempDir()
 	type written struct {
 		path   string

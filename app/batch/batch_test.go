@@ -124,13 +124,7 @@ func TestAttributesList(t *testing.T) {
 // geometry it declares (inline and crossline numbers at bytes 189/193 of
 // the SEG-Y revision 1 trace header) and the sample interval must come back.
 func TestSynthReadBySegyio(t *testing.T) {
-	py := "/usr/bin/python3"
-	if err := exec.Command(py, "-c", "import segyio").Run(); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("python3-segyio unavailable under CI: %v", err)
-		}
-		t.Skipf("python3-segyio unavailable: %v", err)
-	}
+	py := segytest.NeedPython(t, "segyio")
 	out := filepath.Join(t.TempDir(), "demo.sgy")
 	code, _, errs := run(synthCmd, out, "--inlines", "12", "--crosslines", "9", "--samples", "200", "--seed", "7")
 	if code != 0 {

@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"quadtrace/compute"
+	"quadtrace/segy/segytest"
 )
 
 // benchVolume returns the path of an invented volume of spec v under
@@ -74,7 +75,7 @@ func timeCommand(b *testing.B, name string, args ...string) time.Duration {
 // a copy) and scipy/export (how many times faster than the scipy pipeline).
 // Run with -benchtime=1x: one iteration takes tens of seconds.
 func BenchmarkExportEnvelope(b *testing.B) {
-	needPython(b, "segyio", "scipy", "numpy")
+	segytest.NeedPython(b, "segyio", "scipy", "numpy")
 	v := volumeSpec{inlines: [2]int{1, 200}, crosslines: [2]int{1, 200}, samples: 1501, intervalUS: 2000}
 	src := benchVolume(b, v)
 	warm(b, src)

@@ -58,7 +58,7 @@ func expected(t *testing.T, in compute.Section, id string, params map[string]str
 // conditioning, source and version. The IBM case starts from
 // ../shared/segy-corpus/small.sgy, written by segyio itself.
 func TestExportReadBackBySegyio(t *testing.T) {
-	needPython(t, "segyio", "numpy")
+	segytest.NeedPython(t, "segyio", "numpy")
 	dir := t.TempDir()
 	invented := filepath.Join(dir, "harrowmere.sgy")
 	writeVolume(t, invented, volumeSpec{inlines: [2]int{101, 108}, crosslines: [2]int{20, 34}, samples: 301, intervalUS: 2000, startMS: 100})

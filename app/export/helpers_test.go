@@ -5,7 +5,6 @@ import (
 	"encoding/binary"
 	"encoding/hex"
 	"encoding/json"
-	"fmt"
 	"io"
 	"math"
 	"math/rand/v2"
@@ -17,12 +16,13 @@ import (
 
 	"quadtrace/compute"
 	"quadtrace/segy"
+	"quadtrace/segy/segytest"
 )
 
-// python is Debian's interpreter, called by its full path as the house
-// rules ask: the outside references (python3-segyio, python3-scipy) are
-// Debian's packages for it.
-const python = "/usr/bin/python3"
+// python is Debian's interpreter (segytest.Python), called by its full
+// path: the outside references (python3-segyio, python3-scipy) are Debian's
+// packages for it.
+const python = segytest.Python
 
 // projectRoot is the repository root, two folders above this package.
 func projectRoot(t testing.TB) string {
@@ -32,20 +32,6 @@ func projectRoot(t testing.TB) string {
 		t.Fatal(err)
 	}
 	return root
-}
-
-// needPython fails the test when CI=true and python3 with the given modules
-// is missing, and skips it otherwise (a developer machine without them).
-func needPython(t testing.TB, modules ...string) {
-	t.Helper()
-	args := []string{"-c", "import " + strings.Join(modules, ", ")}
-	if out, err := exec.Command(python, args...).CombinedOutput(); err != nil {
-		msg := fmt.Sprintf("%s with %s needed (Debian packages python3-segyio python3-scipy): %v: %s", python, strings.Join(modules, ", "), err, out)
-		if os.Getenv("CI") == "true" {
-			t.Fatal(msg)
-		}
-		t.Skip(msg)
-	}
 }
 
 // volumeSpec describes an invented test volume: a regular inline-sorted
