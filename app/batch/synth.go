@@ -116,7 +116,7 @@ func surveyText(s *synth.Survey) string {
 	fmt.Fprintf(&b, "SAMPLES %d  INTERVAL %g MS\n", c.Samples, float64(c.IntervalUS)/1000)
 	fmt.Fprintf(&b, "INLINE BYTES 189-192  CROSSLINE BYTES 193-196  CDP X/Y BYTES 181-188\n")
 	for _, f := range s.Features {
-		fmt.Fprintf(&b, "%s: IL %d-%d XL %d-%d %g-%g MS\n", strings.ToUpper(f.Name), f.InlineMin, f.InlineMax, f.CrosslineMin, f.CrosslineMax, f.TimeMinMS, f.TimeMaxMS)
+		fmt.Fprintf(&b, "%s: IL %d-%d XL %d-%d %.0f-%.0f MS\n", strings.ToUpper(f.Name), f.InlineMin, f.InlineMax, f.CrosslineMin, f.CrosslineMax, f.TimeMinMS, f.TimeMaxMS)
 	}
 	return b.String()
 }
