@@ -22,25 +22,22 @@ import (
 	"quadtrace/render"
 )
 
-// paramList collects repeated --param NAME=VALUE flags.
-type paramList map[string]string
+// paramList collects repeated --param NAME=VALUE flags as given;
+// compute.ParseParams reads them.
+type paramList []string
 
-func (p paramList) String() string { return fmt.Sprint(map[string]string(p)) }
+func (p *paramList) String() string { return strings.Join(*p, " ") }
 
-func (p paramList) Set(s string) error {
-	name, value, ok := strings.Cut(s, "=")
-	if !ok || name == "" {
-		return fmt.Errorf("want NAME=VALUE, got %q", s)
-	}
-	p[name] = value
+func (p *paramList) Set(s string) error {
+	*p = append(*p, s)
 	return nil
 }
 
-// only returns the parameters that attribute a declares.
-func (p paramList) only(a *compute.Attribute) map[string]string {
+// only returns the parameters of raw that attribute a declares.
+func only(raw map[string]string, a *compute.Attribute) map[string]string {
 	out := map[string]string{}
 	for _, spec := range a.Params {
-		if v, ok := p[spec.Name]; ok {
+		if v, ok := raw[spec.Name]; ok {
 			out[spec.Name] = v
 		}
 	}
@@ -55,7 +52,7 @@ type figureRequest struct {
 	timeMS              float64
 	orientation         volume.Orientation
 	attribute, overlay  string
-	params              paramList
+	params              map[string]string
 	condition           string
 	palette, overlayPal string
 	opacity             float64
@@ -74,13 +71,14 @@ type figureRequest struct {
 func Figure(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("figure", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	r := figureRequest{params: paramList{}}
+	var r figureRequest
+	var params paramList
 	inline := fs.String("inline", "", "draw the inline with this number")
 	crossline := fs.String("crossline", "", "draw the crossline with this number")
 	timeMS := fs.String("time", "", "draw the time slice nearest this time in ms")
 	fs.BoolVar(&r.demo, "demo", false, "use the built-in demo survey instead of a file")
 	fs.StringVar(&r.attribute, "attribute", "amplitude", "attribute id (see `quadtrace attributes`)")
-	fs.Var(r.params, "param", "attribute parameter NAME=VALUE (repeatable)")
+	fs.Var(&params, "param", "attribute parameter NAME=VALUE (repeatable)")
 	fs.StringVar(&r.condition, "condition", "", "conditioning applied first, e.g. bandpass=8-60,agc=500")
 	fs.StringVar(&r.overlay, "overlay", "", "attribute id drawn over the first one")
 	fs.Float64Var(&r.opacity, "opacity", 0.6, "overlay opacity, 0 to 1")
@@ -116,6 +114,9 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	}
 	if !r.demo {
 		r.file = pos[0]
+	}
+	if r.params, err = compute.ParseParams(params); err != nil {
+		return fail(2, fmt.Errorf("--param: %w", err))
 	}
 	chosen := 0
 	for _, c := range []struct {
@@ -208,7 +209,7 @@ func buildFigure(ctx context.Context, v *volume.Volume, r figureRequest) (render
 		if err != nil {
 			return render.Layer{}, render.Legend{}, volume.Section{}, err
 		}
-		p, err := a.Resolve(r.params.only(a))
+		p, err := a.Resolve(only(r.params, a))
 		if err != nil {
 			return render.Layer{}, render.Legend{}, volume.Section{}, err
 		}

@@ -63,7 +63,7 @@ func TestFigureCommand(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer v.Close()
-	fig, err := buildFigure(context.Background(), v, figureRequest{orientation: volume.Inline, inline: 3, attribute: "envelope", params: paramList{}, clip: 99, width: 800, height: 500})
+	fig, err := buildFigure(context.Background(), v, figureRequest{orientation: volume.Inline, inline: 3, attribute: "envelope", clip: 99, width: 800, height: 500})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"io"
 	"strings"
+
+	"quadtrace/compute"
 )
 
 // exportArgs is the export command line as read, before the input file is
@@ -131,8 +133,8 @@ func parseExportArgs(args []string, stderr io.Writer) (*exportArgs, error) {
 	if len(a.attributes) == 0 {
 		return nil, errors.New("--attribute: no attribute id given")
 	}
-	if a.params, err = parseParams(params); err != nil {
-		return nil, err
+	if a.params, err = compute.ParseParams(params); err != nil {
+		return nil, fmt.Errorf("--param: %w", err)
 	}
 	if a.out == "" {
 		return nil, errors.New("--out: no destination given")
@@ -186,23 +188,6 @@ func parseExportArgs(args []string, stderr io.Writer) (*exportArgs, error) {
 		return nil, fmt.Errorf("--byte-order %q: want big or little", byteOrder)
 	}
 	return &a, nil
-}
-
-// parseParams reads NAME=VALUE pairs; a name given twice is an error.
-func parseParams(pairs []string) (map[string]string, error) {
-	m := make(map[string]string, len(pairs))
-	for _, p := range pairs {
-		name, value, ok := strings.Cut(p, "=")
-		name = strings.TrimSpace(name)
-		if !ok || name == "" {
-			return nil, fmt.Errorf("--param %q: want NAME=VALUE", p)
-		}
-		if _, dup := m[name]; dup {
-			return nil, fmt.Errorf("--param %s given twice", name)
-		}
-		m[name] = strings.TrimSpace(value)
-	}
-	return m, nil
 }
 
 // parseFormat maps ieee/ibm (or the SEG-Y format codes 5 and 1) to the code.
