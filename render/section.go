@@ -331,7 +331,8 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 
 	var overS sampler
 	var overCM colourMap
-	var alpha float32
+	var alpha, invAbsMax float32
+	var follow bool
 	useOverlay := overlay != nil && overlay.Palette != nil && overlay.Opacity > 0
 	if useOverlay {
 		onh, onv := dims(overlay.Data, transposed)
@@ -344,6 +345,14 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 		overS = sampler{data: overlay.Data, transposed: transposed, h: ohm, v: ovm}
 		overCM = newColourMap(overlay)
 		alpha = float32(math.Min(overlay.Opacity, 1))
+		if overlay.OpacityFollowsValue {
+			follow = true
+			if overCM.absMax == 0 {
+				alpha = 0 // every value is zero: nothing of the overlay shows
+			} else {
+				invAbsMax = 1 / overCM.absMax
+			}
+		}
 	}
 
 	var next atomic.Int64
@@ -395,11 +404,9 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 							continue
 						}
 						a := alpha
-						if overlay.OpacityFollowsValue {
-							if overCM.absMax == 0 {
-								continue
-							}
-							a *= min(float32(math.Abs(float64(v)))/overCM.absMax, 1)
+						if follow {
+							// |v| by clearing the sign bit, scaled to 0..1.
+							a *= min(math.Float32frombits(math.Float32bits(v)&0x7fffffff)*invAbsMax, 1)
 						}
 						ai := uint32(a*256 + 0.5)
 						if ai == 0 {
