@@ -1,6 +1,7 @@
 package render
 
 import (
+	"encoding/binary"
 	"image"
 	"image/color"
 	"math"
@@ -355,6 +356,15 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 		}
 	}
 
+	// The base palette as opaque RGBA pixels packed in memory order, so
+	// each pixel is one 4-byte store.
+	var baseWords [256]uint32
+	if base.Palette != nil {
+		for i, c := range baseCM.table {
+			baseWords[i] = uint32(c.R) | uint32(c.G)<<8 | uint32(c.B)<<16 | 0xff<<24
+		}
+	}
+
 	var next atomic.Int64
 	stripes := (w + stripeWidth - 1) / stripeWidth
 	workers := max(1, min(runtime.GOMAXPROCS(0), stripes))
@@ -383,16 +393,15 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 							p[0], p[1], p[2], p[3] = 255, 255, 255, 255
 						}
 					} else {
-						table := baseCM.table
 						for x, v := range baseRow {
-							var c color.RGBA
+							var word uint32
 							if v == v {
-								c = table[baseCM.index(v)]
+								word = baseWords[baseCM.index(v)]
 							} else {
-								c = GapColor(px0+x, py)
+								c := GapColor(px0+x, py)
+								word = uint32(c.R) | uint32(c.G)<<8 | uint32(c.B)<<16 | 0xff<<24
 							}
-							p := pix[4*x : 4*x+4 : 4*x+4]
-							p[0], p[1], p[2], p[3] = c.R, c.G, c.B, 255
+							binary.LittleEndian.PutUint32(pix[4*x:], word)
 						}
 					}
 					if !useOverlay {
