@@ -1,6 +1,7 @@
 package viewer
 
 import (
+	"context"
 	"image/png"
 	"os"
 	"path/filepath"
@@ -11,6 +12,8 @@ import (
 
 	"quadtrace/app/export"
 	"quadtrace/app/volume"
+	"quadtrace/compute"
+	"quadtrace/compute/synth"
 	"quadtrace/render"
 	"quadtrace/segy"
 	"quadtrace/segy/segytest"
@@ -158,5 +161,61 @@ func TestExportFromWindow(t *testing.T) {
 	in := vol.Info()
 	if in.Inline.Min != 1 || in.Inline.Max != 5 || in.Crossline.Min != 20 || in.Crossline.Max != 24 || in.Samples != 50 {
 		t.Errorf("exported geometry %+v %+v, %d samples; want the input's", in.Inline, in.Crossline, in.Samples)
+	}
+}
+
+// TestExportDemoFromWindow exports from a (small) in-memory demo survey:
+// the job writes the survey to a temporary file, exports from it, and
+// leaves only the named output in the folder; the output holds the demo's
+// geometry and the envelope of its traces (compared with compute's envelope
+// of the same traces).
+func TestExportDemoFromWindow(t *testing.T) {
+	cfg := synth.DefaultConfig()
+	cfg.Inlines, cfg.Crosslines, cfg.Samples = 6, 8, 200
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	v.startOpen("a small demo survey", func(ctx context.Context, progress func(int, int)) (survey, error) {
+		return volume.Demo(ctx, cfg, progress)
+	}, "")
+	v.jobs.wait()
+	if v.vol.Path() != "" {
+		t.Fatalf("the demo survey did not open: %s", v.ui.message.Text)
+	}
+	dir := t.TempDir()
+	stem := demoStem(v.info)
+	if stem != "corrowdeep-3d" {
+		t.Errorf("demo outputs named %q, want corrowdeep-3d", stem)
+	}
+	out := filepath.Join(dir, stem+"-envelope.sgy")
+	v.runDemoExport(export.Job{Attributes: []string{"envelope"}, Output: out, Format: 5}, dir, stem)
+	v.jobs.wait()
+	entries, _ := os.ReadDir(dir)
+	if len(entries) != 1 || entries[0].Name() != stem+"-envelope.sgy" {
+		t.Fatalf("folder holds %v, want only %s-envelope.sgy (status %q)", entries, stem, v.ui.message.Text)
+	}
+	got, err := volume.Open(out, segy.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer got.Close()
+	in := got.Info()
+	if in.Inline.Count != 6 || in.Crossline.Count != 8 || in.Samples != 200 {
+		t.Fatalf("exported geometry %+v %+v %d samples, want 6 x 8 x 200", in.Inline, in.Crossline, in.Samples)
+	}
+	env, _ := compute.Lookup("envelope")
+	p, _ := env.Resolve(nil)
+	want, err := v.vol.Attribute(context.Background(), volume.Slice{Orientation: volume.Inline, Number: in.Inline.Min + 2}, env, p, compute.Conditioning{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sec, err := got.Read(context.Background(), volume.Slice{Orientation: volume.Inline, Number: in.Inline.Min + 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range sec.Traces {
+		for k := range sec.Traces[i] {
+			if sec.Traces[i][k] != want.Traces[i][k] {
+				t.Fatalf("trace %d sample %d: exported %v, envelope %v", i, k, sec.Traces[i][k], want.Traces[i][k])
+			}
+		}
 	}
 }

@@ -64,6 +64,8 @@ type survey interface {
 	Trace(inline, crossline, offset int) ([]float32, error)
 	Attribute(ctx context.Context, s volume.Slice, a *compute.Attribute, p compute.Params, cond compute.Conditioning, progress func(done, total int)) (volume.Section, error)
 	TraceAttribute(ctx context.Context, inline, crossline, offset int, a *compute.Attribute, p compute.Params, cond compute.Conditioning) ([]float32, error)
+	// WriteDemo writes the in-memory demo survey as SEG-Y (an error for a file).
+	WriteDemo(ctx context.Context, path string, opt segy.WriteOptions) error
 }
 
 // shown holds the data behind the picture: the amplitude of the slice and
