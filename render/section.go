@@ -258,6 +258,39 @@ func (s *sampler) at(i, j int32) float32 {
 	return float32(math.NaN())
 }
 
+// columns returns, for a sampler that takes the nearest cell of an
+// untransposed grid, the trace under each pixel column x0..x0+len(cols)-1
+// (nil outside the data), so that rows of a stripe need not look the
+// traces up again; ok is false for other samplers.
+func (s *sampler) columns(cols [][]float32, x0 int) (ok bool) {
+	if !(s.h.nearest && s.v.nearest && !s.transposed) {
+		return false
+	}
+	for x, i := range s.h.near[x0 : x0+len(cols)] {
+		cols[x] = nil
+		if i >= 0 {
+			cols[x] = s.data[i]
+		}
+	}
+	return true
+}
+
+// rowFromColumns fills out with row y from the traces columns returned.
+func (s *sampler) rowFromColumns(out []float32, cols [][]float32, y int) {
+	nan := float32(math.NaN())
+	jn := s.v.near[y]
+	if s.v.i0[y] < 0 {
+		jn = -1
+	}
+	for x, tr := range cols[:len(out)] {
+		if jn >= 0 && int(jn) < len(tr) {
+			out[x] = tr[jn]
+		} else {
+			out[x] = nan
+		}
+	}
+}
+
 // row fills out with the values of pixel row y from column x0 on
 // (len(out) columns).
 func (s *sampler) row(out []float32, y, x0 int) {
@@ -375,6 +408,8 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 			defer wg.Done()
 			baseBuf := make([]float32, stripeWidth)
 			overBuf := make([]float32, stripeWidth)
+			baseCols := make([][]float32, stripeWidth)
+			overCols := make([][]float32, stripeWidth)
 			for {
 				x0 := int(next.Add(1)-1) * stripeWidth
 				if x0 >= w {
@@ -382,11 +417,17 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 				}
 				sw := min(stripeWidth, w-x0)
 				baseRow, overRow := baseBuf[:sw], overBuf[:sw]
+				baseFast := baseS.columns(baseCols[:sw], x0)
+				overFast := useOverlay && overS.columns(overCols[:sw], x0)
 				for y := range h {
 					py := r.Min.Y + y
 					px0 := r.Min.X + x0
 					pix := dst.Pix[dst.PixOffset(px0, py):]
-					baseS.row(baseRow, y, x0)
+					if baseFast {
+						baseS.rowFromColumns(baseRow, baseCols, y)
+					} else {
+						baseS.row(baseRow, y, x0)
+					}
 					if base.Palette == nil {
 						for x := range baseRow {
 							p := pix[4*x : 4*x+4 : 4*x+4]
@@ -407,7 +448,11 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 					if !useOverlay {
 						continue
 					}
-					overS.row(overRow, y, x0)
+					if overFast {
+						overS.rowFromColumns(overRow, overCols, y)
+					} else {
+						overS.row(overRow, y, x0)
+					}
 					for x, v := range overRow {
 						if v != v {
 							continue
@@ -417,7 +462,7 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 							// |v| by clearing the sign bit, scaled to 0..1.
 							a *= min(math.Float32frombits(math.Float32bits(v)&0x7fffffff)*invAbsMax, 1)
 						}
-						ai := uint32(a*256 + 0.5)
+						ai := uint32(int32(a*256 + 0.5)) // via int32: Go's float-to-uint32 conversion is slow
 						if ai == 0 {
 							continue
 						}
