@@ -116,8 +116,8 @@ func (js *jobs) cancel(lane string) {
 }
 
 // drain runs the UI functions queued so far (see newQueuedJobs) without
-// waiting for running jobs.
-func (js *jobs) drain() {
+// waiting for running jobs, and says how many it ran.
+func (js *jobs) drain() int {
 	js.mu.Lock()
 	fs := js.queued
 	js.queued = nil
@@ -125,6 +125,7 @@ func (js *jobs) drain() {
 	for _, f := range fs {
 		f()
 	}
+	return len(fs)
 }
 
 // wait runs the queued UI functions (see newQueuedJobs) until no job is
@@ -136,14 +137,7 @@ func (js *jobs) wait() {
 		// reading running before the queue sees every function of a
 		// finished job.
 		idle := js.running.Load() == 0
-		js.mu.Lock()
-		fs := js.queued
-		js.queued = nil
-		js.mu.Unlock()
-		for _, f := range fs {
-			f()
-		}
-		if len(fs) == 0 {
+		if js.drain() == 0 {
 			if idle {
 				return
 			}

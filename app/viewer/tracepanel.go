@@ -40,6 +40,15 @@ type tracePicture struct {
 	fg, grid, fill color.RGBA
 }
 
+// curveSource is an attribute drawn as a curve in the trace panel: the
+// attribute, the key and section it was shown with, and its parameters.
+type curveSource struct {
+	a      *compute.Attribute
+	key    string
+	sec    *volume.Section
+	params map[string]string
+}
+
 // requestTrace fills the trace panel for the picked trace in the
 // background: its amplitude and attribute curves and its spectrum.
 func (v *viewer) requestTrace() {
@@ -73,27 +82,12 @@ func (v *viewer) requestTrace() {
 		pic.fill = fg
 		pic.fill.A = 150
 		var amp []float32
-		attrs := []struct {
-			a      *compute.Attribute
-			key    string
-			sec    *volume.Section
-			params map[string]string
-		}{}
+		var attrs []curveSource
 		if pl.Overlay != nil {
-			attrs = append(attrs, struct {
-				a      *compute.Attribute
-				key    string
-				sec    *volume.Section
-				params map[string]string
-			}{pl.Overlay, d.overKey, d.over, overParams})
+			attrs = append(attrs, curveSource{pl.Overlay, d.overKey, d.over, overParams})
 		}
 		if pl.Base.ID != amplitudeID {
-			attrs = append(attrs, struct {
-				a      *compute.Attribute
-				key    string
-				sec    *volume.Section
-				params map[string]string
-			}{pl.Base, d.baseKey, d.base, baseParams})
+			attrs = append(attrs, curveSource{pl.Base, d.baseKey, d.base, baseParams})
 		}
 		var curves [][]float32
 		if d.amp.Slice.Orientation == volume.TimeSlice {
