@@ -427,13 +427,9 @@ func (f *File) readExtendedText(bin []byte) error {
 			return f.errf(-1, binExtTextHeaders, "%d extended textual headers need %d bytes but the file has %d", n, need, f.size)
 		}
 		for i := 0; i < n; i++ {
-			b, err := f.bytesAt(f.dataStart, TextHeaderSize, nil)
-			if err != nil {
-				return f.errf(-1, f.dataStart+1, "extended textual header %d: %v", i+1, err)
+			if _, err := f.nextExtendedText(i); err != nil {
+				return err
 			}
-			t, _ := decodeText(b)
-			f.info.TextHeaders = append(f.info.TextHeaders, t)
-			f.dataStart += TextHeaderSize
 		}
 		return nil
 	case n == -1:
@@ -441,13 +437,10 @@ func (f *File) readExtendedText(bin []byte) error {
 			if f.dataStart+TextHeaderSize > f.size {
 				return f.errf(-1, binExtTextHeaders, "extended textual header count -1: no ((SEG: EndText)) stanza before the end of the file (read %d headers)", i)
 			}
-			b, err := f.bytesAt(f.dataStart, TextHeaderSize, nil)
+			t, err := f.nextExtendedText(i)
 			if err != nil {
-				return f.errf(-1, f.dataStart+1, "extended textual header %d: %v", i+1, err)
+				return err
 			}
-			t, _ := decodeText(b)
-			f.info.TextHeaders = append(f.info.TextHeaders, t)
-			f.dataStart += TextHeaderSize
 			if containsEndText(t) {
 				return nil
 			}
@@ -456,6 +449,19 @@ func (f *File) readExtendedText(bin []byte) error {
 	default:
 		return f.errf(-1, binExtTextHeaders, "invalid extended textual header count %d", n)
 	}
+}
+
+// nextExtendedText reads extended textual header i (0-based) at
+// f.dataStart, keeps its text and moves f.dataStart past it.
+func (f *File) nextExtendedText(i int) (string, error) {
+	b, err := f.bytesAt(f.dataStart, TextHeaderSize, nil)
+	if err != nil {
+		return "", f.errf(-1, f.dataStart+1, "extended textual header %d: %v", i+1, err)
+	}
+	t, _ := decodeText(b)
+	f.info.TextHeaders = append(f.info.TextHeaders, t)
+	f.dataStart += TextHeaderSize
+	return t, nil
 }
 
 func containsEndText(t string) bool {

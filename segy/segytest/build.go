@@ -200,31 +200,23 @@ func IBM(v float64) uint32 {
 // characters, text split at '\n', each line cut or blank-padded to 80.
 // Characters outside code page 037 become blanks.
 func EBCDICText(text string) []byte {
-	out := bytes.Repeat([]byte{0x40}, 3200)
-	for li, line := range strings.Split(text, "\n") {
-		if li >= 40 {
-			break
-		}
-		col := 0
-		for _, r := range line {
-			if col >= 80 {
-				break
-			}
-			c, ok := charmap.CodePage037.EncodeRune(r)
-			if !ok || r < 0x20 {
-				c = 0x40
-			}
-			out[li*80+col] = c
-			col++
-		}
-	}
-	return out
+	return cards(text, 0x40, func(r rune) (byte, bool) {
+		c, ok := charmap.CodePage037.EncodeRune(r)
+		return c, ok && r >= 0x20
+	})
 }
 
 // ASCIIText is EBCDICText in ASCII (allowed by SEG-Y rev 2.0 section 3);
 // non-ASCII characters become blanks.
 func ASCIIText(text string) []byte {
-	out := bytes.Repeat([]byte{' '}, 3200)
+	return cards(text, ' ', func(r rune) (byte, bool) { return byte(r), r >= 0x20 && r < 0x7f })
+}
+
+// cards lays text out as 40 cards of 80 characters: lines split at '\n',
+// each cut or padded with blank; encode gives a character's byte, or false
+// for one that becomes a blank.
+func cards(text string, blank byte, encode func(rune) (byte, bool)) []byte {
+	out := bytes.Repeat([]byte{blank}, 3200)
 	for li, line := range strings.Split(text, "\n") {
 		if li >= 40 {
 			break
@@ -234,8 +226,8 @@ func ASCIIText(text string) []byte {
 			if col >= 80 {
 				break
 			}
-			if r >= 0x20 && r < 0x7f {
-				out[li*80+col] = byte(r)
+			if c, ok := encode(r); ok {
+				out[li*80+col] = c
 			}
 			col++
 		}
