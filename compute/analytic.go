@@ -183,14 +183,7 @@ func (p *analytic) quadrature() {
 // even length has no defined derivative and is dropped. Together they are
 // the derivative of the analytic signal, z' = ifft(iω Z).
 func (p *analytic) derivatives() {
-	w := p.work
-	dw := 2 * math.Pi / (float64(p.m) * p.dt)
-	last := len(w)
-	if p.nyquist() {
-		last--
-		w[last] = 0
-	}
-	w[0] = 0
+	w, dw, last := p.derivativeBins()
 	for k := 1; k < last; k++ {
 		c := p.spec[k]
 		om := dw * float64(k)
@@ -203,17 +196,26 @@ func (p *analytic) derivatives() {
 	p.fft.Sequence(p.dhb, w)
 }
 
-// secondDerivatives stores x” and h” (spectrum times -ω² and iω²) in
-// ddx and ddh.
-func (p *analytic) secondDerivatives(ddx, ddh []float64) {
-	w := p.work
-	dw := 2 * math.Pi / (float64(p.m) * p.dt)
-	last := len(w)
+// derivativeBins prepares the work spectrum for a time derivative: the
+// zero-frequency bin and, for an even length, the Nyquist bin (which has no
+// defined derivative) are zeroed. It returns the work spectrum, the angular
+// frequency step and the end of the bins left to fill (1 to last-1).
+func (p *analytic) derivativeBins() (w []complex128, dw float64, last int) {
+	w = p.work
+	dw = 2 * math.Pi / (float64(p.m) * p.dt)
+	last = len(w)
 	if p.nyquist() {
 		last--
 		w[last] = 0
 	}
 	w[0] = 0
+	return w, dw, last
+}
+
+// secondDerivatives stores x” and h” (spectrum times -ω² and iω²) in
+// ddx and ddh.
+func (p *analytic) secondDerivatives(ddx, ddh []float64) {
+	w, dw, last := p.derivativeBins()
 	for k := 1; k < last; k++ {
 		om := dw * float64(k)
 		w[k] = p.spec[k] * complex(-om*om, 0)
