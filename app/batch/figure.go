@@ -247,9 +247,13 @@ func buildFigure(ctx context.Context, v *volume.Volume, r figureRequest) (render
 		fig.Legends = append(fig.Legends, overLegend)
 	}
 	if r.wiggle && r.orientation != volume.TimeSlice {
-		amp, err := v.Read(ctx, s)
-		if err != nil {
-			return render.Figure{}, err
+		// Wiggles show the amplitude: the base layer itself when it is the
+		// unconditioned amplitude, else the section read once more.
+		amp := sec
+		if r.attribute != "amplitude" || !cond.IsZero() {
+			if amp, err = v.Read(ctx, s); err != nil {
+				return render.Figure{}, err
+			}
 		}
 		fig.Wiggle = &render.WiggleStyle{Data: amp.Traces, Color: color.RGBA{A: 255}, Fill: true, Gain: 1}
 	}
