@@ -16,6 +16,7 @@ import (
 
 	"quadtrace/app/export"
 	"quadtrace/app/style"
+	"quadtrace/app/version"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/render"
@@ -224,7 +225,7 @@ rules that apply where you work.
 The demo survey and every place named in it are invented.`
 
 func (v *viewer) showAbout() {
-	l := widget.NewLabel(fmt.Sprintf(aboutText, export.Version))
+	l := widget.NewLabel(fmt.Sprintf(aboutText, version.Version))
 	l.Wrapping = fyne.TextWrapOff
 	dialog.ShowCustom("About quadtrace", "Close", l, v.win)
 }
