@@ -7,7 +7,9 @@ import (
 	"io"
 	"math"
 	"os"
+	"runtime/debug"
 	"sync"
+	"syscall"
 )
 
 // Options override what Open detects. The zero value detects everything.
@@ -91,7 +93,12 @@ type Error struct {
 	Trace int
 	Byte  int64
 	Msg   string
+	err   error // wrapped cause, for errors.Is (os.ErrClosed, ErrChanged)
 }
+
+// Unwrap returns the cause, if any (os.ErrClosed after Close, ErrChanged
+// for a mapped file that shrank).
+func (e *Error) Unwrap() error { return e.err }
 
 func (e *Error) Error() string {
 	s := e.Path + ": "
@@ -125,8 +132,11 @@ type File struct {
 	optIgnoreTail bool
 	geo           geometry
 	bufPool       sync.Pool
-	closeMu       sync.Mutex
-	isClosed      bool
+	// mu guards the mapping's lifetime: every public read holds it for
+	// reading (see hold), Close takes it for writing, so Close waits for
+	// reads in progress and later reads fail with ErrClosed.
+	mu       sync.RWMutex
+	isClosed bool
 }
 
 // Open opens a SEG-Y file read-only: it maps the file into memory (falling
@@ -142,15 +152,22 @@ func Open(path string, opt Options) (*File, error) {
 	if err != nil {
 		return nil, err
 	}
-	if st.IsDir() {
-		return nil, &Error{Path: path, Trace: -1, Msg: "is a directory, not a SEG-Y file"}
+	if err := refuseNonRegular(path, st.Mode()); err != nil {
+		return nil, err
 	}
-	fh, err := os.Open(path)
+	// O_NONBLOCK: should the path have been replaced by a FIFO since the
+	// Stat, opening it does not wait for a writer; the Fstat below then
+	// refuses it. It changes nothing for a regular file.
+	fh, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
 	if err != nil {
 		return nil, err
 	}
 	st, err = fh.Stat()
 	if err != nil {
+		fh.Close()
+		return nil, err
+	}
+	if err := refuseNonRegular(path, st.Mode()); err != nil {
 		fh.Close()
 		return nil, err
 	}
@@ -165,6 +182,28 @@ func Open(path string, opt Options) (*File, error) {
 	return f, nil
 }
 
+// refuseNonRegular fails for anything but a regular file: a directory, a
+// FIFO (reading it would block until a writer comes), a device, a socket.
+func refuseNonRegular(path string, m os.FileMode) error {
+	if m.IsRegular() {
+		return nil
+	}
+	kind := "not a regular file"
+	switch {
+	case m.IsDir():
+		kind = "is a directory"
+	case m&os.ModeNamedPipe != 0:
+		kind = "is a FIFO (named pipe)"
+	case m&os.ModeCharDevice != 0:
+		kind = "is a character device"
+	case m&os.ModeDevice != 0:
+		kind = "is a block device"
+	case m&os.ModeSocket != 0:
+		kind = "is a socket"
+	}
+	return &Error{Path: path, Trace: -1, Msg: kind + ", not a SEG-Y file: only regular files are read"}
+}
+
 // OpenReaderAt opens SEG-Y data of the given size read through r (a file
 // on a filesystem without mmap, an in-memory buffer); name is used in
 // messages. Close does not close r.
@@ -177,10 +216,13 @@ func openBytes(data []byte, name string, opt Options) (*File, error) {
 	return open(name, nil, data, int64(len(data)), opt)
 }
 
-// Close releases the mapping and the file. Further reads fail.
+// Close releases the mapping and the file. It waits for reads in progress
+// (ReadTrace, TraceHeader, TimeSlice, a Create reading the headers) to
+// finish; reads after Close fail with an error wrapping os.ErrClosed.
+// Closing twice is harmless.
 func (f *File) Close() error {
-	f.closeMu.Lock()
-	defer f.closeMu.Unlock()
+	f.mu.Lock()
+	defer f.mu.Unlock()
 	if f.isClosed {
 		return nil
 	}
@@ -191,12 +233,50 @@ func (f *File) Close() error {
 			err = e
 		}
 	}
-	// data is deliberately kept: a concurrent reader after Close would
-	// fault on unmapped memory, so callers must not read after Close.
 	f.data = nil
 	f.r = closedReader{}
 	return err
 }
+
+// hold takes a read hold on the file for one public read; release it with
+// f.mu.RUnlock. It fails once the file is closed. Internal helpers never
+// take the hold themselves (a second RLock could deadlock behind a waiting
+// Close).
+func (f *File) hold(trace int) error {
+	f.mu.RLock()
+	if f.isClosed {
+		f.mu.RUnlock()
+		return &Error{Path: f.path, Trace: trace, Msg: "reading a closed file: " + os.ErrClosed.Error(), err: os.ErrClosed}
+	}
+	return nil
+}
+
+// guardFault runs read with a memory fault (SIGBUS from a mapped file cut
+// short by another program, SIGSEGV) turned into an error instead of a
+// crash, using runtime/debug.SetPanicOnFault for the calling goroutine.
+// Without a mapping it just runs read. Panics that are not memory faults
+// are passed on.
+func (f *File) guardFault(trace int, off int64, read func() error) (err error) {
+	if f.data == nil {
+		return read()
+	}
+	old := debug.SetPanicOnFault(true)
+	defer func() {
+		debug.SetPanicOnFault(old)
+		if r := recover(); r != nil {
+			if _, fault := r.(interface{ Addr() uintptr }); !fault {
+				panic(r)
+			}
+			err = &Error{Path: f.path, Trace: trace, Byte: off + 1, err: ErrChanged,
+				Msg: fmt.Sprintf("%v: memory fault reading the mapped file (%d bytes when opened)", ErrChanged, f.size)}
+		}
+	}()
+	return read()
+}
+
+// ErrChanged is wrapped by errors from reads that found the file shorter
+// than when it was opened (another program truncated or rewrote it).
+var ErrChanged = errors.New("file changed on disk since it was opened")
 
 type closedReader struct{}
 
@@ -259,44 +339,54 @@ func (f *File) getBuf() *[]byte {
 func open(path string, r io.ReaderAt, data []byte, size int64, opt Options) (*File, error) {
 	f := &File{path: path, r: r, data: data, size: size}
 	f.info.Warnings = []string{}
-	if err := f.resolveOptions(opt); err != nil {
+	// The scan reads the mapping: a file cut short meanwhile faults.
+	if err := f.guardFault(-1, 0, func() error { return f.parse(opt) }); err != nil {
 		return nil, err
 	}
+	return f, nil
+}
+
+// parse reads the headers and scans the traces (see Open).
+func (f *File) parse(opt Options) error {
+	size := f.size
+	if err := f.resolveOptions(opt); err != nil {
+		return err
+	}
 	if size < TextHeaderSize {
-		return nil, f.errf(-1, 0, "file is %d bytes: truncated inside the 3200-byte textual header", size)
+		return f.errf(-1, 0, "file is %d bytes: truncated inside the 3200-byte textual header", size)
 	}
 	if size < headersEnd {
-		return nil, f.errf(-1, size+1, "file ends inside the binary header (bytes 3201-3600): %d bytes", size)
+		return f.errf(-1, size+1, "file ends inside the binary header (bytes 3201-3600): %d bytes", size)
 	}
 	hdr, err := f.bytesAt(0, headersEnd, nil)
 	if err != nil {
-		return nil, f.errf(-1, 1, "reading headers: %v", err)
+		return f.errf(-1, 1, "reading headers: %v", err)
 	}
 	hdr = append([]byte(nil), hdr...)
 	text, _ := decodeText(hdr[:TextHeaderSize])
 	f.info.TextHeaders = []string{text}
 	bin := hdr[TextHeaderSize:]
 	if err := f.parseBinary(bin, opt); err != nil {
-		return nil, err
+		return err
 	}
 	if err := f.readExtendedText(bin); err != nil {
-		return nil, err
+		return err
 	}
 	if err := f.sizeTraces(bin); err != nil {
-		return nil, err
+		return err
 	}
 	if f.ntraces == 0 {
 		f.info.Layout = LayoutEmpty
 		f.warnf("no traces: the file holds headers only")
-		return f, nil
+		return nil
 	}
 	if err := f.scanGeometry(bin); err != nil {
-		return nil, err
+		return err
 	}
 	if err := f.sampleAmplitudes(); err != nil {
-		return nil, err
+		return err
 	}
-	return f, nil
+	return nil
 }
 
 func (f *File) resolveOptions(opt Options) error {

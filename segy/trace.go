@@ -53,6 +53,10 @@ func (f *File) ReadTrace(i int, dst []float32) ([]float32, error) {
 	if err := f.checkTrace(i); err != nil {
 		return dst, err
 	}
+	if err := f.hold(i); err != nil {
+		return dst, err
+	}
+	defer f.mu.RUnlock()
 	if cap(dst) < f.samples {
 		dst = make([]float32, f.samples)
 	}
@@ -60,8 +64,11 @@ func (f *File) ReadTrace(i int, dst []float32) ([]float32, error) {
 	off := f.dataStart + int64(i)*f.traceSize + TraceHeaderSize
 	n := f.samples * f.sf.size
 	if f.data != nil {
-		f.sf.decode(dst, f.data[off:off+int64(n)], f.order)
-		return dst, nil
+		err := f.guardFault(i, off, func() error {
+			f.sf.decode(dst, f.data[off:off+int64(n)], f.order)
+			return nil
+		})
+		return dst, err
 	}
 	bp := f.getBuf()
 	defer f.bufPool.Put(bp)
@@ -80,11 +87,21 @@ func (f *File) TraceHeader(i int) (TraceHeader, error) {
 	if err := f.checkTrace(i); err != nil {
 		return h, err
 	}
-	raw, err := f.traceHeaderBytes(i, nil)
+	if err := f.hold(i); err != nil {
+		return h, err
+	}
+	defer f.mu.RUnlock()
+	err := f.guardFault(i, f.dataStart+int64(i)*f.traceSize, func() error {
+		raw, err := f.traceHeaderBytes(i, nil)
+		if err == nil {
+			copy(h.Raw[:], raw)
+		}
+		return err
+	})
 	if err != nil {
 		return h, err
 	}
-	copy(h.Raw[:], raw)
+	raw := h.Raw[:]
 	h.little = f.order == binary.ByteOrder(binary.LittleEndian)
 	o := f.order
 	h.Inline = int(int32(o.Uint32(raw[f.ilByte-1:])))
@@ -186,15 +203,17 @@ func (f *File) TimeSlice(sample, offset int) ([][]float32, error) {
 	if oi < 0 {
 		return nil, f.errf(-1, 0, "time slice: no offset %d in the file", offset)
 	}
+	if err := f.hold(-1); err != nil {
+		return nil, err
+	}
+	defer f.mu.RUnlock()
 	nIl, nXl := g.ilR.Count, g.xlR.Count
-	noff := max(1, len(g.offsets))
 	flat := make([]float32, nIl*nXl)
 	out := make([][]float32, nIl)
 	for i := range out {
 		out[i] = flat[i*nXl : (i+1)*nXl : (i+1)*nXl]
 	}
 	sampleOff := int64(TraceHeaderSize) + int64(sample)*int64(f.sf.size)
-	size := f.sf.size
 	workers := min(runtime.GOMAXPROCS(0), max(1, len(flat)/4096))
 	var wg sync.WaitGroup
 	errs := make([]error, workers)
@@ -204,25 +223,7 @@ func (f *File) TimeSlice(sample, offset int) ([][]float32, error) {
 		wg.Add(1)
 		go func(w, lo, hi int) {
 			defer wg.Done()
-			var buf [8]byte
-			for c := lo; c < hi; c++ {
-				t := g.grid[c*noff+oi]
-				if t < 0 {
-					flat[c] = float32(math.NaN())
-					continue
-				}
-				pos := f.dataStart + int64(t)*f.traceSize + sampleOff
-				if f.data != nil {
-					flat[c] = f.sf.at(f.data[pos:pos+int64(size)], f.order)
-					continue
-				}
-				b, err := f.bytesAt(pos, size, buf[:])
-				if err != nil {
-					errs[w] = f.errf(int(t), pos+1, "reading sample %d: %v", sample, err)
-					return
-				}
-				flat[c] = f.sf.at(b, f.order)
-			}
+			errs[w] = f.guardFault(-1, 0, func() error { return f.sliceCells(flat, lo, hi, oi, sample, sampleOff) })
 		}(w, lo, hi)
 	}
 	wg.Wait()
@@ -232,4 +233,30 @@ func (f *File) TimeSlice(sample, offset int) ([][]float32, error) {
 		}
 	}
 	return out, nil
+}
+
+// sliceCells fills flat[lo:hi] of a time slice (see TimeSlice).
+func (f *File) sliceCells(flat []float32, lo, hi, oi, sample int, sampleOff int64) error {
+	g := &f.geo
+	noff := max(1, len(g.offsets))
+	size := f.sf.size
+	var buf [8]byte
+	for c := lo; c < hi; c++ {
+		t := g.grid[c*noff+oi]
+		if t < 0 {
+			flat[c] = float32(math.NaN())
+			continue
+		}
+		pos := f.dataStart + int64(t)*f.traceSize + sampleOff
+		if f.data != nil {
+			flat[c] = f.sf.at(f.data[pos:pos+int64(size)], f.order)
+			continue
+		}
+		b, err := f.bytesAt(pos, size, buf[:])
+		if err != nil {
+			return f.errf(int(t), pos+1, "reading sample %d: %v", sample, err)
+		}
+		flat[c] = f.sf.at(b, f.order)
+	}
+	return nil
 }

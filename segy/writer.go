@@ -60,11 +60,21 @@ func Create(dst string, src *File, opt WriteOptions) (*Writer, error) {
 		return nil, err
 	}
 	bin := make([]byte, BinaryHeaderSize)
-	b, err := src.bytesAt(TextHeaderSize, BinaryHeaderSize, nil)
-	if err != nil {
-		return nil, src.errf(-1, TextHeaderSize+1, "reading binary header: %v", err)
+	if err := src.hold(-1); err != nil {
+		return nil, err
 	}
-	copy(bin[:60], b[:60])
+	err := src.guardFault(-1, TextHeaderSize, func() error {
+		b, err := src.bytesAt(TextHeaderSize, BinaryHeaderSize, nil)
+		if err != nil {
+			return src.errf(-1, TextHeaderSize+1, "reading binary header: %v", err)
+		}
+		copy(bin[:60], b[:60])
+		return nil
+	})
+	src.mu.RUnlock()
+	if err != nil {
+		return nil, err
+	}
 	if src.order == binary.ByteOrder(binary.LittleEndian) {
 		swapWords(bin, binaryHeaderWords, 3201)
 	}
@@ -75,9 +85,9 @@ func Create(dst string, src *File, opt WriteOptions) (*Writer, error) {
 	delay := 0
 	timeSc := 0
 	if src.ntraces > 0 {
-		if h, err := src.traceHeaderBytes(0, nil); err == nil {
-			delay = i16(h, thDelay, 1, src.order)
-			timeSc = i16(h, thTimeScalar, 1, src.order)
+		if h, err := src.TraceHeader(0); err == nil {
+			delay = i16(h.Raw[:], thDelay, 1, src.order)
+			timeSc = i16(h.Raw[:], thTimeScalar, 1, src.order)
 		}
 	}
 	return newWriter(dst, text, bin, src.samples, src.info.IntervalUS, delay, timeSc, opt)
