@@ -480,7 +480,7 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 							a *= min(math.Float32frombits(math.Float32bits(v)&0x7fffffff)*invAbsMax, 1)
 						}
 						ai := uint32(int32(a*256 + 0.5)) // via int32: Go's float-to-uint32 conversion is slow
-						if ai == 0 || ai > 256 { // > 256: a NaN weight (Inf values)
+						if ai == 0 || ai > 256 {         // > 256: a NaN weight (Inf values)
 							continue
 						}
 						c := overCM.table[overCM.index(v)]
