@@ -63,6 +63,16 @@ type Info struct {
 	// Offsets lists the distinct offsets, sorted, for pre-stack layouts;
 	// nil for post-stack files (the offset is then ignored by lookups).
 	Offsets []int
+	// HeaderInline and HeaderCrossline are the smallest (Min) and largest
+	// (Max) numbers found in the bytes used for inline and crossline, over
+	// every trace, outliers included; Step and Count are 0. For reports:
+	// Inline and Crossline describe the grid actually used.
+	HeaderInline, HeaderCrossline Range
+	// OutlierTraces counts traces left out of the grid because their
+	// numbers lie far outside the others' (see the geometry decision in
+	// doc.go); Outliers lists the first 100 of them.
+	OutlierTraces int
+	Outliers      []Outlier
 	// MissingTraces counts grid positions (inline x crossline x offset)
 	// with no trace; DuplicateTraces counts traces whose position was
 	// already taken (the first one in the file is used).
@@ -83,6 +93,17 @@ type Info struct {
 	// 1000 traces spread evenly through the file (all traces when fewer);
 	// it is an estimate for display scaling, not a full-volume statistic.
 	AmplitudeMin, AmplitudeMax, AmplitudeRMS float64
+}
+
+// Outlier is a trace left out of the grid: which trace (0-based), which
+// field ("inline" or "crossline") held which value, at which trace-header
+// byte (1-based within the 240) and file byte (1-based).
+type Outlier struct {
+	Trace    int
+	Field    string
+	Value    int
+	Byte     int
+	FileByte int64
 }
 
 // Error is a problem found in a file, with where it was found. Trace is a
@@ -128,6 +149,7 @@ type File struct {
 	info      Info
 
 	ilByte, xlByte, offByte, cxByte, cyByte int
+	geoBytes                                [2]int // trace-header bytes the inline and crossline numbering came from (0: none)
 
 	optIgnoreTail bool
 	geo           geometry

@@ -122,15 +122,7 @@ func (f *File) TraceIndex(inline, crossline, offset int) (int, bool) {
 		return -1, false
 	}
 	if g.grid == nil {
-		k := [3]int32{int32(inline), int32(crossline), 0}
-		if g.offsets != nil {
-			k[2] = int32(offset)
-		}
-		if int(k[0]) != inline || int(k[1]) != crossline || int(k[2]) != offset && g.offsets != nil {
-			return -1, false
-		}
-		t, ok := g.index[k]
-		return int(t), ok
+		return -1, false
 	}
 	ili, ok1 := rangeIndex(g.ilR, inline)
 	xli, ok2 := rangeIndex(g.xlR, crossline)

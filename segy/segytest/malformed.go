@@ -232,11 +232,22 @@ func Malformed() []Case {
 		{Name: "missing traces", Bytes: build(func(s *File) { s.Traces = append(s.Traces[:5], s.Traces[7:]...) }),
 			Expect: usable("2 grid positions have no trace")},
 		{Name: "sparse numbering", Bytes: build(func(s *File) { s.Traces[0].Inline = 1000000 }),
-			Expect: usable("")},
+			Expect: usable("1 traces have inline or crossline numbers far outside the others and are left out of the grid: trace 0 (byte 3789: inline 1000000)")},
 		{Name: "numbering at the int32 extremes", Bytes: build(func(s *File) {
 			s.Traces[0].Inline, s.Traces[0].Crossline = math.MinInt32, math.MinInt32
 			s.Traces[1].Inline, s.Traces[1].Crossline = math.MaxInt32, math.MaxInt32
-		}), Expect: huge(usable(""))},
+		}), Expect: huge(usable("2 traces have inline or crossline numbers far outside the others"))},
+		{Name: "flipped byte in one crossline", Bytes: edit(func(b []byte) {
+			// the high byte of trace 5's crossline (bytes 193-196) flipped
+			b[3600+5*ts+192] ^= 0x40
+		}), Expect: huge(usable("trace 5 (byte 5153: crossline 1073741835)"))},
+		{Name: "garbage numbering everywhere", Bytes: edit(func(b []byte) {
+			r := rand.New(rand.NewPCG(12, 2))
+			for i := 0; i < BaseTraces; i++ {
+				be.PutUint32(b[3600+i*ts+188:], r.Uint32()) // inline, bytes 189-192
+				be.PutUint32(b[3600+i*ts+192:], r.Uint32()) // crossline, bytes 193-196
+			}
+		}), Expect: huge(usable("traces shown in file order"))},
 		{Name: "headers only", Bytes: build(func(s *File) { s.Traces = nil }),
 			Expect: usable("no traces")},
 
