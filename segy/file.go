@@ -68,6 +68,10 @@ type Info struct {
 	// every trace, outliers included; Step and Count are 0. For reports:
 	// Inline and Crossline describe the grid actually used.
 	HeaderInline, HeaderCrossline Range
+	// ExtraTraceHeaders is the number of additional 240-byte trace headers
+	// after each standard trace header (SEG-Y rev 2.0 bytes 3507-3508);
+	// the first is trace header extension 1 (see TraceHeader.Extra).
+	ExtraTraceHeaders int
 	// OutlierTraces counts traces left out of the grid because their
 	// numbers lie far outside the others' (see the geometry decision in
 	// doc.go); Outliers lists the first 100 of them.
@@ -145,8 +149,13 @@ type File struct {
 	samples   int
 	dataStart int64
 	traceSize int64
-	ntraces   int
-	info      Info
+	// extraHeaders is the number of additional 240-byte trace headers
+	// after each standard one (SEG-Y rev 2.0 binary header bytes
+	// 3507-3508); hdrSize is 240 * (1 + extraHeaders).
+	extraHeaders int
+	hdrSize      int64
+	ntraces      int
+	info         Info
 
 	ilByte, xlByte, offByte, cxByte, cyByte int
 	geoBytes                                [2]int // trace-header bytes the inline and crossline numbering came from (0: none)
@@ -394,6 +403,9 @@ func (f *File) parse(opt Options) error {
 	if err := f.readExtendedText(bin); err != nil {
 		return err
 	}
+	if err := f.rev2Layout(bin); err != nil {
+		return err
+	}
 	if err := f.sizeTraces(bin); err != nil {
 		return err
 	}
@@ -600,6 +612,64 @@ func bytesContains(b []byte, s string) bool {
 	return false
 }
 
+// rev2Layout reads the layout fields of a SEG-Y revision 2 binary header
+// (rev 2.0 table 2): the number of additional 240-byte trace headers per
+// trace (bytes 3507-3508; rev 2.0 section 7: fixed-length traces all carry
+// that many), the byte offset of the first trace (3521-3528, 0 = right
+// after the extended textual headers) and the number of 3200-byte data
+// trailer stanzas after the last trace (3529-3532), which are not traces.
+// Earlier revisions have none of them.
+func (f *File) rev2Layout(bin []byte) error {
+	f.hdrSize = TraceHeaderSize
+	if f.revMajor() < 2 {
+		return nil
+	}
+	f.extraHeaders = int(f.order.Uint16(bin[binExtraHeaders-3201:]))
+	f.hdrSize = int64(TraceHeaderSize) * int64(1+f.extraHeaders)
+	if first := f.order.Uint64(bin[binFirstTrace-3201:]); first != 0 {
+		switch {
+		case first < uint64(f.dataStart) || first > uint64(f.size):
+			return f.errf(-1, binFirstTrace, "first trace at byte offset %d: outside %d..%d (after the headers, inside the file)", first, f.dataStart, f.size)
+		case first != uint64(f.dataStart):
+			f.warnf("first trace at byte offset %d (binary header byte %d), %d bytes after the headers", first, binFirstTrace, int64(first)-f.dataStart)
+			f.dataStart = int64(first)
+		}
+	}
+	if n := i32(bin, binTrailers, 3201, f.order); n != 0 {
+		if n < 0 || int64(n)*TextHeaderSize > f.size-f.dataStart {
+			return f.errf(-1, binTrailers, "%d data trailer stanzas of 3200 bytes do not fit in the %d bytes after the headers", n, f.size-f.dataStart)
+		}
+		f.size -= int64(n) * TextHeaderSize
+		f.warnf("%d data trailer stanzas (%d bytes) after the last trace are not read", n, int64(n)*TextHeaderSize)
+	}
+	if f.extraHeaders > 0 {
+		f.info.ExtraTraceHeaders = f.extraHeaders
+	}
+	return nil
+}
+
+// checkTraceOrder refuses a file whose trace headers are in the other byte
+// order than its binary header (a converter that swapped one and not the
+// other): the first trace header's sample count (bytes 115-116) and
+// interval (117-118) then disagree with the binary header as read, and
+// both agree once swapped. Such a file would otherwise be read as
+// byte-swapped garbage.
+func (f *File) checkTraceOrder(th, bin []byte, nsBin int) error {
+	other := binary.ByteOrder(binary.LittleEndian)
+	otherName := "little"
+	if f.order == other {
+		other, otherName = binary.BigEndian, "big"
+	}
+	ns, nsSwap := int(f.order.Uint16(th[thSamples-1:])), int(other.Uint16(th[thSamples-1:]))
+	iv, ivSwap := int(f.order.Uint16(th[thInterval-1:])), int(other.Uint16(th[thInterval-1:]))
+	ivBin := int(f.order.Uint16(bin[binInterval-3201:]))
+	if nsBin > 0 && ns != nsBin && nsSwap == nsBin && iv != ivBin && ivSwap == ivBin {
+		return f.errf(0, f.dataStart+thSamples, "trace headers are %s-endian but the binary header is %s-endian: the first trace's sample count and interval read %d and %d, or %d and %d %s-endian as in the binary header; mixed byte order is not supported",
+			otherName, f.info.ByteOrder, ns, iv, nsSwap, ivSwap, otherName)
+	}
+	return nil
+}
+
 // sizeTraces settles samples per trace, sample interval and start time, and
 // the number of traces.
 //
@@ -618,21 +688,34 @@ func (f *File) sizeTraces(bin []byte) error {
 			nsBin, nsByte = ext, binExtSamples
 		}
 	}
-	var th []byte
-	if remaining >= TraceHeaderSize {
-		b, err := f.bytesAt(f.dataStart, TraceHeaderSize, nil)
+	var th, ext1 []byte
+	if remaining >= f.hdrSize {
+		b, err := f.bytesAt(f.dataStart, int(f.hdrSize), nil)
 		if err != nil {
 			return f.errf(0, f.dataStart+1, "reading trace header: %v", err)
 		}
-		th = append([]byte(nil), b...)
+		th = append([]byte(nil), b[:TraceHeaderSize]...)
+		if f.extraHeaders > 0 {
+			ext1 = append([]byte(nil), b[TraceHeaderSize:2*TraceHeaderSize]...)
+		}
 	}
 	nsTr := 0
+	trByte := f.dataStart + thSamples
 	if th != nil {
 		nsTr = int(f.order.Uint16(th[thSamples-1:]))
+		if err := f.checkTraceOrder(th, bin, nsBin); err != nil {
+			return err
+		}
 	}
-	trByte := f.dataStart + thSamples
+	if ext1 != nil {
+		// rev 2.0 trace header extension 1, bytes 137-140: extended
+		// number of samples in this trace (unsigned)
+		if v := int64(f.order.Uint32(ext1[ext1Samples-1:])); v > 0 && v <= math.MaxInt32 {
+			nsTr, trByte = int(v), f.dataStart+TraceHeaderSize+ext1Samples
+		}
+	}
 	fits := func(ns int) bool {
-		ts := int64(TraceHeaderSize) + int64(ns)*int64(f.sf.size)
+		ts := f.hdrSize + int64(ns)*int64(f.sf.size)
 		return remaining > 0 && remaining%ts == 0
 	}
 	ns := nsBin
@@ -653,7 +736,7 @@ func (f *File) sizeTraces(bin []byte) error {
 	}
 	f.samples = ns
 	f.info.Samples = ns
-	f.traceSize = int64(TraceHeaderSize) + int64(ns)*int64(f.sf.size)
+	f.traceSize = f.hdrSize + int64(ns)*int64(f.sf.size)
 
 	// interval
 	ivBin := i16(bin, binInterval, 3201, f.order)
@@ -665,6 +748,12 @@ func (f *File) sizeTraces(bin []byte) error {
 	ivTr := 0
 	if th != nil {
 		ivTr = i16(th, thInterval, 1, f.order)
+	}
+	if ivTr == 0 && ext1 != nil {
+		// extension 1 bytes 145-152: extended sample interval (IEEE double)
+		if d := math.Float64frombits(f.order.Uint64(ext1[ext1Interval-1:])); d > 0 && d < 1e9 {
+			ivTr = int(math.Round(d))
+		}
 	}
 	switch {
 	case ivBin > 0 && ivTr < 0:
@@ -693,7 +782,7 @@ func (f *File) sizeTraces(bin []byte) error {
 	n := remaining / f.traceSize
 	tail := remaining % f.traceSize
 	if tail != 0 {
-		desc := fmt.Sprintf("a trace is %d bytes (240-byte header + %d samples of %d bytes, format %d)", f.traceSize, ns, f.sf.size, f.sf.code)
+		desc := fmt.Sprintf("a trace is %d bytes (%d-byte header + %d samples of %d bytes, format %d)", f.traceSize, f.hdrSize, ns, f.sf.size, f.sf.code)
 		if n == 0 {
 			return f.errf(0, f.dataStart+1, "file ends %d bytes into the first trace: %s", tail, desc)
 		}

@@ -21,9 +21,11 @@ type geometry struct {
 // hostile header could otherwise make us allocate for billions of cells).
 func gridLimit(traces int) int { return 4*traces + 1024 }
 
+// traceHeaderBytes returns the standard header of trace i followed by its
+// additional headers (f.hdrSize bytes).
 func (f *File) traceHeaderBytes(i int, buf []byte) ([]byte, error) {
 	off := f.dataStart + int64(i)*f.traceSize
-	h, err := f.bytesAt(off, TraceHeaderSize, buf)
+	h, err := f.bytesAt(off, int(f.hdrSize), buf)
 	if err != nil {
 		return nil, f.errf(i, off+1, "reading trace header: %v", err)
 	}
@@ -51,14 +53,20 @@ func (f *File) scanGeometry(bin []byte) error {
 	cy := make([]float64, n)
 	var buf []byte
 	if f.data == nil {
-		buf = make([]byte, TraceHeaderSize)
+		buf = make([]byte, f.hdrSize)
 	}
 	o := f.order
 	coordUnits := 0
+	varying, firstVarying, firstNs := 0, -1, 0
 	for i := 0; i < n; i++ {
 		h, err := f.traceHeaderBytes(i, buf)
 		if err != nil {
 			return err
+		}
+		if ns := int(o.Uint16(h[thSamples-1:])); ns != 0 && ns != f.samples && f.extraHeaders == 0 {
+			if varying++; firstVarying < 0 {
+				firstVarying, firstNs = i, ns
+			}
 		}
 		il[i] = int32(o.Uint32(h[f.ilByte-1:]))
 		xl[i] = int32(o.Uint32(h[f.xlByte-1:]))
@@ -66,9 +74,16 @@ func (f *File) scanGeometry(bin []byte) error {
 		sc := i16(h, thCoordScalar, 1, o)
 		cx[i] = applyScalar(float64(int32(o.Uint32(h[f.cxByte-1:]))), sc)
 		cy[i] = applyScalar(float64(int32(o.Uint32(h[f.cyByte-1:]))), sc)
+		if x, y, ok := f.ext1Coords(h[TraceHeaderSize:]); ok {
+			cx[i], cy[i] = x, y
+		}
 		if i == 0 {
 			coordUnits = i16(h, thCoordUnits, 1, o)
 		}
+	}
+	if varying > 0 {
+		f.warnf("%d traces declare a sample count other than the file's %d (first: trace %d, byte %d: %d); every trace is read with %d samples (fixed-length traces)",
+			varying, f.samples, firstVarying, f.dataStart+int64(firstVarying)*f.traceSize+thSamples, firstNs, f.samples)
 	}
 	userBytes := f.ilByte != thInline || f.xlByte != thCrossline
 	fromRecords := false
