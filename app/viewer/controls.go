@@ -70,6 +70,7 @@ type widgets struct {
 	followCheck     *widget.Check
 	stretchSlider   *widget.Slider
 	followCursor    *widget.Check
+	oneClick        *widget.Button
 
 	// status bar
 	cursor  *widget.Label
@@ -482,8 +483,8 @@ func (v *viewer) displayTab() fyne.CanvasObject {
 		v.state.OpacityFollowsValue = b
 		v.requestRender()
 	})
-	oneClick := widget.NewButtonWithIcon("Envelope over amplitude", theme.ColorPaletteIcon(), v.envelopeOverAmplitude)
-	oneClick.Importance = widget.HighImportance
+	u.oneClick = widget.NewButtonWithIcon("Envelope over amplitude", theme.ColorPaletteIcon(), v.envelopeOverAmplitude)
+	u.oneClick.Importance = widget.HighImportance
 	u.stretchSlider = widget.NewSlider(minExaggeration, maxExaggeration)
 	u.stretchSlider.Step = 0.25
 	u.stretchSlider.OnChangeEnded = func(f float64) {
@@ -507,7 +508,7 @@ func (v *viewer) displayTab() fyne.CanvasObject {
 		u.opacityLabel, u.opacitySlider)
 	view := container.New(layout.NewFormLayout(), widget.NewLabel("Vertical stretch"), u.stretchSlider)
 	return container.NewVScroll(container.NewVBox(
-		oneClick,
+		u.oneClick,
 		widget.NewCard("", "Colours", colour),
 		widget.NewCard("", "Layers", container.NewVBox(u.coRenderCheck, layers, u.followCheck, u.wiggleCheck)),
 		widget.NewCard("", "View", container.NewVBox(view, u.followCursor)),
@@ -951,8 +952,8 @@ func (v *viewer) describePoint(trace, sample float64) string {
 		ampV, baseV, overV = at(d.amp, i, j), at(d.base, i, j), at(d.over, i, j)
 	}
 	fmt.Fprintf(&b, "  amplitude %s", fmtValue(ampV))
-	pl := v.state.plan()
-	if pl.Base.ID != amplitudeID {
+	pl := d.plan
+	if pl.Base != nil && pl.Base.ID != amplitudeID {
 		fmt.Fprintf(&b, "  %s %s", strings.ToLower(pl.Base.Name), fmtValue(baseV))
 	}
 	if pl.Overlay != nil {

@@ -334,11 +334,11 @@ func (v *viewer) figureTitle() string {
 // figureFor builds the report figure of the current view.
 func (v *viewer) figureFor(title string, w, h int) (render.Figure, error) {
 	d := v.data
-	if d.amp == nil || d.base == nil {
+	if !d.complete() {
 		return render.Figure{}, fmt.Errorf("no section is shown")
 	}
 	st := v.state
-	pl := st.plan()
+	pl := d.plan
 	basePal := st.paletteFor(pl.Base, false)
 	f := render.Figure{Title: title, Width: w, Height: h}
 	f.Base = style.Layer(pl.Base, d.base.Traces, basePal, st.ClipPercent)

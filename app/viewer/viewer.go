@@ -71,9 +71,24 @@ type survey interface {
 // shown holds the data behind the picture: the amplitude of the slice and
 // the sections of the base and overlay layers, with the keys they were made
 // for. Sections are never changed once made, so jobs may read them freely.
+//
+// plan, the parameters and the conditioning are those the sections were
+// made with: everything that draws the data (section, trace panel, legends,
+// figures, the cursor readout) takes the layers from here, never from the
+// state, whose layers may already name an overlay whose data are still
+// being computed.
 type shown struct {
 	ampKey, baseKey, overKey string
 	amp, base, over          *volume.Section
+	plan                     layerPlan
+	baseParams, overParams   map[string]string
+	cond                     compute.Conditioning
+}
+
+// complete reports whether d holds every section its plan names.
+func (d shown) complete() bool {
+	return d.amp != nil && d.base != nil && d.plan.Base != nil && (d.plan.Overlay == nil) == (d.over == nil) &&
+		len(d.amp.Traces) > 0 && len(d.base.Traces) == len(d.amp.Traces) && (d.over == nil || len(d.over.Traces) == len(d.amp.Traces))
 }
 
 // viewer is the window and everything it shows. Its fields belong to the UI
@@ -311,6 +326,7 @@ func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cac
 		}
 		out.overKey = req.overKey
 	}
+	out.plan, out.baseParams, out.overParams, out.cond = req.plan, req.baseParams, req.overParams, req.cond
 	return out, nil
 }
 
@@ -431,13 +447,13 @@ type renderResult struct {
 // requestRender renders the shown data at the section view's size in the
 // background and shows it.
 func (v *viewer) requestRender() {
-	if v.data.amp == nil || v.data.base == nil {
+	if !v.data.complete() {
 		return
 	}
 	w, h := v.ui.section.plotPixels()
 	st := v.state
 	st.Params, st.Palettes = nil, nil // not needed, and not to be shared
-	req := renderRequest{state: st, plan: v.state.plan(), data: v.data, ranges: copyRanges(v.ranges), width: w, height: h}
+	req := renderRequest{state: st, plan: v.data.plan, data: v.data, ranges: copyRanges(v.ranges), width: w, height: h}
 	basePal := v.state.paletteFor(req.plan.Base, false)
 	var ovPal = basePal
 	if req.plan.Overlay != nil {
