@@ -28,6 +28,31 @@ func (v *viewer) goToLine(n int) {
 	v.refreshNavigation()
 }
 
+// goToTyped goes to the line (or, on a time slice, the time in ms) typed in
+// the navigation bar's entry.
+func (v *viewer) goToTyped(s string) {
+	n, err := strconv.Atoi(strings.TrimSpace(s))
+	if err != nil {
+		v.showStatus(fmt.Sprintf("%q is not a line number", s))
+		v.refreshNavigation()
+		return
+	}
+	if v.state.Orientation == volume.TimeSlice {
+		n = v.sampleOfMS(float64(n))
+	}
+	v.goToLine(n)
+}
+
+// setOffset shows offset o of a pre-stack survey.
+func (v *viewer) setOffset(o int) {
+	if v.state.Offset == o {
+		return
+	}
+	v.state.Offset = o
+	v.refreshNavigation()
+	v.requestData()
+}
+
 // stepLine moves count lines forward (negative: back).
 func (v *viewer) stepLine(count int) {
 	if v.vol == nil {
@@ -58,21 +83,23 @@ func (v *viewer) setAttribute(id string) {
 	v.ui.section.focus() // the arrow keys go on stepping lines
 }
 
-// setParam changes one parameter of attribute a.
-func (v *viewer) setParam(a *compute.Attribute, name, value string) {
+// setParam changes one parameter of attribute a and says why the value is
+// refused ("" when it is taken).
+func (v *viewer) setParam(a *compute.Attribute, name, value string) string {
 	vals := v.state.params(a.ID)
 	if vals[name] == value {
-		return
+		return ""
 	}
 	trial := copyMap(vals)
 	trial[name] = value
 	if _, err := a.Resolve(trial); err != nil {
 		v.showStatus(err.Error())
-		return
+		return err.Error()
 	}
 	vals[name] = value
 	v.showStatus("")
 	v.requestData()
+	return ""
 }
 
 // applyConditioning reads the conditioning entries.

@@ -2,6 +2,7 @@ package viewer
 
 import (
 	"fmt"
+	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/palettes"
 	"strings"
@@ -13,8 +14,31 @@ import (
 	"fyne.io/fyne/v2/widget"
 )
 
-func (v *viewer) displayTab() fyne.CanvasObject {
-	u := v.ui
+// displayPanel is the Display tab: palettes, clip, layers (co-rendering,
+// base layer, opacity, wiggles), vertical stretch and whether the trace
+// panel follows the cursor. It owns its widgets; refresh sets them from the
+// state.
+type displayPanel struct {
+	refreshing bool
+	content    fyne.CanvasObject
+
+	palettePick     *widget.Select
+	basePalettePick *widget.Select
+	clipSlider      *widget.Slider
+	clipLabel       *widget.Label
+	wiggleCheck     *widget.Check
+	coRenderCheck   *widget.Check
+	baseChoice      *widget.Select
+	opacitySlider   *widget.Slider
+	opacityLabel    *widget.Label
+	followCheck     *widget.Check
+	stretchSlider   *widget.Slider
+	followCursor    *widget.Check
+	oneClick        *widget.Button
+}
+
+func newDisplayPanel(v *viewer) *displayPanel {
+	u := &displayPanel{}
 	var names []string
 	for _, p := range palettes.All() {
 		names = append(names, paletteLabel(p))
@@ -119,12 +143,54 @@ func (v *viewer) displayTab() fyne.CanvasObject {
 		widget.NewLabel("Base layer"), u.baseChoice,
 		u.opacityLabel, u.opacitySlider)
 	view := container.New(layout.NewFormLayout(), widget.NewLabel("Vertical stretch"), u.stretchSlider)
-	return container.NewVScroll(container.NewVBox(
+	u.content = container.NewVScroll(container.NewVBox(
 		u.oneClick,
 		widget.NewCard("", "Colours", colour),
 		widget.NewCard("", "Layers", container.NewVBox(u.coRenderCheck, layers, u.followCheck, u.wiggleCheck)),
 		widget.NewCard("", "View", container.NewVBox(view, u.followCursor)),
 	))
+	return u
+}
+
+// refresh sets the display controls from the state.
+func (u *displayPanel) refresh(st *viewState) {
+	was := u.refreshing
+	u.refreshing = true
+	defer func() { u.refreshing = was }()
+	pl := st.plan()
+	if pl.Overlay != nil {
+		u.palettePick.SetSelected(paletteLabel(st.paletteFor(pl.Overlay, true)))
+		u.basePalettePick.SetSelected(paletteLabel(st.paletteFor(pl.Base, false)))
+		u.basePalettePick.Enable()
+	} else {
+		u.palettePick.SetSelected(paletteLabel(st.paletteFor(pl.Base, false)))
+		u.basePalettePick.ClearSelected()
+		u.basePalettePick.Disable()
+	}
+	u.clipSlider.SetValue(st.ClipPercent)
+	u.clipLabel.SetText(fmt.Sprintf("Clip at %.1f %%", st.ClipPercent))
+	u.wiggleCheck.SetChecked(st.Wiggle)
+	u.coRenderCheck.SetChecked(st.CoRender)
+	u.baseChoice.SetSelected(lookup(st.BaseID).Name)
+	u.opacitySlider.SetValue(st.Opacity)
+	u.followCheck.SetChecked(st.OpacityFollowsValue)
+	if pl.Overlay != nil {
+		u.baseChoice.Enable()
+		u.opacitySlider.Enable()
+		u.followCheck.Enable()
+	} else {
+		u.baseChoice.Disable()
+		u.opacitySlider.Disable()
+		u.followCheck.Disable()
+	}
+	u.stretchSlider.SetValue(st.Exaggeration)
+	u.opacityLabel.SetText(fmt.Sprintf("Opacity %.0f %%", st.Opacity*100))
+	if st.Orientation == volume.TimeSlice {
+		u.stretchSlider.Disable() // a map keeps its true shape
+	} else {
+		u.stretchSlider.Enable()
+	}
+	u.followCursor.SetChecked(st.FollowCursor)
 }
 
 // paletteLabel names a palette in the choice lists with its family, so the

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/driver/desktop"
 )
 
 // hover shows the values under the cursor and, when asked, moves the trace
@@ -119,6 +120,14 @@ func (v *viewer) panBy(dTrace, dSample float64) {
 	v.state.pan(dTrace, dSample, n, m)
 	v.requestRender()
 	v.requestTrace()
+}
+
+// bindKeys sets the window's shortcuts and its key handler.
+func (v *viewer) bindKeys() {
+	c := v.win.Canvas()
+	c.SetOnTypedKey(v.typedKey)
+	c.AddShortcut(&desktop.CustomShortcut{KeyName: fyne.KeyO, Modifier: fyne.KeyModifierShortcutDefault}, func(fyne.Shortcut) { v.showOpenDialog() })
+	c.AddShortcut(&desktop.CustomShortcut{KeyName: fyne.KeyS, Modifier: fyne.KeyModifierShortcutDefault}, func(fyne.Shortcut) { v.showFigureDialog() })
 }
 
 // typedKey handles the keys of the section view (when it has the focus, or

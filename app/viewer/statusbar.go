@@ -7,6 +7,25 @@ import (
 	"fyne.io/fyne/v2/widget"
 )
 
+// statusBar is the line under the window: the values under the cursor, the
+// last message, and the progress of the work and export lanes with their
+// cancel buttons.
+type statusBar struct {
+	content fyne.CanvasObject
+	cursor  *widget.Label
+	message *widget.Label
+	work    *progressItem
+	export  *progressItem
+}
+
+func newStatusBar() *statusBar {
+	s := &statusBar{cursor: widget.NewLabel(cursorHint), message: widget.NewLabel(""), work: newProgressItem(), export: newProgressItem()}
+	s.cursor.TextStyle.Monospace = true
+	s.message.Truncation = fyne.TextTruncateEllipsis
+	s.content = container.NewBorder(nil, nil, s.cursor, container.NewHBox(s.export.box, s.work.box), s.message)
+	return s
+}
+
 // progressItem is a status-bar group of a label, a progress bar and a
 // cancel button, hidden while nothing runs.
 type progressItem struct {

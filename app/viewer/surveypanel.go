@@ -2,39 +2,54 @@ package viewer
 
 import (
 	"fmt"
-	"quadtrace/segy"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/layout"
 	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
+
+	"quadtrace/segy"
 )
 
-func (v *viewer) surveyTab() fyne.CanvasObject {
-	u := v.ui
-	u.surveyName = widget.NewLabel("")
-	u.surveyName.TextStyle.Bold = true
-	u.surveyName.Wrapping = fyne.TextWrapBreak
-	u.surveyFacts = container.New(layout.NewFormLayout())
+// surveyPanel is the Survey tab: what the scan found (geometry, sampling,
+// coordinates, amplitudes, notes), the textual header button and the trace
+// header byte locations to read the file again with. It owns its widgets;
+// refresh fills them for a newly opened survey.
+type surveyPanel struct {
+	content fyne.CanvasObject
+
+	surveyName  *widget.Label
+	surveyFacts *fyne.Container
+	byteEntries map[string]*widget.Entry
+	byteOrder   *widget.Select
+	headerCard  *widget.Card
+}
+
+func newSurveyPanel(v *viewer) *surveyPanel {
+	p := &surveyPanel{}
+	p.surveyName = widget.NewLabel("")
+	p.surveyName.TextStyle.Bold = true
+	p.surveyName.Wrapping = fyne.TextWrapBreak
+	p.surveyFacts = container.New(layout.NewFormLayout())
 	headerBtn := widget.NewButtonWithIcon("Textual header…", theme.DocumentIcon(), v.showTextHeader)
-	u.byteEntries = map[string]*widget.Entry{}
+	p.byteEntries = map[string]*widget.Entry{}
 	form := container.New(layout.NewFormLayout())
 	for _, f := range byteFields {
 		e := widget.NewEntry()
 		e.SetPlaceHolder(fmt.Sprint(f.def))
-		u.byteEntries[f.name] = e
+		p.byteEntries[f.name] = e
 		form.Add(widget.NewLabel(f.label))
 		form.Add(e)
 	}
-	u.byteOrder = widget.NewSelect([]string{"detect", "big", "little"}, nil)
-	u.byteOrder.SetSelected("detect")
+	p.byteOrder = widget.NewSelect([]string{"detect", "big", "little"}, nil)
+	p.byteOrder.SetSelected("detect")
 	form.Add(widget.NewLabel("Byte order"))
-	form.Add(u.byteOrder)
+	form.Add(p.byteOrder)
 	rescan := widget.NewButtonWithIcon("Read the file again with these", theme.ViewRefreshIcon(), v.rescan)
-	u.headerCard = widget.NewCard("", "Trace header byte locations", container.NewVBox(form, rescan))
-	headers := u.headerCard
-	return container.NewVScroll(container.NewVBox(u.surveyName, u.surveyFacts, headerBtn, headers))
+	p.headerCard = widget.NewCard("", "Trace header byte locations", container.NewVBox(form, rescan))
+	p.content = container.NewVScroll(container.NewVBox(p.surveyName, p.surveyFacts, headerBtn, p.headerCard))
+	return p
 }
 
 // byteFields are the trace header fields whose byte location can be set.
@@ -49,21 +64,15 @@ var byteFields = []struct {
 	{"cdpy", "CDP Y byte", 185},
 }
 
-// refreshSurvey fills the survey tab from the scan facts.
-func (v *viewer) refreshSurvey() {
-	u := v.ui
-	in := v.info
-	if v.vol == nil {
-		return
-	}
-	u.surveyName.SetText(v.vol.Name())
-	u.surveyFacts.RemoveAll()
+// refresh shows the scan facts of the survey called name; a survey without
+// a file (the demo) hides the byte locations, which mean nothing for it.
+func (p *surveyPanel) refresh(name string, hasFile bool, in segy.Info) {
+	p.surveyName.SetText(name)
+	var cells []fyne.CanvasObject
 	add := func(k, val string) {
-		kl := widget.NewLabel(k)
 		vl := widget.NewLabel(val)
 		vl.Wrapping = fyne.TextWrapWord
-		u.surveyFacts.Add(kl)
-		u.surveyFacts.Add(vl)
+		cells = append(cells, widget.NewLabel(k), vl)
 	}
 	add("SEG-Y revision", in.Revision)
 	add("Samples", fmt.Sprintf("%s, %s byte order", in.FormatName, in.ByteOrder))
@@ -86,22 +95,12 @@ func (v *viewer) refreshSurvey() {
 	for _, w := range in.Warnings {
 		add("Note", w)
 	}
-	// Byte locations mean something only for a file.
-	if v.vol.Path() == "" {
-		u.headerCard.Hide()
+	p.surveyFacts.Objects = cells
+	p.surveyFacts.Refresh()
+	if hasFile {
+		p.headerCard.Show()
 	} else {
-		u.headerCard.Show()
-	}
-	if len(in.Offsets) > 1 {
-		var opts []string
-		for _, o := range in.Offsets {
-			opts = append(opts, fmt.Sprint(o))
-		}
-		u.offsetPick.SetOptions(opts)
-		u.offsetPick.SetSelected(fmt.Sprint(v.state.Offset))
-		u.offsetRow.Show()
-	} else {
-		u.offsetRow.Hide()
+		p.headerCard.Hide()
 	}
 }
 

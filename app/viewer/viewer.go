@@ -225,7 +225,7 @@ func (v *viewer) setSurvey(vol survey) {
 	v.ranges = map[string][2]float32{}
 	v.state = newViewState(v.info)
 	v.loadPalettePrefs()
-	v.win.SetTitle("quadtrace — " + vol.Name())
+	v.ui.surveyPanel.refresh(vol.Name(), vol.Path() != "", v.info)
 	v.refreshControls()
 	if v.info.Traces == 0 {
 		msg := filepath.Base(vol.Name()) + " holds headers but no traces"
@@ -472,7 +472,7 @@ func (v *viewer) requestRender() {
 			v.ui.section.setImage(res.img, res.vp, res.axes, res.aspect)
 			v.ui.section.setPick(v.pickIndex())
 			v.sectionDrawn++
-			v.refreshLegends(req.plan, res)
+			v.ui.legends.refresh(req.plan, res, &v.state)
 			v.maybeSnapshot()
 		})
 	})
