@@ -255,7 +255,9 @@ type sectionRenderer struct {
 	message  *canvas.Text
 	hTitle   *canvas.Text
 	vTitle   *canvas.Text
-	ticks    []fyne.CanvasObject // tick lines and labels, rebuilt on layout
+	// Tick marks and labels, made once and reused by every layout.
+	tickLines  linePool
+	tickLabels textPool
 }
 
 func (r *sectionRenderer) Destroy() {}
@@ -264,7 +266,7 @@ func (r *sectionRenderer) MinSize() fyne.Size { return r.v.MinSize() }
 
 func (r *sectionRenderer) Objects() []fyne.CanvasObject {
 	objs := []fyne.CanvasObject{r.bg, r.image, r.frame, r.pickLine, r.hTitle, r.vTitle, r.message}
-	return append(objs, r.ticks...)
+	return append(append(objs, r.tickLines.objects()...), r.tickLabels.objects()...)
 }
 
 func (r *sectionRenderer) Refresh() {
@@ -313,7 +315,10 @@ func (r *sectionRenderer) Layout(size fyne.Size) {
 			r.pickLine.Hidden = false
 		}
 	}
-	r.ticks = r.ticks[:0]
+	r.tickLines.reset()
+	r.tickLabels.reset()
+	defer r.tickLines.finish()
+	defer r.tickLabels.finish()
 	if !hasImage {
 		r.hTitle.Hidden, r.vTitle.Hidden = true, true
 		return
@@ -342,12 +347,10 @@ func (r *sectionRenderer) layoutTicks(pos fyne.Position, ps fyne.Size) {
 	if n := len(v.axes.HKeys); n > 0 {
 		for _, idx := range keyTicks(v.axes.HKeys, v.vp.Trace0, v.vp.Trace1, int(ps.Width/90)+1) {
 			x := pos.X + float32((float64(idx)+0.5-v.vp.Trace0)/tw)*ps.Width
-			r.addTick(fyne.NewPos(x, pos.Y-4), fyne.NewPos(x, pos.Y))
-			t := canvas.NewText(fmt.Sprint(v.axes.HKeys[idx]), fg)
-			t.TextSize = small
+			r.tickLines.next(fyne.NewPos(x, pos.Y-4), fyne.NewPos(x, pos.Y), fg)
+			t := r.tickLabels.next(fmt.Sprint(v.axes.HKeys[idx]), fg, small, false)
 			ts := t.MinSize()
 			t.Move(fyne.NewPos(x-ts.Width/2, pos.Y-4-ts.Height))
-			r.ticks = append(r.ticks, t)
 		}
 	}
 	// Vertical: time in ms, or row keys for a map.
@@ -377,20 +380,11 @@ func (r *sectionRenderer) layoutTicks(pos fyne.Position, ps fyne.Size) {
 		if y < pos.Y-0.5 || y > pos.Y+ps.Height+0.5 {
 			continue
 		}
-		r.addTick(fyne.NewPos(pos.X-4, y), fyne.NewPos(pos.X, y))
-		t := canvas.NewText(l.text, fg)
-		t.TextSize = small
+		r.tickLines.next(fyne.NewPos(pos.X-4, y), fyne.NewPos(pos.X, y), fg)
+		t := r.tickLabels.next(l.text, fg, small, false)
 		ts := t.MinSize()
 		t.Move(fyne.NewPos(pos.X-6-ts.Width, y-ts.Height/2))
-		r.ticks = append(r.ticks, t)
 	}
-}
-
-func (r *sectionRenderer) addTick(a, b fyne.Position) {
-	l := canvas.NewLine(theme.Color(theme.ColorNameForeground))
-	l.StrokeWidth = 1
-	l.Position1, l.Position2 = a, b
-	r.ticks = append(r.ticks, l)
 }
 
 // keyTicks chooses trace indices in [lo, hi) whose keys are multiples of a
