@@ -9,10 +9,19 @@ import (
 	"strings"
 )
 
-// setOrientation switches between inline, crossline and time slice.
+// setOrientation switches between inline, crossline and time slice,
+// keeping the place: the new view passes through the picked trace, which
+// stays picked, and a time slice is taken at the picked time.
 func (v *viewer) setOrientation(o volume.Orientation) {
-	if v.state.Orientation == o {
+	if v.state.Orientation == o || v.vol == nil {
 		return
+	}
+	if k, ok := v.pickedKeys(); ok {
+		v.state.Inline, v.state.Crossline = k.inline, k.crossline
+		v.wantPick = &k
+	}
+	if v.state.PickSample >= 0 && v.state.PickSample < v.info.Samples && v.data.amp != nil && v.data.amp.Slice.Orientation != volume.TimeSlice {
+		v.state.SampleIndex = v.state.PickSample
 	}
 	v.state.Orientation = o
 	v.state.PickTrace = -1

@@ -79,14 +79,16 @@ func (v *viewer) pickAt(trace, sample float64) {
 		return
 	}
 	pick := i
-	if v.state.Orientation == volume.TimeSlice {
+	if v.data.amp.Slice.Orientation == volume.TimeSlice {
 		pick = j*n + i
+	} else {
+		v.state.PickSample = j
 	}
 	if pick == v.state.PickTrace {
 		return
 	}
 	v.state.PickTrace = pick
-	v.ui.section.setPick(v.pickIndex())
+	v.ui.section.setPick(v.pickPoint())
 	v.requestTrace()
 }
 
@@ -122,12 +124,51 @@ func (v *viewer) panBy(dTrace, dSample float64) {
 	v.requestTrace()
 }
 
-// bindKeys sets the window's shortcuts and its key handler.
+// viewCommand is a View menu command with its window-level shortcut; an
+// empty name is a separator.
+type viewCommand struct {
+	name     string
+	shortcut *desktop.CustomShortcut
+	do       func()
+}
+
+// viewCommands are the View menu's commands. Their shortcuts are the
+// window's: they act whichever control has the keyboard, because fyne runs
+// main-menu shortcuts before the focused widget sees the key.
+func (v *viewer) viewCommands() []viewCommand {
+	ctrl := fyne.KeyModifierShortcutDefault
+	sc := func(k fyne.KeyName, m fyne.KeyModifier) *desktop.CustomShortcut {
+		return &desktop.CustomShortcut{KeyName: k, Modifier: m}
+	}
+	return []viewCommand{
+		{"Next line", sc(fyne.KeyPageDown, ctrl), func() { v.stepLine(1) }},
+		{"Previous line", sc(fyne.KeyPageUp, ctrl), func() { v.stepLine(-1) }},
+		{"Ten lines forward", sc(fyne.KeyPageDown, ctrl|fyne.KeyModifierShift), func() { v.stepLine(10) }},
+		{"Ten lines back", sc(fyne.KeyPageUp, ctrl|fyne.KeyModifierShift), func() { v.stepLine(-10) }},
+		{},
+		{"Zoom in", sc(fyne.KeyEqual, ctrl), func() { v.zoomCentre(1.5) }},
+		{"Zoom out", sc(fyne.KeyMinus, ctrl), func() { v.zoomCentre(1 / 1.5) }},
+		{"Whole section", sc(fyne.KeyHome, ctrl), v.fitView},
+		{},
+		{"Back", sc(fyne.KeyLeft, fyne.KeyModifierAlt), func() { v.goHistory(-1) }},
+		{"Forward", sc(fyne.KeyRight, fyne.KeyModifierAlt), func() { v.goHistory(1) }},
+	}
+}
+
+// bindKeys sets the window's shortcuts and its key handler. The View
+// commands' shortcuts are also set on the canvas, for a window without a
+// main menu (fyne's test driver).
 func (v *viewer) bindKeys() {
 	c := v.win.Canvas()
 	c.SetOnTypedKey(v.typedKey)
 	c.AddShortcut(&desktop.CustomShortcut{KeyName: fyne.KeyO, Modifier: fyne.KeyModifierShortcutDefault}, func(fyne.Shortcut) { v.showOpenDialog() })
 	c.AddShortcut(&desktop.CustomShortcut{KeyName: fyne.KeyS, Modifier: fyne.KeyModifierShortcutDefault}, func(fyne.Shortcut) { v.showFigureDialog() })
+	for _, vc := range v.viewCommands() {
+		if vc.shortcut != nil {
+			do := vc.do
+			c.AddShortcut(vc.shortcut, func(fyne.Shortcut) { do() })
+		}
+	}
 }
 
 // typedKey handles the keys of the section view (when it has the focus, or
@@ -154,10 +195,18 @@ func (v *viewer) typedKey(e *fyne.KeyEvent) {
 }
 
 // keyHelp lists the keys for the Help menu.
-const keyHelp = `Right / Left arrow    next / previous line
+const keyHelp = `On the section (click it first):
+Right / Left arrow    next / previous line
 Page Down / Page Up   ten lines forward / back
 + / -                 zoom in / out
 Home                  whole section
+
+Anywhere in the window:
+Ctrl+Page Down / Up   next / previous line
+Ctrl+Shift+Page Down / Up   ten lines forward / back
+Ctrl+= / Ctrl+-       zoom in / out
+Ctrl+Home             whole section
+Alt+Left / Alt+Right  back / forward through the views shown
 Mouse wheel           zoom about the pointer
 Drag                  move the view
 Click                 show that trace in the trace panel

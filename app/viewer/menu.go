@@ -21,16 +21,17 @@ func (v *viewer) mainMenu() *fyne.MainMenu {
 		fyne.NewMenuItem("Save figure…", v.showFigureDialog),
 		fyne.NewMenuItem("Export attribute volume…", v.showExportDialog),
 	)
-	view := fyne.NewMenu("View",
-		fyne.NewMenuItem("Next line", func() { v.stepLine(1) }),
-		fyne.NewMenuItem("Previous line", func() { v.stepLine(-1) }),
-		fyne.NewMenuItem("Ten lines forward", func() { v.stepLine(10) }),
-		fyne.NewMenuItem("Ten lines back", func() { v.stepLine(-10) }),
-		fyne.NewMenuItemSeparator(),
-		fyne.NewMenuItem("Zoom in", func() { v.zoomCentre(1.5) }),
-		fyne.NewMenuItem("Zoom out", func() { v.zoomCentre(1 / 1.5) }),
-		fyne.NewMenuItem("Whole section", v.fitView),
-	)
+	var items []*fyne.MenuItem
+	for _, c := range v.viewCommands() {
+		if c.name == "" {
+			items = append(items, fyne.NewMenuItemSeparator())
+			continue
+		}
+		it := fyne.NewMenuItem(c.name, c.do)
+		it.Shortcut = c.shortcut
+		items = append(items, it)
+	}
+	view := fyne.NewMenu("View", items...)
 	help := fyne.NewMenu("Help",
 		fyne.NewMenuItem("Keys and mouse", func() {
 			l := widget.NewLabel(keyHelp)

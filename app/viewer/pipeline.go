@@ -144,6 +144,7 @@ func (v *viewer) requestData() {
 				return
 			}
 			newShape := v.data.amp == nil || sectionShape(v.data.amp) != sectionShape(out.amp)
+			before, hadPick := v.pickedKeys()
 			v.data = out
 			v.shownState = v.state.dataFields()
 			v.cache.put(out.ampKey, out.amp)
@@ -152,11 +153,9 @@ func (v *viewer) requestData() {
 			if newShape {
 				n, m := v.dims()
 				v.state.fit(n, m)
-				v.state.PickTrace = n / 2
-				if v.state.Orientation == volume.TimeSlice {
-					v.state.PickTrace = m/2*n + n/2
-				}
 			}
+			v.placePick(before, hadPick)
+			v.recordView()
 			v.refreshNavigation()
 			v.requestRender()
 			v.requestTrace()
@@ -167,6 +166,7 @@ func (v *viewer) requestData() {
 // backToShown undoes the requested change whose data were cancelled, so the
 // controls name what the picture shows.
 func (v *viewer) backToShown() {
+	v.histPending, v.wantPick = -1, nil
 	if v.data.amp == nil {
 		return
 	}
@@ -242,7 +242,7 @@ func (v *viewer) requestRender() {
 			}
 			v.lastSection = res.img
 			v.ui.section.setImage(res.img, res.vp, res.axes, res.aspect)
-			v.ui.section.setPick(v.pickIndex())
+			v.ui.section.setPick(v.pickPoint())
 			v.sectionDrawn++
 			v.ui.legends.refresh(req.plan, res, &v.state)
 			v.maybeSnapshot()
@@ -250,11 +250,17 @@ func (v *viewer) requestRender() {
 	})
 }
 
-// pickIndex is the picked trace's index along the section (NaN: none, or a
-// map, where the pick is a point).
-func (v *viewer) pickIndex() float64 {
-	if v.state.PickTrace < 0 || v.state.Orientation == volume.TimeSlice {
-		return math.NaN()
+// pickPoint is where the pick is in the shown data: the trace index along
+// a section (row NaN), or the column and row of a time slice's grid; NaN
+// column: nothing picked.
+func (v *viewer) pickPoint() (col, row float64) {
+	d, p := v.data.amp, v.state.PickTrace
+	if d == nil || p < 0 || len(d.Traces) == 0 {
+		return math.NaN(), math.NaN()
 	}
-	return float64(v.state.PickTrace)
+	if d.Slice.Orientation == volume.TimeSlice {
+		n := max(len(d.Traces[0]), 1)
+		return float64(p % n), float64(p / n)
+	}
+	return float64(p), math.NaN()
 }

@@ -46,7 +46,8 @@ type sectionView struct {
 	vp         render.Viewport // the part of the section img shows
 	axes       sectionAxes
 	aspect     float64 // plot width/height to keep (maps); 0 = fill
-	pick       float64 // picked trace index; NaN = none
+	pick       float64 // picked trace index (a map's column); NaN = none
+	pickRow    float64 // a map's picked row; NaN on a section
 	message    string  // shown instead of the section (loading, errors)
 	lastCursor fyne.Position
 
@@ -60,7 +61,7 @@ type sectionView struct {
 }
 
 func newSectionView() *sectionView {
-	v := &sectionView{pick: math.NaN(), message: "Opening…"}
+	v := &sectionView{pick: math.NaN(), pickRow: math.NaN(), message: "Opening…"}
 	v.ExtendBaseWidget(v)
 	return v
 }
@@ -77,9 +78,10 @@ func (v *sectionView) setMessage(msg string) {
 	v.Refresh()
 }
 
-// setPick marks trace index t (NaN: none).
-func (v *sectionView) setPick(t float64) {
-	v.pick = t
+// setPick marks trace index col of a section (row NaN) or the point (col,
+// row) of a map with a cross; col NaN marks nothing.
+func (v *sectionView) setPick(col, row float64) {
+	v.pick, v.pickRow = col, row
 	v.Refresh()
 }
 
@@ -234,6 +236,8 @@ func (v *sectionView) CreateRenderer() fyne.WidgetRenderer {
 	r.image.FillMode = canvas.ImageFillStretch
 	r.pickLine = canvas.NewLine(color.RGBA{255, 200, 0, 255})
 	r.pickLine.StrokeWidth = 1.5
+	r.pickRow = canvas.NewLine(color.RGBA{255, 200, 0, 255})
+	r.pickRow.StrokeWidth = 1.5
 	r.message = canvas.NewText("", theme.Color(theme.ColorNameForeground))
 	r.message.Alignment = fyne.TextAlignCenter
 	r.hTitle = canvas.NewText("", theme.Color(theme.ColorNameForeground))
@@ -252,6 +256,7 @@ type sectionRenderer struct {
 	frame    *canvas.Rectangle
 	image    *canvas.Image
 	pickLine *canvas.Line
+	pickRow  *canvas.Line // the horizontal line of a map's pick cross
 	message  *canvas.Text
 	hTitle   *canvas.Text
 	vTitle   *canvas.Text
@@ -265,7 +270,7 @@ func (r *sectionRenderer) Destroy() {}
 func (r *sectionRenderer) MinSize() fyne.Size { return r.v.MinSize() }
 
 func (r *sectionRenderer) Objects() []fyne.CanvasObject {
-	objs := []fyne.CanvasObject{r.bg, r.image, r.frame, r.pickLine, r.hTitle, r.vTitle, r.message}
+	objs := []fyne.CanvasObject{r.bg, r.image, r.frame, r.pickLine, r.pickRow, r.hTitle, r.vTitle, r.message}
 	return append(append(objs, r.tickLines.objects()...), r.tickLabels.objects()...)
 }
 
@@ -273,8 +278,11 @@ func (r *sectionRenderer) Refresh() {
 	fg := theme.Color(theme.ColorNameForeground)
 	r.bg.FillColor = theme.Color(theme.ColorNameInputBackground)
 	r.frame.StrokeColor = theme.Color(theme.ColorNameSeparator)
+	r.frame.StrokeWidth = 1
 	if r.v.focused {
-		r.frame.StrokeColor = theme.Color(theme.ColorNameFocus)
+		// The keys act on the section: say so with a frame that shows.
+		r.frame.StrokeColor = theme.Color(theme.ColorNamePrimary)
+		r.frame.StrokeWidth = 3
 	}
 	r.message.Color, r.hTitle.Color, r.vTitle.Color = fg, fg, fg
 	r.message.Text = r.v.message
@@ -313,6 +321,16 @@ func (r *sectionRenderer) Layout(size fyne.Size) {
 			r.pickLine.Position1 = fyne.NewPos(x, pos.Y)
 			r.pickLine.Position2 = fyne.NewPos(x, pos.Y+ps.Height)
 			r.pickLine.Hidden = false
+		}
+	}
+	r.pickRow.Hidden = true
+	if !r.pickLine.Hidden && !math.IsNaN(v.pickRow) && v.vp.Sample1 > v.vp.Sample0 {
+		fy := float32((v.pickRow + 0.5 - v.vp.Sample0) / (v.vp.Sample1 - v.vp.Sample0))
+		if fy >= 0 && fy <= 1 {
+			y := pos.Y + fy*ps.Height
+			r.pickRow.Position1 = fyne.NewPos(pos.X, y)
+			r.pickRow.Position2 = fyne.NewPos(pos.X+ps.Width, y)
+			r.pickRow.Hidden = false
 		}
 	}
 	r.tickLines.reset()

@@ -115,12 +115,19 @@ type viewer struct {
 	snapshotTaken bool
 
 	ui *widgets
+
+	// wantPick is the trace to pick in the next data shown (set by a change
+	// of view); history and histPos are the Back/Forward history.
+	wantPick *pickKeys
+	history     []historyEntry
+	histPos     int
+	histPending int // the entry a Back/Forward is going to; -1: none
 }
 
 // newViewer builds the window on app a, with its background work run by js;
 // start opens the survey. The caller shows the window.
 func newViewer(a fyne.App, opt Options, js *jobs) *viewer {
-	v := &viewer{app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
+	v := &viewer{histPending: -1, app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
 	v.win = a.NewWindow("quadtrace")
 	v.buildUI()
 	v.restoreWindowSize()
@@ -221,6 +228,8 @@ func (v *viewer) setSurvey(vol survey) {
 	v.cache.clear()
 	v.ranges = map[string][2]float32{}
 	v.state = newViewState(v.info)
+	v.wantPick, v.history, v.histPos, v.histPending = nil, nil, 0, -1
+	v.showStatus("") // errors about the survey before do not apply
 	v.loadPalettePrefs()
 	v.ui.surveyPanel.refresh(vol.Name(), vol.Path() != "", v.info)
 	v.refreshControls()
