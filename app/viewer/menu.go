@@ -2,7 +2,7 @@ package viewer
 
 import (
 	"fmt"
-	"quadtrace/app/export"
+	"quadtrace/app/version"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/dialog"
@@ -57,7 +57,7 @@ rules that apply where you work.
 The demo survey and every place named in it are invented.`
 
 func (v *viewer) showAbout() {
-	l := widget.NewLabel(fmt.Sprintf(aboutText, export.Version))
+	l := widget.NewLabel(fmt.Sprintf(aboutText, version.Version))
 	l.Wrapping = fyne.TextWrapOff
 	dialog.ShowCustom("About quadtrace", "Close", l, v.win)
 }
