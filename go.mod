@@ -46,3 +46,9 @@ require (
 	golang.org/x/net v0.35.0 // indirect
 	gopkg.in/yaml.v3 v3.0.1 // indirect
 )
+
+// fyne's lang package looks the user's locale up in an init function
+// through go-locale, which turns LANG=C.UTF-8 into the tag "C" and makes
+// every run print "Fyne error: Error parsing user locale C". app/syslocale
+// is our own small replacement (see its doc.go and DEVELOPERS.md).
+replace github.com/jeandeaual/go-locale => ./app/syslocale
