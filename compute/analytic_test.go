@@ -219,7 +219,7 @@ func TestAgreesWithScipyOnRandomTraces(t *testing.T) {
 	}
 }
 
-// Source: scipy.signal.hilbert on traces of ../shared/segy-corpus files as
+// Source: scipy.signal.hilbert on traces of testdata/segy-corpus files as
 // read by segyio (Debian python3-segyio), without and with padding.
 func TestAgreesWithScipyOnCorpusTraces(t *testing.T) {
 	py := pythonWithScipy(t)
