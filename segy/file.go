@@ -91,6 +91,9 @@ type Info struct {
 	// then the extended ones, each as 80-character lines (trailing blanks
 	// removed, control characters blanked) joined by '\n'.
 	TextHeaders []string
+	// Stanzas lists the stanza header lines found in the extended textual
+	// headers, e.g. "((SEG: EndText))" (see ParseStanzas).
+	Stanzas []string
 	// Warnings lists what Open tolerated or assumed.
 	Warnings []string
 	// Amplitude summary of finite samples from a bounded sample of at most
@@ -403,6 +406,7 @@ func (f *File) parse(opt Options) error {
 	if err := f.readExtendedText(bin); err != nil {
 		return err
 	}
+	f.noteStanzas()
 	if err := f.rev2Layout(bin); err != nil {
 		return err
 	}
