@@ -1,4 +1,4 @@
-package batch
+package cli
 
 import (
 	"bytes"
@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"testing"
 
+	"quadtrace/app/figure"
 	"quadtrace/app/volume"
 	"quadtrace/segy"
 	"quadtrace/segy/segytest"
@@ -63,7 +64,7 @@ func TestFigureCommand(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer v.Close()
-	fig, err := buildFigure(context.Background(), v, figureRequest{orientation: volume.Inline, inline: 3, attribute: "envelope", clip: 99, width: 800, height: 500})
+	fig, err := figure.Build(context.Background(), v, figure.Request{Orientation: volume.Inline, Inline: 3, Attribute: "envelope", Clip: 99, Width: 800, Height: 500})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,4 +1,4 @@
-package export
+package cli
 
 import (
 	"bytes"
@@ -9,6 +9,7 @@ import (
 	"testing"
 	"time"
 
+	"quadtrace/app/apptest"
 	"quadtrace/segy"
 	"quadtrace/segy/segytest"
 )
@@ -97,7 +98,7 @@ func runExportGuarded(t *testing.T, in, out string) (code int, stdout, stderr st
 	done := make(chan result, 1)
 	go func() {
 		var o, e bytes.Buffer
-		code := Command([]string{in, "--attribute", "envelope", "--out", out, "--quiet"}, &o, &e)
+		code := Export([]string{in, "--attribute", "envelope", "--out", out, "--quiet"}, &o, &e)
 		done <- result{code, o.String(), e.String()}
 	}()
 	select {
@@ -166,4 +167,26 @@ func checkGapsPreserved(t *testing.T, inPath, outPath string) int {
 		}
 	}
 	return gaps
+}
+
+// TestExportCommandRefusesTheInput: `quadtrace export` exits 1 when --out
+// names its input (directly or through a symlink) and leaves it unchanged.
+func TestExportCommandRefusesTheInput(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "in.sgy")
+	apptest.WriteVolume(t, in, apptest.VolumeSpec{Inlines: [2]int{1, 3}, Crosslines: [2]int{1, 4}, Samples: 50, IntervalUS: 4000})
+	link := filepath.Join(dir, "link.sgy")
+	if err := os.Symlink(in, link); err != nil {
+		t.Fatal(err)
+	}
+	sum := apptest.FileSum(t, in)
+	for _, out := range []string{in, link} {
+		var stderr strings.Builder
+		if code := Export([]string{in, "--attribute", "envelope", "--out", out, "--quiet"}, &strings.Builder{}, &stderr); code != exitFailed {
+			t.Errorf("--out %s: exit %d, want %d (%s)", out, code, exitFailed, stderr.String())
+		}
+	}
+	if apptest.FileSum(t, in) != sum {
+		t.Error("the input changed")
+	}
 }

@@ -1,4 +1,4 @@
-package export
+package cli
 
 import (
 	"context"
@@ -11,6 +11,7 @@ import (
 	"strings"
 	"syscall"
 
+	"quadtrace/app/export"
 	"quadtrace/compute"
 	"quadtrace/segy"
 )
@@ -26,19 +27,19 @@ const (
 // runtimeOverhead is the memory the export process needs beyond its trace
 // block budget: the program and Go runtime, the FFT work buffers of the
 // compute workers, the writers' buffers, the geometry index of the input,
-// and the garbage of finished blocks not yet collected. Command sets the Go
+// and the garbage of finished blocks not yet collected. Export sets the Go
 // runtime's soft memory limit to budget + runtimeOverhead, and the
-// collector's growth ratio to gcPercent, so that the process's peak resident
+// collector's growth ratio to export.GCPercent, so that the process's peak resident
 // memory stays below budget + runtimeOverhead (BenchmarkExportPeakMemory
 // measures it on a 1.25 GB volume).
 const runtimeOverhead = 64 << 20
 
-// Command runs `quadtrace export` with args (after the sub-command name) and
+// Export runs `quadtrace export` with args (after the sub-command name) and
 // returns the exit status: 0 when every output was written, 1 when the job
 // failed, 2 for a wrong command line, 130 when interrupted by SIGINT or
 // SIGTERM (then nothing is left at the destinations). The written paths go
 // to stdout, one a line; progress and errors go to stderr.
-func Command(args []string, stdout, stderr io.Writer) int {
+func Export(args []string, stdout, stderr io.Writer) int {
 	a, err := parseExportArgs(args, stderr)
 	if errors.Is(err, errHelp) {
 		return exitOK
@@ -54,7 +55,7 @@ func Command(args []string, stdout, stderr io.Writer) int {
 			return exitUsage
 		}
 	}
-	job := Job{
+	job := export.Job{
 		Input: a.input,
 		SegyOptions: segy.Options{InlineByte: a.inlineByte, CrosslineByte: a.crosslineByte,
 			ByteOrder: a.byteOrder},
@@ -71,11 +72,11 @@ func Command(args []string, stdout, stderr io.Writer) int {
 		defer debug.SetMemoryLimit(debug.SetMemoryLimit(a.budget + runtimeOverhead))
 	}
 	if _, set := os.LookupEnv("GOGC"); !set {
-		defer debug.SetGCPercent(debug.SetGCPercent(gcPercent))
+		defer debug.SetGCPercent(debug.SetGCPercent(export.GCPercent))
 	}
 
 	var bar reporter
-	paths, err := Run(ctx, job, func(p Progress) {
+	paths, err := export.Run(ctx, job, func(p export.Progress) {
 		if bar == nil { // the total is known once the input is open
 			bar = newReporter(a.progress, stderr, strings.Join(a.attributes, ","), p.Total)
 		}

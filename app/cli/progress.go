@@ -1,4 +1,4 @@
-package export
+package cli
 
 import (
 	"encoding/json"
@@ -9,6 +9,8 @@ import (
 
 	"github.com/schollz/progressbar/v3"
 	"golang.org/x/term"
+
+	"quadtrace/app/export"
 )
 
 // progressMode names how the export command reports progress.
@@ -36,7 +38,7 @@ type progressLine struct {
 
 // reporter turns Progress values into what the user sees.
 type reporter interface {
-	report(Progress)
+	report(export.Progress)
 	finish()
 }
 
@@ -62,8 +64,8 @@ func isTerminal(w io.Writer) bool {
 
 type noReporter struct{}
 
-func (noReporter) report(Progress) {}
-func (noReporter) finish()         {}
+func (noReporter) report(export.Progress) {}
+func (noReporter) finish()                {}
 
 // jsonReporter writes a progressLine at most every `every`, plus the first
 // and the last one.
@@ -73,10 +75,10 @@ type jsonReporter struct {
 	every time.Duration
 	last  time.Duration
 	sent  bool
-	final Progress
+	final export.Progress
 }
 
-func (r *jsonReporter) report(p Progress) {
+func (r *jsonReporter) report(p export.Progress) {
 	r.final = p
 	if r.sent && p.Elapsed-r.last < r.every && p.Done < p.Total {
 		return
@@ -84,7 +86,7 @@ func (r *jsonReporter) report(p Progress) {
 	r.write(p, false)
 }
 
-func (r *jsonReporter) write(p Progress, finished bool) {
+func (r *jsonReporter) write(p export.Progress, finished bool) {
 	r.sent, r.last = true, p.Elapsed
 	l := progressLine{Done: p.Done, Total: p.Total, BytesDone: p.BytesDone, ElapsedS: p.Elapsed.Seconds(), Finished: finished, Description: r.what}
 	if s := p.Elapsed.Seconds(); s > 0 && p.Done > 0 {
@@ -124,7 +126,7 @@ func newBarReporter(w io.Writer, description string, total int) *barReporter {
 	return &barReporter{bar: bar, w: w}
 }
 
-func (r *barReporter) report(p Progress) {
+func (r *barReporter) report(p export.Progress) {
 	if s := p.Elapsed.Seconds(); s > 0 {
 		r.bar.Describe(fmt.Sprintf("%.0f MB/s", float64(p.BytesDone)/1e6/s))
 	}

@@ -1,4 +1,4 @@
-package export
+package cli
 
 import (
 	"bufio"
@@ -10,6 +10,8 @@ import (
 	"strings"
 	"syscall"
 	"testing"
+
+	"quadtrace/app/apptest"
 )
 
 // startExport starts the test binary as `quadtrace export` with args and
@@ -38,9 +40,9 @@ func startExport(t *testing.T, args ...string) (*exec.Cmd, *bufio.Scanner) {
 func TestExportInterruptedBySignal(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "survey.sgy")
-	v := volumeSpec{inlines: [2]int{1, 60}, crosslines: [2]int{1, 200}, samples: 1501, intervalUS: 2000}
-	writeVolume(t, in, v) // 12000 traces, 75 MB: seconds of work on two cores
-	inSum := fileSum(t, in)
+	v := apptest.VolumeSpec{Inlines: [2]int{1, 60}, Crosslines: [2]int{1, 200}, Samples: 1501, IntervalUS: 2000}
+	apptest.WriteVolume(t, in, v) // 12000 traces, 75 MB: seconds of work on two cores
+	inSum := apptest.FileSum(t, in)
 	previous := filepath.Join(dir, "previous.sgy")
 	cases := []struct {
 		name     string
@@ -62,7 +64,7 @@ func TestExportInterruptedBySignal(t *testing.T) {
 				if err := os.WriteFile(c.out, []byte("a complete earlier export"), 0o644); err != nil {
 					t.Fatal(err)
 				}
-				before = fileSum(t, c.out)
+				before = apptest.FileSum(t, c.out)
 			}
 			cmd, lines := startExport(t, in, "--attribute", c.ids, "--out", c.out, "--budget", "2M", "--progress", "json")
 			signalled := false
@@ -96,21 +98,21 @@ func TestExportInterruptedBySignal(t *testing.T) {
 				if exit.ExitCode() != exitInterrupted {
 					t.Errorf("exit status %d, want %d", exit.ExitCode(), exitInterrupted)
 				}
-				if left := strayTemps(t, filepath.Dir(c.out)); len(left) > 0 {
+				if left := apptest.StrayTemps(t, filepath.Dir(c.out)); len(left) > 0 {
 					t.Errorf("temporary files left after %v: %v", c.sig, left)
 				}
-				if left := strayTemps(t, c.out); len(left) > 0 {
+				if left := apptest.StrayTemps(t, c.out); len(left) > 0 {
 					t.Errorf("temporary files left after %v: %v", c.sig, left)
 				}
 			}
 			if c.previous {
-				if fileSum(t, c.out) != before {
+				if apptest.FileSum(t, c.out) != before {
 					t.Errorf("the previous %s changed", c.out)
 				}
 			} else if _, err := os.Stat(c.out); !os.IsNotExist(err) {
 				t.Errorf("%s exists after %v", c.out, c.sig)
 			}
-			if fileSum(t, in) != inSum {
+			if apptest.FileSum(t, in) != inSum {
 				t.Fatal("the input changed")
 			}
 		})
@@ -118,5 +120,5 @@ func TestExportInterruptedBySignal(t *testing.T) {
 	// After SIGKILL the writer's temporary files may remain (nothing can
 	// remove them); they are hidden files beside the destination, never at
 	// its name.
-	t.Logf("temporary files left by SIGKILL: %v", strayTemps(t, dir))
+	t.Logf("temporary files left by SIGKILL: %v", apptest.StrayTemps(t, dir))
 }

@@ -1,4 +1,4 @@
-package export
+package cli
 
 import (
 	"errors"
@@ -6,10 +6,12 @@ import (
 	"reflect"
 	"strings"
 	"testing"
+
+	"quadtrace/app/export"
 )
 
 func TestParseExportArgs(t *testing.T) {
-	base := exportArgs{input: "in.sgy", out: "o.sgy", format: 5, budget: DefaultBudget, progress: progressBar, params: map[string]string{}}
+	base := exportArgs{input: "in.sgy", out: "o.sgy", format: 5, budget: export.DefaultBudget, progress: progressBar, params: map[string]string{}}
 	with := func(f func(*exportArgs)) exportArgs { a := base; a.params = map[string]string{}; f(&a); return a }
 	cases := []struct {
 		name string
@@ -28,7 +30,7 @@ func TestParseExportArgs(t *testing.T) {
 		{"everything", "in.sgy --attribute envelope --out o.sgy --format ibm --inlines 10:20 --crosslines 5 --budget 1G --progress json --condition band:8-60 --inline-byte 9 --crossline-byte 21 --byte-order little",
 			with(func(a *exportArgs) {
 				a.attributes = []string{"envelope"}
-				a.format, a.inlines, a.crosslines, a.budget, a.progress = 1, &Range{10, 20}, &Range{5, 5}, 1<<30, progressJSON
+				a.format, a.inlines, a.crosslines, a.budget, a.progress = 1, &export.Range{First: 10, Last: 20}, &export.Range{First: 5, Last: 5}, 1<<30, progressJSON
 				a.condition, a.inlineByte, a.crosslineByte, a.byteOrder = "band:8-60", 9, 21, "little"
 			}), ""},
 		{"quiet", "in.sgy --attribute envelope --out o.sgy --quiet",

@@ -1,4 +1,4 @@
-package export
+package cli
 
 import (
 	"errors"
@@ -7,6 +7,7 @@ import (
 	"io"
 	"strings"
 
+	"quadtrace/app/export"
 	"quadtrace/compute"
 )
 
@@ -19,8 +20,8 @@ type exportArgs struct {
 	condition     string
 	out           string
 	format        int
-	inlines       *Range
-	crosslines    *Range
+	inlines       *export.Range
+	crosslines    *export.Range
 	budget        int64
 	progress      progressMode
 	quiet         bool   // --quiet: no progress, no list of written paths
@@ -143,16 +144,16 @@ func parseExportArgs(args []string, stderr io.Writer) (*exportArgs, error) {
 		return nil, err
 	}
 	if inl != "" {
-		if a.inlines, err = parseRange(inl); err != nil {
+		if a.inlines, err = export.ParseRange(inl); err != nil {
 			return nil, fmt.Errorf("--inlines: %w", err)
 		}
 	}
 	if xl != "" {
-		if a.crosslines, err = parseRange(xl); err != nil {
+		if a.crosslines, err = export.ParseRange(xl); err != nil {
 			return nil, fmt.Errorf("--crosslines: %w", err)
 		}
 	}
-	a.budget = DefaultBudget
+	a.budget = export.DefaultBudget
 	if budget != "" {
 		if a.budget, err = parseBytes(budget); err != nil {
 			return nil, fmt.Errorf("--budget: %w", err)
@@ -200,40 +201,3 @@ func parseFormat(s string) (int, error) {
 	}
 	return 0, fmt.Errorf("--format %q: want ieee (SEG-Y format code 5) or ibm (code 1)", s)
 }
-
-// parseJoinArgs reads `join PART... --out FILE`.
-func parseJoinArgs(args []string, stderr io.Writer) (parts []string, out string, quiet bool, err error) {
-	fs := flag.NewFlagSet("join", flag.ContinueOnError)
-	fs.SetOutput(io.Discard)
-	fs.StringVar(&out, "out", "", "")
-	fs.BoolVar(&quiet, "quiet", false, "")
-	parts, err = parseInterspersed(fs, args)
-	if err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fmt.Fprint(stderr, joinUsage)
-			return nil, "", false, errHelp
-		}
-		return nil, "", false, err
-	}
-	if len(parts) == 0 {
-		return nil, "", false, errors.New("no PART given")
-	}
-	if out == "" {
-		return nil, "", false, errors.New("--out: no destination given")
-	}
-	return parts, out, quiet, nil
-}
-
-const joinUsage = `usage: quadtrace join PART... --out FILE
-
-Concatenates SEG-Y volumes written by 'quadtrace export --inlines/--crosslines'
-in the order given into one volume. The parts must share sample count,
-interval, start time and sample format; no trace (inline, crossline) may be
-repeated, and none may be missing: when the parts name the volume they were
-cut from, their traces must add up to it, otherwise they must fill a regular
-grid.
-
-options:
-  --out FILE   the joined volume (written to a temporary file, renamed when complete)
-  --quiet      print nothing on success
-`

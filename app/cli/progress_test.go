@@ -1,4 +1,4 @@
-package export
+package cli
 
 import (
 	"bufio"
@@ -6,6 +6,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"quadtrace/app/export"
 )
 
 // Checks: --progress json writes one JSON object per line: the first report
@@ -15,7 +17,7 @@ func TestJSONProgressLines(t *testing.T) {
 	var b strings.Builder
 	r := newReporter(progressJSON, &b, "envelope", 1000)
 	for done := 100; done <= 1000; done += 100 {
-		r.report(Progress{Done: done, Total: 1000, BytesDone: int64(done) * 1000, Elapsed: time.Duration(done) * time.Millisecond})
+		r.report(export.Progress{Done: done, Total: 1000, BytesDone: int64(done) * 1000, Elapsed: time.Duration(done) * time.Millisecond})
 	}
 	r.finish()
 	var lines []progressLine
@@ -52,7 +54,7 @@ func TestJSONProgressLines(t *testing.T) {
 func TestBarQuietOffTerminal(t *testing.T) {
 	var b strings.Builder
 	r := newReporter(progressBar, &b, "envelope", 10)
-	r.report(Progress{Done: 5, Total: 10, Elapsed: time.Second})
+	r.report(export.Progress{Done: 5, Total: 10, Elapsed: time.Second})
 	r.finish()
 	if b.Len() != 0 {
 		t.Errorf("bar wrote %q to a non-terminal", b.String())

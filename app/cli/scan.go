@@ -1,8 +1,8 @@
-// Package batch holds quadtrace's window-free commands that are not the
-// export job: scan, attributes, figure and synth. Each command takes its
-// arguments without the command name, writes results to stdout and errors to
-// stderr, and returns the exit status (0 done, 1 failed, 2 wrong call).
-package batch
+// Package cli holds quadtrace's window-free commands: scan, attributes,
+// export, join, figure and synth. Each command takes its arguments without
+// the command name, writes results to stdout and errors to stderr, and
+// returns the exit status (0 done, 1 failed, 2 wrong call).
+package cli
 
 import (
 	"encoding/json"

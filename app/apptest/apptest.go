@@ -1,10 +1,15 @@
-package export
+// Package apptest holds test helpers shared by the app packages' tests (the
+// export job and the commands): an invented test volume written through the
+// segy writer, file checksums, and readers that check what was written
+// through segy and through Debian's python3-segyio.
+package apptest
 
 import (
 	"crypto/sha256"
 	"encoding/binary"
 	"encoding/hex"
 	"encoding/json"
+	"fmt"
 	"io"
 	"math"
 	"math/rand/v2"
@@ -13,19 +18,20 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"quadtrace/compute"
 	"quadtrace/segy"
 	"quadtrace/segy/segytest"
 )
 
-// python is Debian's interpreter (segytest.Python), called by its full
+// Python is Debian's interpreter (segytest.Python), called by its full
 // path: the outside references (python3-segyio, python3-scipy) are Debian's
 // packages for it.
-const python = segytest.Python
+const Python = segytest.Python
 
-// projectRoot is the repository root, two folders above this package.
-func projectRoot(t testing.TB) string {
+// ProjectRoot is the repository root, two folders above this package.
+func ProjectRoot(t testing.TB) string {
 	t.Helper()
 	root, err := filepath.Abs("../..")
 	if err != nil {
@@ -34,41 +40,41 @@ func projectRoot(t testing.TB) string {
 	return root
 }
 
-// volumeSpec describes an invented test volume: a regular inline-sorted
+// VolumeSpec describes an invented test volume: a regular inline-sorted
 // grid of band-limited traces (a Ricker wavelet convolved with random
 // reflectivity) with CDP coordinates on 12.5 m bins.
-type volumeSpec struct {
-	inlines, crosslines [2]int // first and last
-	samples, intervalUS int
-	startMS             float64
+type VolumeSpec struct {
+	Inlines, Crosslines [2]int // first and last
+	Samples, IntervalUS int
+	StartMS             float64
 }
 
 // traces is the number of traces of the grid.
-func (v volumeSpec) traces() int {
-	return (v.inlines[1] - v.inlines[0] + 1) * (v.crosslines[1] - v.crosslines[0] + 1)
+func (v VolumeSpec) Traces() int {
+	return (v.Inlines[1] - v.Inlines[0] + 1) * (v.Crosslines[1] - v.Crosslines[0] + 1)
 }
 
 // bytes is the file size of the volume in IEEE format.
-func (v volumeSpec) bytes() int64 {
-	return 3600 + int64(v.traces())*int64(240+4*v.samples)
+func (v VolumeSpec) Bytes() int64 {
+	return 3600 + int64(v.Traces())*int64(240+4*v.Samples)
 }
 
-// writeVolume writes the volume to path through the segy writer.
-func writeVolume(t testing.TB, path string, v volumeSpec) {
+// WriteVolume writes the volume to path through the segy writer.
+func WriteVolume(t testing.TB, path string, v VolumeSpec) {
 	t.Helper()
-	w, err := segy.CreateNew(path, segy.NewSpec{Samples: v.samples, IntervalUS: v.intervalUS, StartMS: v.startMS,
+	w, err := segy.CreateNew(path, segy.NewSpec{Samples: v.Samples, IntervalUS: v.IntervalUS, StartMS: v.StartMS,
 		TextHeader: "C 1 INVENTED TEST VOLUME FOR THE QUADTRACE EXPORT TESTS\nC 2 SURVEY: HARROWMERE TEST BLOCK\nC40 END TEXTUAL HEADER"},
 		segy.WriteOptions{Format: 5})
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer w.Abort()
-	bank := traceBank(v.samples, v.intervalUS, 97)
-	tr := make([]float32, v.samples)
-	for il := v.inlines[0]; il <= v.inlines[1]; il++ {
-		for xl := v.crosslines[0]; xl <= v.crosslines[1]; xl++ {
+	bank := TraceBank(v.Samples, v.IntervalUS, 97)
+	tr := make([]float32, v.Samples)
+	for il := v.Inlines[0]; il <= v.Inlines[1]; il++ {
+		for xl := v.Crosslines[0]; xl <= v.Crosslines[1]; xl++ {
 			src := bank[(il*31+xl*7)%len(bank)]
-			gain := float32(1 + 0.01*float64(il-v.inlines[0]) - 0.002*float64(xl-v.crosslines[0]))
+			gain := float32(1 + 0.01*float64(il-v.Inlines[0]) - 0.002*float64(xl-v.Crosslines[0]))
 			for k := range tr {
 				tr[k] = gain * src[k]
 			}
@@ -83,9 +89,9 @@ func writeVolume(t testing.TB, path string, v volumeSpec) {
 	}
 }
 
-// traceBank returns n invented traces: random reflectivity convolved with a
+// TraceBank returns n invented traces: random reflectivity convolved with a
 // 30 Hz Ricker wavelet.
-func traceBank(samples, intervalUS, n int) [][]float32 {
+func TraceBank(samples, intervalUS, n int) [][]float32 {
 	rng := rand.New(rand.NewPCG(7, 11))
 	dt := float64(intervalUS) * 1e-6
 	half := int(0.06/dt) + 1
@@ -118,8 +124,8 @@ func traceBank(samples, intervalUS, n int) [][]float32 {
 	return bank
 }
 
-// fileSum is the SHA-256 of a file, hex.
-func fileSum(t testing.TB, path string) string {
+// FileSum is the SHA-256 of a file, hex.
+func FileSum(t testing.TB, path string) string {
 	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
@@ -133,8 +139,8 @@ func fileSum(t testing.TB, path string) string {
 	return hex.EncodeToString(h.Sum(nil))
 }
 
-// readSection reads every trace of a SEG-Y file through the segy reader.
-func readSection(t testing.TB, path string) (compute.Section, []segy.TraceHeader) {
+// ReadSection reads every trace of a SEG-Y file through the segy reader.
+func ReadSection(t testing.TB, path string) (compute.Section, []segy.TraceHeader) {
 	t.Helper()
 	f, err := segy.Open(path, segy.Options{})
 	if err != nil {
@@ -157,8 +163,8 @@ func readSection(t testing.TB, path string) (compute.Section, []segy.TraceHeader
 	return sec, hs
 }
 
-// segyioDump is what testdata/export/readback.py reports of a file.
-type segyioDump struct {
+// SegyioDump is what testdata/export/readback.py reports of a file.
+type SegyioDump struct {
 	Version    string           `json:"segyio_version"`
 	Samples    int              `json:"samples"`
 	IntervalUS int              `json:"interval_us"`
@@ -170,20 +176,20 @@ type segyioDump struct {
 	Data       [][]float32      `json:"-"`
 }
 
-// readBySegyio reads a SEG-Y file with Debian's python3-segyio through
+// ReadBySegyio reads a SEG-Y file with Debian's python3-segyio through
 // testdata/export/readback.py.
-func readBySegyio(t testing.TB, path string) segyioDump {
+func ReadBySegyio(t testing.TB, path string) SegyioDump {
 	t.Helper()
-	script := filepath.Join(projectRoot(t), "testdata", "export", "readback.py")
+	script := filepath.Join(ProjectRoot(t), "testdata", "export", "readback.py")
 	data := filepath.Join(t.TempDir(), "samples.f32")
-	cmd := exec.Command(python, script, path, data)
+	cmd := exec.Command(Python, script, path, data)
 	var stderr strings.Builder
 	cmd.Stderr = &stderr
 	out, err := cmd.Output()
 	if err != nil {
 		t.Fatalf("segyio could not read %s: %v\n%s", path, err, stderr.String())
 	}
-	var d segyioDump
+	var d SegyioDump
 	if err := json.Unmarshal(out, &d); err != nil {
 		t.Fatalf("readback.py output: %v", err)
 	}
@@ -204,11 +210,11 @@ func readBySegyio(t testing.TB, path string) segyioDump {
 	return d
 }
 
-// traceSampleBytes returns the raw sample bytes of every trace of a
+// TraceSampleBytes returns the raw sample bytes of every trace of a
 // fixed-length SEG-Y file with no extended textual headers (the layout the
 // segy writer writes), located by the byte positions of SEG-Y rev 1 (2002):
 // 3600 bytes of file headers, then per trace 240 header bytes and the samples.
-func traceSampleBytes(t testing.TB, path string, samples int) (headers, data [][]byte) {
+func TraceSampleBytes(t testing.TB, path string, samples int) (headers, data [][]byte) {
 	t.Helper()
 	raw, err := os.ReadFile(path)
 	if err != nil {
@@ -223,4 +229,35 @@ func traceSampleBytes(t testing.TB, path string, samples int) (headers, data [][
 		data = append(data, raw[off+240:off+size])
 	}
 	return headers, data
+}
+
+// BenchVolume returns the path of an invented volume of spec v under
+// $TMPDIR/quadtrace-export-bench, generating it through the segy writer the
+// first time (the writer's atomic rename means a file found there is
+// complete; its size is checked anyway). These files are large and never
+// committed; delete the folder to reclaim the space.
+func BenchVolume(b testing.TB, v VolumeSpec) string {
+	b.Helper()
+	dir := filepath.Join(os.TempDir(), "quadtrace-export-bench")
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		b.Fatal(err)
+	}
+	path := filepath.Join(dir, fmt.Sprintf("harrowmere-%dx%dx%d.sgy", v.Inlines[1]-v.Inlines[0]+1, v.Crosslines[1]-v.Crosslines[0]+1, v.Samples))
+	if st, err := os.Stat(path); err == nil && st.Size() == v.Bytes() {
+		return path
+	}
+	start := time.Now()
+	WriteVolume(b, path, v)
+	b.Logf("generated %s (%.0f MB) in %v", path, float64(v.Bytes())/1e6, time.Since(start).Round(time.Millisecond))
+	return path
+}
+
+// StrayTemps lists the segy writer's temporary files (".NAME.tmp-*") in dir.
+func StrayTemps(t testing.TB, dir string) []string {
+	t.Helper()
+	m, err := filepath.Glob(filepath.Join(dir, ".*.tmp-*"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return m
 }
