@@ -260,12 +260,18 @@ func BenchVolume(b testing.TB, v VolumeSpec) string {
 	return path
 }
 
-// StrayTemps lists the segy writer's temporary files (".NAME.tmp-*") in dir.
+// StrayTemps lists temporary files of ours in dir: app/outfile's named
+// temporaries (".NAME.quadtrace-tmp-*") and the older writer pattern
+// (".NAME.tmp-*").
 func StrayTemps(t testing.TB, dir string) []string {
 	t.Helper()
-	m, err := filepath.Glob(filepath.Join(dir, ".*.tmp-*"))
-	if err != nil {
-		t.Fatal(err)
+	var all []string
+	for _, pat := range []string{".*.tmp-*", ".*.quadtrace-tmp-*", ".*.tmp"} {
+		m, err := filepath.Glob(filepath.Join(dir, pat))
+		if err != nil {
+			t.Fatal(err)
+		}
+		all = append(all, m...)
 	}
-	return m
+	return all
 }

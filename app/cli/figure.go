@@ -135,11 +135,17 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	}
 	var v *volume.Volume
 	var inputs []string
+	if !demo {
+		inputs = []string{file}
+	}
+	outOpt := outfile.Options{Inputs: inputs, FollowSymlink: followLinks}
+	if err := outfile.Check(out, outOpt); err != nil { // refused before any work
+		return fail(1, err)
+	}
 	if demo {
 		v, err = volume.Demo(ctx, synth.DefaultConfig(), nil)
 	} else {
 		v, err = volume.OpenContext(ctx, file, opt)
-		inputs = []string{file}
 	}
 	if ctx.Err() != nil {
 		if v != nil {
@@ -158,7 +164,7 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	if err != nil {
 		return fail(1, err)
 	}
-	if err := figure.WritePNG(ctx, out, img, r.DPI, outfile.Options{Inputs: inputs, FollowSymlink: followLinks}); err != nil {
+	if err := figure.WritePNG(ctx, out, img, r.DPI, outOpt); err != nil {
 		if ctx.Err() != nil {
 			return interrupted()
 		}
