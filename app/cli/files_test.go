@@ -3,7 +3,6 @@ package cli
 import (
 	"bytes"
 	"errors"
-	"encoding/binary"
 	"math/rand/v2"
 	"os"
 	"os/exec"
@@ -183,7 +182,6 @@ func bigSparse(t *testing.T, path string, n int) {
 	if err := fh.Truncate(int64(len(hdr)) + int64(n)*244); err != nil {
 		t.Fatal(err)
 	}
-	_ = binary.BigEndian
 }
 
 // TestSignalsDuringOpen: SIGINT or SIGTERM while export and figure are
