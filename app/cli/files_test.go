@@ -184,7 +184,7 @@ func bigSparse(t *testing.T, path string, n int) {
 	}
 }
 
-// TestSignalsDuringOpen: SIGINT or SIGTERM while export and figure are
+// TestSignalsDuringOpen: SIGINT or SIGTERM while export, figure and scan are
 // still opening a large input (the header scan) ends them promptly with
 // status 130 and nothing written (issue 18: export ignored signals until
 // the input was open; figure ignored Ctrl-C and wrote its PNG).
@@ -201,6 +201,7 @@ func TestSignalsDuringOpen(t *testing.T) {
 		{"export", []string{in, "--attribute", "envelope", "--out", filepath.Join(dir, "e.sgy"), "--progress", "json"}, syscall.SIGTERM},
 		{"figure", []string{in, "--inline", "0", "--out", filepath.Join(dir, "f.png")}, syscall.SIGINT},
 		{"figure", []string{in, "--inline", "0", "--out", filepath.Join(dir, "f.png")}, syscall.SIGTERM},
+		{"scan", []string{in}, syscall.SIGINT},
 	} {
 		t.Run(c.mode+" "+c.sig.String(), func(t *testing.T) {
 			cmd := exec.Command(os.Args[0], c.args...)
