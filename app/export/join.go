@@ -164,23 +164,31 @@ func checkJoinRecords(parts []*joinPart) error {
 	if !a.has {
 		return nil
 	}
-	for k, p := range parts[1:] {
-		r, q := a.rec, p.rec
-		what := ""
+	return eachAgainstFirst(parts, func(first, p *joinPart) string {
+		r, q := first.rec, p.rec
 		switch {
 		case q.attribute != r.attribute:
-			what = fmt.Sprintf("attribute %s, part 1 has %s", q.attribute, r.attribute)
+			return fmt.Sprintf("attribute %s, part 1 has %s", q.attribute, r.attribute)
 		case q.params != r.params:
-			what = fmt.Sprintf("parameters %q, part 1 has %q", q.params, r.params)
+			return fmt.Sprintf("parameters %q, part 1 has %q", q.params, r.params)
 		case q.cond != r.cond:
-			what = fmt.Sprintf("conditioning %q, part 1 has %q", q.cond, r.cond)
+			return fmt.Sprintf("conditioning %q, part 1 has %q", q.cond, r.cond)
 		case q.sourceFile != r.sourceFile:
-			what = fmt.Sprintf("source file %s, part 1 has %s", q.sourceFile, r.sourceFile)
+			return fmt.Sprintf("source file %s, part 1 has %s", q.sourceFile, r.sourceFile)
 		case q.sourceTraces != r.sourceTraces || q.sourceInline != r.sourceInline || q.sourceXline != r.sourceXline:
-			what = fmt.Sprintf("source of %d traces, inlines %s, crosslines %s; part 1 records %d traces, inlines %s, crosslines %s",
+			return fmt.Sprintf("source of %d traces, inlines %s, crosslines %s; part 1 records %d traces, inlines %s, crosslines %s",
 				q.sourceTraces, rangeRecord(q.sourceInline), rangeRecord(q.sourceXline), r.sourceTraces, rangeRecord(r.sourceInline), rangeRecord(r.sourceXline))
 		}
-		if what != "" {
+		return ""
+	})
+}
+
+// eachAgainstFirst compares every part with part 1 through differ (which
+// says what differs, "" for nothing) and returns the first difference as
+// an error naming the part.
+func eachAgainstFirst(parts []*joinPart, differ func(first, p *joinPart) string) error {
+	for k, p := range parts[1:] {
+		if what := differ(parts[0], p); what != "" {
 			return fmt.Errorf("part %d (%s): %s", k+2, p.path, what)
 		}
 	}
@@ -194,24 +202,20 @@ func checkJoinSampling(parts []*joinPart) error {
 	if a.Format != 1 && a.Format != 5 {
 		return fmt.Errorf("part 1 (%s): sample format %d; join writes 1 (IBM) or 5 (IEEE), the formats of the export", parts[0].path, a.Format)
 	}
-	for k, p := range parts[1:] {
-		b := p.info
-		what := ""
+	return eachAgainstFirst(parts, func(first, p *joinPart) string {
+		a, b := first.info, p.info
 		switch {
 		case b.Samples != a.Samples:
-			what = fmt.Sprintf("%d samples per trace, part 1 has %d", b.Samples, a.Samples)
+			return fmt.Sprintf("%d samples per trace, part 1 has %d", b.Samples, a.Samples)
 		case b.IntervalUS != a.IntervalUS:
-			what = fmt.Sprintf("sample interval %d us, part 1 has %d us", b.IntervalUS, a.IntervalUS)
+			return fmt.Sprintf("sample interval %d us, part 1 has %d us", b.IntervalUS, a.IntervalUS)
 		case b.StartMS != a.StartMS:
-			what = fmt.Sprintf("first sample at %g ms, part 1 at %g ms", b.StartMS, a.StartMS)
+			return fmt.Sprintf("first sample at %g ms, part 1 at %g ms", b.StartMS, a.StartMS)
 		case b.Format != a.Format:
-			what = fmt.Sprintf("sample format %d, part 1 has %d", b.Format, a.Format)
+			return fmt.Sprintf("sample format %d, part 1 has %d", b.Format, a.Format)
 		}
-		if what != "" {
-			return fmt.Errorf("part %d (%s): %s", k+2, p.path, what)
-		}
-	}
-	return nil
+		return ""
+	})
 }
 
 // checkJoinRepeats fails on a trace position that occurs twice within a
