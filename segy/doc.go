@@ -56,8 +56,10 @@
 //   - Trace numbers in errors are 0-based indices as in ReadTrace; byte
 //     numbers are 1-based file positions as the standards print them.
 //
-// Writing. Create and CreateNew stream a revision 1, big-endian file in
-// IEEE (format 5, default) or IBM (format 1) floats to a temporary file in
-// the destination folder and rename it into place on Commit; Create refuses
-// to overwrite its own input.
+// Writing. NewWriter (with the headers of a source file) and NewWriterSpec
+// (from scratch) stream a revision 1, big-endian file in IEEE (format 5,
+// default) or IBM (format 1) floats to an io.Writer; revision 2.0 when the
+// source's additional trace headers are carried. segy holds no file-system
+// policy: where the bytes go, temporary files and what may be overwritten
+// are the caller's (quadtrace writes through app/outfile).
 package segy

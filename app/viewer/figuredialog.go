@@ -1,9 +1,11 @@
 package viewer
 
 import (
+	"context"
 	"fmt"
-	"os"
 	"path/filepath"
+	"quadtrace/app/figure"
+	"quadtrace/app/outfile"
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/render"
@@ -138,8 +140,12 @@ func (v *viewer) saveFigure(path, title string, w, h int, dpi float64) {
 		path += ".png"
 	}
 	v.setBusy(v.ui.work, "Saving figure", 0, 0, func() { v.jobs.cancel("figure") })
+	var inputs []string
+	if v.vol != nil && v.vol.Path() != "" {
+		inputs = []string{v.vol.Path()}
+	}
 	v.jobs.start("figure", func(j *job) {
-		err := writeFigure(f, path, dpi)
+		err := writeFigure(j.ctx, f, path, dpi, inputs)
 		v.onUI(j, func() {
 			v.setIdle(v.ui.work)
 			if err != nil {
@@ -151,24 +157,14 @@ func (v *viewer) saveFigure(path, title string, w, h int, dpi float64) {
 	})
 }
 
-// writeFigure draws f and writes it as PNG at dpi, replacing path only when
-// the whole file is written.
-func writeFigure(f render.Figure, path string, dpi float64) error {
+// writeFigure draws f and writes it as PNG at dpi through app/outfile
+// (figure.WritePNG): path is replaced only when the whole file is
+// written, and never when it is a device, FIFO, folder, symbolic link or
+// one of inputs.
+func writeFigure(ctx context.Context, f render.Figure, path string, dpi float64, inputs []string) error {
 	img, err := f.Draw()
 	if err != nil {
 		return fmt.Errorf("figure: %w", err)
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("figure: %w", err)
-	}
-	defer os.Remove(tmp.Name())
-	if err := render.EncodePNG(tmp, img, dpi); err != nil {
-		tmp.Close()
-		return fmt.Errorf("figure %s: %w", path, err)
-	}
-	if err := tmp.Close(); err != nil {
-		return fmt.Errorf("figure %s: %w", path, err)
-	}
-	return os.Rename(tmp.Name(), path)
+	return figure.WritePNG(ctx, path, img, dpi, outfile.Options{Inputs: inputs})
 }
