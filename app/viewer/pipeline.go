@@ -115,14 +115,14 @@ func (v *viewer) requestData() {
 		v.requestRender()
 		return
 	}
-	have, vol, cached := v.data, v.vol, v.cache.snapshot()
+	have, cached := v.data, v.cache.snapshot()
 	cancel := func() {
 		v.jobs.cancel("data")
 		v.setIdle(v.ui.work)
 		v.backToShown()
 	}
 	v.setBusy(v.ui.work, "Reading "+strings.ToLower(v.state.title(v.info)), 0, 0, cancel)
-	v.jobs.start("data", func(j *job) {
+	v.startWithSurvey("data", func(j *job, vol survey) {
 		var thr progressThrottle
 		progress := func(label string) func(done, total int) {
 			return func(done, total int) {

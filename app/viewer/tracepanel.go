@@ -60,7 +60,6 @@ func (v *viewer) requestTrace() {
 	}
 	st := v.state
 	pl := d.plan // the layers of the shown data, not those requested
-	vol := v.vol
 	tw, th := v.ui.trace.plotPixels()
 	sw, sh := v.ui.spectrum.plotPixels()
 	fg := toRGBA(theme.Color(theme.ColorNameForeground))
@@ -73,7 +72,7 @@ func (v *viewer) requestTrace() {
 	baseParams, overParams, cond := d.baseParams, d.overParams, d.cond
 	nx, ny := v.dims()
 	vp := st.viewport(nx, ny)
-	v.jobs.start("trace", func(j *job) {
+	v.startWithSurvey("trace", func(j *job, vol survey) {
 		pic := tracePicture{fg: fg, grid: grid, markSample: math.NaN()}
 		pic.fill = fg
 		pic.fill.A = 150

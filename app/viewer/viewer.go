@@ -14,6 +14,7 @@ import (
 	"fmt"
 	"image"
 	"path/filepath"
+	"time"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/app"
@@ -45,9 +46,7 @@ func Run(opt Options) error {
 	v.start()
 	v.win.ShowAndRun()
 	v.jobs.close()
-	if v.vol != nil {
-		v.vol.Close()
-	}
+	v.closeSurveyNow(5 * time.Second)
 	return v.exitErr
 }
 
@@ -116,9 +115,11 @@ type viewer struct {
 
 	ui *widgets
 
+	holds surveyHolds // the jobs reading each survey
+
 	// wantPick is the trace to pick in the next data shown (set by a change
 	// of view); history and histPos are the Back/Forward history.
-	wantPick *pickKeys
+	wantPick    *pickKeys
 	history     []historyEntry
 	histPos     int
 	histPending int // the entry a Back/Forward is going to; -1: none
@@ -218,10 +219,7 @@ func (v *viewer) startOpen(what string, open func(context.Context, func(int, int
 
 // setSurvey shows a newly opened survey from its middle inline.
 func (v *viewer) setSurvey(vol survey) {
-	if v.vol != nil {
-		v.jobs.cancel("data")
-		v.vol.Close()
-	}
+	v.closeSurvey(v.vol)
 	v.vol = vol
 	v.info = vol.Info()
 	v.data = shown{}
