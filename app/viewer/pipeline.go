@@ -234,11 +234,10 @@ func (v *viewer) requestRender() {
 	v.jobs.start("render", func(j *job) {
 		res := renderSection(req, basePal, ovPal)
 		v.onUI(j, func() {
-			if len(v.ranges) > 256 { // keep the ranges of recent sections only
-				v.ranges = map[string][2]float32{}
-			}
 			for k, r := range res.newRanges {
-				v.ranges[k] = r
+				if _, ok := v.ranges[k]; !ok { // the first range found is kept
+					v.ranges[k] = r
+				}
 			}
 			v.lastSection = res.img
 			v.ui.section.setImage(res.img, res.vp, res.axes, res.aspect)

@@ -108,7 +108,7 @@ type viewer struct {
 	// of what the picture shows; a cancelled request goes back to them.
 	shownState viewState
 	cache      *sectionCache
-	ranges     map[string][2]float32 // display ranges by section key and clip
+	ranges     map[string][2]float32 // colour ranges by rangeKey (see ranges.go)
 
 	// What the window currently shows, kept for tests and the snapshot.
 	lastSection   *image.RGBA
