@@ -1,0 +1,101 @@
+package horizon_test
+
+import (
+	"context"
+	"math"
+	"sync"
+	"testing"
+
+	"quadtrace/compute/horizon"
+	"quadtrace/compute/synth"
+)
+
+// demos caches generated demo surveys by configuration for the tests of
+// this package (generation takes a few seconds).
+var demos sync.Map // synth.Config -> func() (*synth.Survey, error)
+
+// demo returns the demo survey for cfg, generated once per test binary.
+func demo(t testing.TB, cfg synth.Config) *synth.Survey {
+	t.Helper()
+	f, _ := demos.LoadOrStore(cfg, sync.OnceValues(func() (*synth.Survey, error) {
+		return synth.Generate(context.Background(), cfg, nil)
+	}))
+	s, err := f.(func() (*synth.Survey, error))()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+// source returns the survey's traces as a horizon.Source.
+func source(t testing.TB, s *synth.Survey) *horizon.Traces {
+	t.Helper()
+	src, err := horizon.NewTraces(s.Traces, s.Config.Inlines, s.Config.Crosslines, s.IntervalMS()/1000, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return src
+}
+
+// surface returns the named modelled surface of s.
+func surface(t testing.TB, s *synth.Survey, name string) synth.Surface {
+	t.Helper()
+	f, ok := s.Surface(name)
+	if !ok {
+		t.Fatalf("the demo survey has no surface %q", name)
+	}
+	return f
+}
+
+// eventOf returns the event a surface's reflection shows as: a peak for a
+// positive reflection coefficient (zero-phase wavelet, SEG normal
+// polarity: common practice), a trough for a negative one.
+func eventOf(f synth.Surface) horizon.Event {
+	if f.R > 0 {
+		return horizon.Peak
+	}
+	return horizon.Trough
+}
+
+// comparison counts how a horizon matches a modelled surface.
+type comparison struct {
+	exists  int     // traces where the surface exists
+	within  int     // tracked within tol of the true time
+	off     int     // tracked, more than tol off
+	jumped  int     // tracked more than jump off
+	strayed int     // tracked where the surface does not exist
+	worst   float64 // largest |pick - true| on tracked traces, ms
+	worstIL int
+	worstXL int
+}
+
+func compare(h *horizon.Horizon, f synth.Surface, tol, jump float64) comparison {
+	var c comparison
+	for k, st := range h.State {
+		want := float64(f.PeakMS[k])
+		if math.IsNaN(want) {
+			if st != horizon.Empty {
+				c.strayed++
+			}
+			continue
+		}
+		c.exists++
+		if st == horizon.Empty {
+			continue
+		}
+		d := math.Abs(h.TimeMS[k] - want)
+		if d > c.worst {
+			c.worst, c.worstIL, c.worstXL = d, k/h.Crosslines, k%h.Crosslines
+		}
+		switch {
+		case d <= tol:
+			c.within++
+		case d > jump:
+			c.jumped++
+			c.off++
+		default:
+			c.off++
+		}
+	}
+	return c
+}

@@ -1,0 +1,612 @@
+package horizon
+
+import (
+	"container/heap"
+	"context"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"quadtrace/compute"
+)
+
+// Seed is a starting point of a horizon: a grid index and a time near the
+// event to follow.
+type Seed struct {
+	Inline, Crossline int     // grid indices from 0
+	TimeMS            float64 // two-way time, ms
+}
+
+// Options set the event, the search and the constraints of Track.
+type Options struct {
+	// Event is the wavelet phase to follow.
+	Event Event
+	// WindowMS is the search half-window: on each new trace the event is
+	// looked for within ±WindowMS of the time on the neighbour it grows
+	// from (and of the seed time at seeds). Must be positive.
+	WindowMS float64
+	// MaxPhaseJumpDeg, when positive, is the largest difference (degrees,
+	// wrapped to -180..180) allowed between the instantaneous phase at the
+	// pick and at the neighbour's pick.
+	MaxPhaseJumpDeg float64
+	// MinEnvelope, when positive, is the smallest envelope allowed at the
+	// pick as a fraction of the local level: the mean envelope at the picks
+	// of the traces already tracked within LevelRadius traces (inline and
+	// crossline) of the new one.
+	MinEnvelope float64
+	// LevelRadius is the half-size in traces of the square over which the
+	// local envelope level is taken; 0 means 2.
+	LevelRadius int
+	// MinCorrelation is the smallest correlation coefficient (-1..1)
+	// allowed between the trace's waveform around the pick and the
+	// neighbour's around its pick, over CorrelationMS. -1 accepts every
+	// pick.
+	MinCorrelation float64
+	// CorrelationMS is the length of the correlation window centred on
+	// the picks; 0 means 24 ms.
+	CorrelationMS float64
+}
+
+// Defaults used when the Options fields are zero.
+const (
+	DefaultLevelRadius   = 2
+	DefaultCorrelationMS = 24.0
+	// analyticSpanMS and analyticMinSpan set the length of the stretch of
+	// trace, centred on a pick, whose analytic trace gives the envelope and
+	// phase there (see Track): at least this many ms and samples, rounded
+	// up to a power of two samples; its ends are tapered over an eighth of
+	// its length.
+	analyticSpanMS  = 128.0
+	analyticMinSpan = 64
+	// batch is how many candidates are accepted from the queue before
+	// their neighbours are evaluated (in parallel).
+	batch = 64
+)
+
+// validate checks the options and fills in the defaults.
+func (o Options) resolved(g Grid) (Options, error) {
+	if !o.Event.valid() {
+		return o, fmt.Errorf("tracking: no event chosen (want %v)", Events())
+	}
+	if !(o.WindowMS > 0) || math.IsInf(o.WindowMS, 0) {
+		return o, fmt.Errorf("tracking: search window %v ms: want a positive number of ms", o.WindowMS)
+	}
+	if o.WindowMS < g.dtMS()/2 {
+		return o, fmt.Errorf("tracking: search window %v ms is less than half the %v ms sample interval", o.WindowMS, g.dtMS())
+	}
+	if math.IsNaN(o.MaxPhaseJumpDeg) || o.MaxPhaseJumpDeg < 0 {
+		return o, fmt.Errorf("tracking: maximum phase jump %v degrees: want 0 (off) or more", o.MaxPhaseJumpDeg)
+	}
+	if math.IsNaN(o.MinEnvelope) || o.MinEnvelope < 0 || math.IsInf(o.MinEnvelope, 0) {
+		return o, fmt.Errorf("tracking: minimum envelope fraction %v: want 0 (off) or more", o.MinEnvelope)
+	}
+	if !(o.MinCorrelation >= -1 && o.MinCorrelation <= 1) {
+		return o, fmt.Errorf("tracking: minimum correlation %v: want -1 to 1", o.MinCorrelation)
+	}
+	if o.LevelRadius < 0 {
+		return o, fmt.Errorf("tracking: level radius %d traces is negative", o.LevelRadius)
+	}
+	if o.LevelRadius == 0 {
+		o.LevelRadius = DefaultLevelRadius
+	}
+	if math.IsNaN(o.CorrelationMS) || o.CorrelationMS < 0 || math.IsInf(o.CorrelationMS, 0) {
+		return o, fmt.Errorf("tracking: correlation window %v ms: want a positive length", o.CorrelationMS)
+	}
+	if o.CorrelationMS == 0 {
+		o.CorrelationMS = DefaultCorrelationMS
+	}
+	return o, nil
+}
+
+// pick is what the tracker keeps of a tracked trace beyond its time.
+type pick struct {
+	sample float64 // fractional sample of the pick
+	env    float32 // envelope at the pick (when the constraints need it)
+	phase  float32 // instantaneous phase at the pick, radians
+}
+
+// candidate is a pick proposed for trace k from its tracked neighbour from.
+type candidate struct {
+	k, from int32
+	pick
+	corr  float32
+	start int32 // first sample of the analytic stretch
+}
+
+// candidates is a max-queue on correlation; ties go to the lower trace
+// index, then the lower neighbour index, so the order never depends on
+// timing.
+type candidates []candidate
+
+func (q candidates) Len() int { return len(q) }
+func (q candidates) Less(i, j int) bool {
+	a, b := q[i], q[j]
+	if a.corr != b.corr {
+		return a.corr > b.corr
+	}
+	if a.k != b.k {
+		return a.k < b.k
+	}
+	return a.from < b.from
+}
+func (q candidates) Swap(i, j int) { q[i], q[j] = q[j], q[i] }
+func (q *candidates) Push(x any)   { *q = append(*q, x.(candidate)) }
+func (q *candidates) Pop() any {
+	old := *q
+	c := old[len(old)-1]
+	*q = old[:len(old)-1]
+	return c
+}
+
+// tracker holds one Track run's state.
+type tracker struct {
+	src   Source
+	g     Grid
+	opt   Options
+	h     *Horizon
+	picks []pick
+	// needAnalytic: a constraint uses envelope or phase.
+	needAnalytic bool
+	halfWin      float64 // search half-window, samples
+	halfCorr     int     // correlation half-window, samples
+	span         int     // analytic stretch length, samples
+	end          compute.EndTreatment
+	stretches    []float32 // copies of the stretches for the analytic trace
+	// memo holds, per trace, the last pick whose envelope and phase were
+	// computed (sample NaN when none).
+	memo []pick
+}
+
+// worker holds one goroutine's buffers.
+type worker struct {
+	a, b   []float32
+	events []float64
+}
+
+// Track grows a horizon on src from the seeds and returns it.
+//
+// Each seed is snapped to the event nearest its time within ±WindowMS;
+// a seed with no such event is an error. From every picked trace the
+// tracker proposes picks on its four grid neighbours: among the events
+// within ±WindowMS of the picked time it takes the one whose waveform
+// correlates best with the picked trace's (Pearson's correlation over
+// CorrelationMS, windows centred on the nearest samples to the picks),
+// and keeps it when the correlation, phase and envelope constraints hold.
+// The proposals wait in a priority queue ordered by that correlation, so
+// the horizon spreads through the most coherent parts first and reaches
+// doubtful traces last, from whichever side fits best. It takes
+// proposals in batches of 64 and evaluates the neighbours of a batch on
+// runtime.GOMAXPROCS(0) workers; the result does not depend on the number
+// of workers.
+//
+// Envelope and phase come from compute's analytic trace (Marple's discrete
+// analytic signal, through compute.Instantaneous) of a stretch of the
+// trace centred on the pick, 128 ms or 64 samples long whichever is more,
+// with cosine tapers over an eighth of it at its ends:
+// the Hilbert transform's kernel falls off as 1/t, so a stretch several
+// wavelets long gives the phase at its centre to within a few degrees of
+// the whole trace's (TestAnalyticStretchMatchesWholeTrace) at a small
+// fraction of the cost. They are computed only when a constraint uses
+// them.
+//
+// progress (may be nil) is called from the calling goroutine with the
+// number of traces picked so far and the number in the grid, and once at
+// the end with both equal. Cancelling ctx stops the run with ctx.Err().
+func Track(ctx context.Context, src Source, seeds []Seed, opt Options, progress func(done, total int)) (*Horizon, error) {
+	g := src.Grid()
+	if err := g.validate(); err != nil {
+		return nil, fmt.Errorf("tracking: %w", err)
+	}
+	opt, err := opt.resolved(g)
+	if err != nil {
+		return nil, err
+	}
+	if len(seeds) == 0 {
+		return nil, fmt.Errorf("tracking: no seed points")
+	}
+	t := &tracker{
+		src: src, g: g, opt: opt, h: New(g.Inlines, g.Crosslines),
+		picks:        make([]pick, g.Inlines*g.Crosslines),
+		needAnalytic: opt.MaxPhaseJumpDeg > 0 || opt.MinEnvelope > 0,
+		halfWin:      opt.WindowMS / g.dtMS(),
+		halfCorr:     max(1, int(math.Round(opt.CorrelationMS/g.dtMS()/2))),
+	}
+	t.setSpan()
+	if t.needAnalytic {
+		t.memo = make([]pick, len(t.picks))
+		for k := range t.memo {
+			t.memo[k].sample = math.NaN()
+		}
+	}
+	if err := t.seed(seeds); err != nil {
+		return nil, err
+	}
+	if err := t.grow(ctx, progress); err != nil {
+		return nil, err
+	}
+	return t.h, nil
+}
+
+// setSpan sets the length and end treatment of the analytic stretches.
+func (t *tracker) setSpan() {
+	t.span = min(t.g.Samples, compute.NextPow2(max(analyticMinSpan, int(math.Ceil(analyticSpanMS/t.g.dtMS())))))
+	t.end = compute.EndTreatment{Pad: compute.PadFast, TaperMS: float64(t.span) * t.g.dtMS() / 8}
+}
+
+// seed picks the seed traces.
+func (t *tracker) seed(seeds []Seed) error {
+	w := t.newWorker()
+	for i, s := range seeds {
+		if s.Inline < 0 || s.Inline >= t.g.Inlines || s.Crossline < 0 || s.Crossline >= t.g.Crosslines {
+			return fmt.Errorf("tracking: seed %d at grid index (%d, %d): outside the %d x %d grid", i+1, s.Inline, s.Crossline, t.g.Inlines, t.g.Crosslines)
+		}
+		k := s.Inline*t.g.Crosslines + s.Crossline
+		if t.h.State[k] != Empty {
+			return fmt.Errorf("tracking: seed %d at grid index (%d, %d): a seed on that trace already", i+1, s.Inline, s.Crossline)
+		}
+		a, err := t.src.Trace(s.Inline, s.Crossline, w.a)
+		if err != nil {
+			return fmt.Errorf("tracking: seed %d: %w", i+1, err)
+		}
+		at := t.g.sampleAt(s.TimeMS)
+		w.events = t.opt.Event.Locate(a, at-t.halfWin, at+t.halfWin, w.events[:0])
+		best := math.NaN()
+		for _, x := range w.events {
+			if !(math.Abs(x-at) >= math.Abs(best-at)) {
+				best = x
+			}
+		}
+		if math.IsNaN(best) {
+			return fmt.Errorf("tracking: seed %d at grid index (%d, %d): no %v within %g ms of %g ms", i+1, s.Inline, s.Crossline, t.opt.Event, t.opt.WindowMS, s.TimeMS)
+		}
+		p := pick{sample: best}
+		if t.needAnalytic {
+			start := t.stretchStart(best)
+			set, err := compute.Instantaneous(context.Background(), compute.Section{Traces: [][]float32{a[start : start+t.span]}, DT: t.g.DT}, t.end, nil)
+			if err != nil {
+				return fmt.Errorf("tracking: seed %d: %w", i+1, err)
+			}
+			p.env, p.phase = analyticAt(set, 0, best-float64(start))
+		}
+		t.picks[k] = p
+		t.h.set(k, t.g.msAt(best), 1, Seeded)
+	}
+	return nil
+}
+
+func (t *tracker) newWorker() *worker {
+	return &worker{a: make([]float32, t.g.Samples), b: make([]float32, t.g.Samples)}
+}
+
+// pair is a trace to evaluate and the picked neighbour it grows from.
+type pair struct{ k, from int32 }
+
+// grow runs the best-first flood from the picked traces.
+func (t *tracker) grow(ctx context.Context, progress func(done, total int)) error {
+	total := len(t.picks)
+	var pending []pair
+	picked := 0
+	for k, s := range t.h.State {
+		if s != Empty {
+			picked++
+			pending = t.neighbours(pending, k)
+		}
+	}
+	workers := runtime.GOMAXPROCS(0)
+	ws := make([]*worker, workers)
+	for i := range ws {
+		ws[i] = t.newWorker()
+	}
+	var queue candidates
+	results := make([]candidate, 0, 4*batch)
+	ok := make([]bool, 0, 4*batch)
+	accepted := make([]int32, 0, batch)
+	var taken, deferred []candidate
+	inBatch := make([]bool, total)
+	step := max(1, total/200)
+	reported := 0
+	for len(pending) > 0 || len(queue) > 0 {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		results, ok = results[:len(pending)], ok[:len(pending)]
+		if err := t.evaluate(ws, pending, results, ok); err != nil {
+			return fmt.Errorf("tracking: %w", err)
+		}
+		for i, c := range results {
+			if ok[i] {
+				heap.Push(&queue, c)
+			}
+		}
+		// Take the best candidates of distinct empty traces; the others
+		// of the same traces go back once the batch is settled.
+		taken, deferred = taken[:0], deferred[:0]
+		for len(taken) < batch && len(queue) > 0 {
+			c := heap.Pop(&queue).(candidate)
+			switch {
+			case t.h.State[c.k] != Empty:
+			case inBatch[c.k]:
+				deferred = append(deferred, c)
+			default:
+				inBatch[c.k] = true
+				taken = append(taken, c)
+			}
+		}
+		if t.needAnalytic {
+			if err := t.analytic(ctx, ws[0], taken); err != nil {
+				return fmt.Errorf("tracking: %w", err)
+			}
+		}
+		accepted = accepted[:0]
+		for i := range taken {
+			c := &taken[i]
+			inBatch[c.k] = false
+			if t.needAnalytic && !t.constraints(c) {
+				continue
+			}
+			t.picks[c.k] = c.pick
+			t.h.set(int(c.k), t.g.msAt(c.sample), c.corr, Tracked)
+			accepted = append(accepted, c.k)
+		}
+		for _, c := range deferred {
+			if t.h.State[c.k] == Empty {
+				heap.Push(&queue, c)
+			}
+		}
+		picked += len(accepted)
+		// Neighbours are listed after the whole batch is in, so a trace
+		// picked in this batch is not proposed again.
+		pending = pending[:0]
+		for _, k := range accepted {
+			pending = t.neighbours(pending, int(k))
+		}
+		if progress != nil && picked-reported >= step {
+			reported = picked
+			progress(picked, total)
+		}
+	}
+	if progress != nil {
+		progress(total, total)
+	}
+	return nil
+}
+
+// neighbours appends the empty grid neighbours of trace k, paired with k.
+func (t *tracker) neighbours(dst []pair, k int) []pair {
+	nx := t.g.Crosslines
+	il, xl := k/nx, k%nx
+	add := func(n int) {
+		if t.h.State[n] == Empty {
+			dst = append(dst, pair{int32(n), int32(k)})
+		}
+	}
+	if il > 0 {
+		add(k - nx)
+	}
+	if il < t.g.Inlines-1 {
+		add(k + nx)
+	}
+	if xl > 0 {
+		add(k - 1)
+	}
+	if xl < nx-1 {
+		add(k + 1)
+	}
+	return dst
+}
+
+// evaluate proposes a pick for every pair (the event and its correlation
+// with the neighbour), on the workers when there are enough pairs to
+// share. ok[i] says whether pairs[i] passed the correlation constraint.
+func (t *tracker) evaluate(ws []*worker, pairs []pair, out []candidate, ok []bool) error {
+	propose := func(w *worker, i int) error {
+		var err error
+		out[i], ok[i], err = t.propose(w, pairs[i])
+		return err
+	}
+	if len(ws) == 1 || len(pairs) < 8 {
+		for i := range pairs {
+			if err := propose(ws[0], i); err != nil {
+				return err
+			}
+		}
+		return nil
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	var mu sync.Mutex
+	var firstErr error
+	for _, w := range ws {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= len(pairs) {
+					return
+				}
+				if err := propose(w, i); err != nil {
+					mu.Lock()
+					if firstErr == nil {
+						firstErr = err
+					}
+					mu.Unlock()
+					return
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	return firstErr
+}
+
+// analytic fills in the envelope and phase of the candidates, from the
+// analytic trace of a stretch of each trace around its pick, computed for
+// all of them as one section through compute.Instantaneous (which shares
+// its FFT plans across the stretches and runs on all cores). A trace whose
+// envelope and phase were computed before at the same pick reuses them.
+func (t *tracker) analytic(ctx context.Context, w *worker, cs []candidate) error {
+	sec := compute.Section{DT: t.g.DT}
+	if cap(t.stretches) < len(cs)*t.span {
+		t.stretches = make([]float32, len(cs)*t.span)
+	}
+	var idx []int
+	nx := t.g.Crosslines
+	for i := range cs {
+		c := &cs[i]
+		if m := t.memo[c.k]; m.sample == c.sample {
+			c.env, c.phase = m.env, m.phase
+			continue
+		}
+		a, err := t.src.Trace(int(c.k)/nx, int(c.k)%nx, w.a)
+		if err != nil {
+			return err
+		}
+		n := len(idx)
+		stretch := t.stretches[n*t.span : (n+1)*t.span : (n+1)*t.span]
+		c.start = int32(t.stretchStart(c.sample))
+		copy(stretch, a[c.start:])
+		sec.Traces = append(sec.Traces, stretch)
+		idx = append(idx, i)
+	}
+	if len(idx) == 0 {
+		return nil
+	}
+	set, err := compute.Instantaneous(ctx, sec, t.end, nil)
+	if err != nil {
+		return err
+	}
+	for n, i := range idx {
+		c := &cs[i]
+		c.env, c.phase = analyticAt(set, n, c.sample-float64(c.start))
+		t.memo[c.k] = c.pick
+	}
+	return nil
+}
+
+// propose evaluates trace p.k from its picked neighbour p.from: the event
+// within the search window that correlates best with the neighbour, and
+// whether it passes the correlation constraint.
+func (t *tracker) propose(w *worker, p pair) (candidate, bool, error) {
+	nx := t.g.Crosslines
+	k, from := int(p.k), int(p.from)
+	a, err := t.src.Trace(k/nx, k%nx, w.a)
+	if err != nil {
+		return candidate{}, false, err
+	}
+	ref, err := t.src.Trace(from/nx, from%nx, w.b)
+	if err != nil {
+		return candidate{}, false, err
+	}
+	fp := t.picks[from]
+	w.events = t.opt.Event.Locate(a, fp.sample-t.halfWin, fp.sample+t.halfWin, w.events[:0])
+	if len(w.events) == 0 {
+		return candidate{}, false, nil
+	}
+	rc := int(math.Round(fp.sample))
+	best, bestCorr := math.NaN(), math.Inf(-1)
+	for _, x := range w.events {
+		c := correlation(ref, rc, a, int(math.Round(x)), t.halfCorr)
+		if c > bestCorr || (c == bestCorr && math.Abs(x-fp.sample) < math.Abs(best-fp.sample)) {
+			best, bestCorr = x, c
+		}
+	}
+	if !(bestCorr >= t.opt.MinCorrelation) {
+		return candidate{}, false, nil
+	}
+	return candidate{k: p.k, from: p.from, pick: pick{sample: best}, corr: float32(bestCorr)}, true, nil
+}
+
+// stretchStart returns the first sample of the analytic stretch around
+// fractional sample x.
+func (t *tracker) stretchStart(x float64) int {
+	return min(max(0, int(math.Floor(x))-t.span/2), t.g.Samples-t.span)
+}
+
+// constraints reports whether a candidate with its envelope and phase set
+// passes the phase and envelope constraints.
+func (t *tracker) constraints(c *candidate) bool {
+	if t.opt.MaxPhaseJumpDeg > 0 {
+		fp := t.picks[c.from]
+		d := math.Remainder(float64(c.phase)-float64(fp.phase), 2*math.Pi) * 180 / math.Pi
+		if !(math.Abs(d) <= t.opt.MaxPhaseJumpDeg) {
+			return false
+		}
+	}
+	return !(t.opt.MinEnvelope > 0) || float64(c.env) >= t.opt.MinEnvelope*t.level(int(c.k))
+}
+
+// level returns the mean envelope at the picks of the picked traces within
+// LevelRadius of trace k (at least the neighbour it grows from is picked).
+func (t *tracker) level(k int) float64 {
+	nx, r := t.g.Crosslines, t.opt.LevelRadius
+	il, xl := k/nx, k%nx
+	sum, n := 0.0, 0
+	for i := max(0, il-r); i <= min(t.g.Inlines-1, il+r); i++ {
+		for j := max(0, xl-r); j <= min(nx-1, xl+r); j++ {
+			q := i*nx + j
+			if t.h.State[q] != Empty {
+				sum += float64(t.picks[q].env)
+				n++
+			}
+		}
+	}
+	if n == 0 {
+		return 0
+	}
+	return sum / float64(n)
+}
+
+// correlation returns Pearson's correlation coefficient between a's
+// samples around ca and b's around cb, half samples either side, cut
+// short equally on both where a trace ends. It returns -1 when either
+// window is flat or holds a gap.
+func correlation(a []float32, ca int, b []float32, cb, half int) float64 {
+	lo := min(half, ca, cb)
+	hi := min(half, len(a)-1-ca, len(b)-1-cb)
+	if lo < 0 || hi < 0 || lo+hi < 2 {
+		return -1
+	}
+	wa, wb := a[ca-lo:ca+hi+1], b[cb-lo:cb+hi+1]
+	wb = wb[:len(wa)]
+	var sa, sb float64
+	for i, x := range wa {
+		sa += float64(x)
+		sb += float64(wb[i])
+	}
+	n := float64(len(wa))
+	ma, mb := sa/n, sb/n
+	var sab, saa, sbb float64
+	for i, x := range wa {
+		da, db := float64(x)-ma, float64(wb[i])-mb
+		sab += da * db
+		saa += da * da
+		sbb += db * db
+	}
+	r := sab / math.Sqrt(saa*sbb)
+	if math.IsNaN(r) {
+		return -1
+	}
+	return r
+}
+
+// analyticAt returns the envelope and the instantaneous phase (radians)
+// of trace n of set at fractional sample x, interpolating the amplitude
+// and its quadrature (envelope times cosine and sine of phase) linearly
+// between the samples either side.
+func analyticAt(set compute.InstantaneousSet, n int, x float64) (env, phase float32) {
+	a, ph := set.Envelope.Traces[n], set.Phase.Traces[n]
+	i0 := int(math.Floor(x))
+	f := x - float64(i0)
+	z := func(j int) complex128 {
+		return cmplx.Rect(float64(a[j]), float64(ph[j])*math.Pi/180)
+	}
+	v := z(i0)
+	if i0+1 < len(a) {
+		v = complex(1-f, 0)*v + complex(f, 0)*z(i0+1)
+	}
+	return float32(cmplx.Abs(v)), float32(cmplx.Phase(v))
+}
