@@ -59,17 +59,20 @@ func eventOf(f synth.Surface) horizon.Event {
 
 // comparison counts how a horizon matches a modelled surface.
 type comparison struct {
-	exists  int     // traces where the surface exists
-	within  int     // tracked within tol of the true time
-	off     int     // tracked, more than tol off
-	jumped  int     // tracked more than jump off
-	strayed int     // tracked where the surface does not exist
-	worst   float64 // largest |pick - true| on tracked traces, ms
+	exists  int     // traces counted (where the surface exists, and in the mask)
+	within  int     // of those, picked within tol of the true time
+	off     int     // picked, more than tol off
+	jumped  int     // picked more than jump off
+	strayed int     // picked where the surface does not exist
+	worst   float64 // largest |pick - true| on counted traces, ms
 	worstIL int
 	worstXL int
 }
 
-func compare(h *horizon.Horizon, f synth.Surface, tol, jump float64) comparison {
+// compare compares a horizon with the peak times of a modelled surface on
+// the traces where mask is true (all when mask is nil); picks where the
+// surface does not exist count as strayed wherever they are.
+func compare(h *horizon.Horizon, f synth.Surface, mask []bool, tol, jump float64) comparison {
 	var c comparison
 	for k, st := range h.State {
 		want := float64(f.PeakMS[k])
@@ -77,6 +80,9 @@ func compare(h *horizon.Horizon, f synth.Surface, tol, jump float64) comparison 
 			if st != horizon.Empty {
 				c.strayed++
 			}
+			continue
+		}
+		if mask != nil && !mask[k] {
 			continue
 		}
 		c.exists++

@@ -25,8 +25,11 @@ type Options struct {
 	// Event is the wavelet phase to follow.
 	Event Event
 	// WindowMS is the search half-window: on each new trace the event is
-	// looked for within ±WindowMS of the time on the neighbour it grows
-	// from (and of the seed time at seeds). Must be positive.
+	// looked for within ±WindowMS of the time predicted from the neighbour
+	// it grows from (and of the seed time at seeds). The prediction is the
+	// neighbour's time plus the local dip: the step in time from the trace
+	// behind the neighbour (in line with the new trace) to the neighbour,
+	// when that trace is picked. Must be positive.
 	WindowMS float64
 	// MaxPhaseJumpDeg, when positive, is the largest difference (degrees,
 	// wrapped to -180..180) allowed between the instantaneous phase at the
@@ -171,7 +174,7 @@ type worker struct {
 // Each seed is snapped to the event nearest its time within ±WindowMS;
 // a seed with no such event is an error. From every picked trace the
 // tracker proposes picks on its four grid neighbours: among the events
-// within ±WindowMS of the picked time it takes the one whose waveform
+// within ±WindowMS of the predicted time (see Options.WindowMS) it takes the one whose waveform
 // correlates best with the picked trace's (Pearson's correlation over
 // CorrelationMS, windows centred on the nearest samples to the picks),
 // and keeps it when the correlation, phase and envelope constraints hold.
@@ -502,22 +505,55 @@ func (t *tracker) propose(w *worker, p pair) (candidate, bool, error) {
 		return candidate{}, false, err
 	}
 	fp := t.picks[from]
-	w.events = t.opt.Event.Locate(a, fp.sample-t.halfWin, fp.sample+t.halfWin, w.events[:0])
+	pred := fp.sample
+	if b := t.behind(k, from); b >= 0 && t.h.State[b] != Empty {
+		pred += fp.sample - t.picks[b].sample
+	}
+	w.events = t.opt.Event.Locate(a, pred-t.halfWin, pred+t.halfWin, w.events[:0])
 	if len(w.events) == 0 {
 		return candidate{}, false, nil
 	}
 	rc := int(math.Round(fp.sample))
 	best, bestCorr := math.NaN(), math.Inf(-1)
 	for _, x := range w.events {
-		c := correlation(ref, rc, a, int(math.Round(x)), t.halfCorr)
-		if c > bestCorr || (c == bestCorr && math.Abs(x-fp.sample) < math.Abs(best-fp.sample)) {
+		c := correlation(ref, rc, a, x+float64(rc)-fp.sample, t.halfCorr)
+		if c > bestCorr || (c == bestCorr && math.Abs(x-pred) < math.Abs(best-pred)) {
 			best, bestCorr = x, c
 		}
 	}
 	if !(bestCorr >= t.opt.MinCorrelation) {
 		return candidate{}, false, nil
 	}
+	if !t.fitsNeighbours(k, best) {
+		return candidate{}, false, nil
+	}
 	return candidate{k: p.k, from: p.from, pick: pick{sample: best}, corr: float32(bestCorr)}, true, nil
+}
+
+// fitsNeighbours reports whether a pick at fractional sample x on trace k
+// lies within twice the search window of the picks on all its picked grid
+// neighbours. A trace between two blocks of a fault (or between two
+// reflectors the horizon has reached from either side) fits only one of
+// them and is left empty.
+func (t *tracker) fitsNeighbours(k int, x float64) bool {
+	nx := t.g.Crosslines
+	il, xl := k/nx, k%nx
+	ok := func(n int) bool {
+		return t.h.State[n] == Empty || math.Abs(t.picks[n].sample-x) <= 2*t.halfWin
+	}
+	return (il == 0 || ok(k-nx)) && (il == t.g.Inlines-1 || ok(k+nx)) &&
+		(xl == 0 || ok(k-1)) && (xl == nx-1 || ok(k+1))
+}
+
+// behind returns the trace on the far side of from as seen from k (the
+// next one in line), or -1 when that is outside the grid.
+func (t *tracker) behind(k, from int) int {
+	nx := t.g.Crosslines
+	b := 2*from - k
+	if b < 0 || b >= len(t.picks) || (k-from == 1 || k-from == -1) && b/nx != from/nx {
+		return -1
+	}
+	return b
 }
 
 // stretchStart returns the first sample of the analytic stretch around
@@ -560,37 +596,44 @@ func (t *tracker) level(k int) float64 {
 	return sum / float64(n)
 }
 
-// correlation returns Pearson's correlation coefficient between a's
-// samples around ca and b's around cb, half samples either side, cut
-// short equally on both where a trace ends. It returns -1 when either
-// window is flat or holds a gap.
-func correlation(a []float32, ca int, b []float32, cb, half int) float64 {
-	lo := min(half, ca, cb)
-	hi := min(half, len(a)-1-ca, len(b)-1-cb)
-	if lo < 0 || hi < 0 || lo+hi < 2 {
+// correlation returns Pearson's correlation coefficient between ref's
+// samples rc-half..rc+half and trace a at the same offsets from position
+// x (fractional samples, linearly interpolated), so that the two windows
+// line up on the picks to a fraction of a sample. The windows are cut
+// short equally where a trace ends. It returns -1 when either window is
+// flat or holds a gap.
+func correlation(ref []float32, rc int, a []float32, x float64, half int) float64 {
+	// First and last offsets with both samples inside their traces.
+	lo := max(-half, -rc, int(math.Ceil(-x)))
+	hi := min(half, len(ref)-1-rc, int(math.Floor(float64(len(a)-1)-x)))
+	if hi-lo < 2 {
 		return -1
 	}
-	wa, wb := a[ca-lo:ca+hi+1], b[cb-lo:cb+hi+1]
-	wb = wb[:len(wa)]
-	var sa, sb float64
-	for i, x := range wa {
-		sa += float64(x)
-		sb += float64(wb[i])
+	i0 := int(math.Floor(x))
+	f := float32(x - float64(i0))
+	var sa, sb, sab, saa, sbb float64
+	for j := lo; j <= hi; j++ {
+		ra := float64(ref[rc+j])
+		k := i0 + j
+		v := a[k]
+		if f > 0 {
+			v += f * (a[k+1] - v)
+		}
+		rb := float64(v)
+		sa += ra
+		sb += rb
+		sab += ra * rb
+		saa += ra * ra
+		sbb += rb * rb
 	}
-	n := float64(len(wa))
-	ma, mb := sa/n, sb/n
-	var sab, saa, sbb float64
-	for i, x := range wa {
-		da, db := float64(x)-ma, float64(wb[i])-mb
-		sab += da * db
-		saa += da * da
-		sbb += db * db
-	}
-	r := sab / math.Sqrt(saa*sbb)
-	if math.IsNaN(r) {
+	n := float64(hi - lo + 1)
+	cov := sab - sa*sb/n
+	va, vb := saa-sa*sa/n, sbb-sb*sb/n
+	r := cov / math.Sqrt(va*vb)
+	if math.IsNaN(r) || math.IsInf(r, 0) {
 		return -1
 	}
-	return r
+	return max(-1, min(1, r))
 }
 
 // analyticAt returns the envelope and the instantaneous phase (radians)
