@@ -1,8 +1,14 @@
 package horizon_test
 
 import (
+	"bytes"
 	"context"
+	"encoding/binary"
 	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
 	"sync"
 	"testing"
 
@@ -104,4 +110,67 @@ func compare(h *horizon.Horizon, f synth.Surface, mask []bool, tol, jump float64
 		}
 	}
 	return c
+}
+
+// python is the reference interpreter: Debian's, with its numpy and scipy
+// (python3-numpy, python3-scipy), always called by its full path.
+const python = "/usr/bin/python3"
+
+// needPython fails the test when python cannot import the modules.
+func needPython(t testing.TB, modules ...string) {
+	t.Helper()
+	code := "import " + strings.Join(modules, ", ")
+	if out, err := exec.Command(python, "-c", code).CombinedOutput(); err != nil {
+		t.Fatalf("%s cannot %q (install Debian's python3-numpy python3-scipy, e.g. with bash .ci/deps): %v: %s", python, code, err, strings.TrimSpace(string(out)))
+	}
+}
+
+// script returns the path of a reference script in testdata/horizon.
+func script(name string) string { return filepath.Join("..", "..", "testdata", "horizon", name) }
+
+// writeVolume writes traces in map_stats.py's volume format.
+func writeVolume(t testing.TB, path string, traces [][]float32, dtMS, t0MS float64) {
+	t.Helper()
+	var buf bytes.Buffer
+	binary.Write(&buf, binary.LittleEndian, [2]int32{int32(len(traces)), int32(len(traces[0]))})
+	binary.Write(&buf, binary.LittleEndian, [2]float64{dtMS, t0MS})
+	for _, tr := range traces {
+		binary.Write(&buf, binary.LittleEndian, tr)
+	}
+	if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// writeFloat64s writes values as little-endian float64.
+func writeFloat64s(t testing.TB, path string, v []float64) {
+	t.Helper()
+	var buf bytes.Buffer
+	binary.Write(&buf, binary.LittleEndian, v)
+	if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// readFloat64s reads a file of little-endian float64.
+func readFloat64s(t testing.TB, path string) []float64 {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	v := make([]float64, len(b)/8)
+	if err := binary.Read(bytes.NewReader(b), binary.LittleEndian, v); err != nil {
+		t.Fatal(err)
+	}
+	return v
+}
+
+// run runs a reference script and fails the test with its output when it
+// fails.
+func run(t testing.TB, args ...string) {
+	t.Helper()
+	if out, err := exec.Command(python, args...).CombinedOutput(); err != nil {
+		t.Fatalf("%s %s: %v\n%s", python, strings.Join(args, " "), err, out)
+	}
 }
