@@ -7,6 +7,7 @@ import (
 	"math"
 	"math/cmplx"
 	"runtime"
+	"strconv"
 	"sync"
 	"sync/atomic"
 
@@ -63,7 +64,7 @@ const (
 	// up to a power of two samples; its ends are tapered over an eighth of
 	// its length.
 	analyticSpanMS  = 128.0
-	analyticMinSpan = 64
+	analyticMinSpan = 16
 	// batch is how many candidates are accepted from the queue before
 	// their neighbours are evaluated (in parallel).
 	batch = 64
@@ -156,7 +157,9 @@ type tracker struct {
 	halfWin      float64 // search half-window, samples
 	halfCorr     int     // correlation half-window, samples
 	span         int     // analytic stretch length, samples
-	end          compute.EndTreatment
+	taper        int     // samples tapered at each end of a stretch
+	quad         *compute.Attribute
+	quadParams   compute.Params
 	stretches    []float32 // copies of the stretches for the analytic trace
 	// memo holds, per trace, the last pick whose envelope and phase were
 	// computed (sample NaN when none).
@@ -186,9 +189,10 @@ type worker struct {
 // of workers.
 //
 // Envelope and phase come from compute's analytic trace (Marple's discrete
-// analytic signal, through compute.Instantaneous) of a stretch of the
-// trace centred on the pick, 128 ms or 64 samples long whichever is more,
-// with cosine tapers over an eighth of it at its ends:
+// analytic signal: the "quadrature" attribute of compute's registry) of a
+// stretch of the trace centred on the pick, 128 ms long (at least 16
+// samples; a power of two), with half-Hann tapers over an eighth of it at
+// its ends:
 // the Hilbert transform's kernel falls off as 1/t, so a stretch several
 // wavelets long gives the phase at its centre to within a few degrees of
 // the whole trace's (TestAnalyticStretchMatchesWholeTrace) at a small
@@ -217,7 +221,9 @@ func Track(ctx context.Context, src Source, seeds []Seed, opt Options, progress 
 		halfWin:      opt.WindowMS / g.dtMS(),
 		halfCorr:     max(1, int(math.Round(opt.CorrelationMS/g.dtMS()/2))),
 	}
-	t.setSpan()
+	if err := t.setSpan(); err != nil {
+		return nil, fmt.Errorf("tracking: %w", err)
+	}
 	if t.needAnalytic {
 		t.memo = make([]pick, len(t.picks))
 		for k := range t.memo {
@@ -233,10 +239,61 @@ func Track(ctx context.Context, src Source, seeds []Seed, opt Options, progress 
 	return t.h, nil
 }
 
-// setSpan sets the length and end treatment of the analytic stretches.
-func (t *tracker) setSpan() {
+// setSpan sets the length and end taper of the analytic stretches and
+// readies compute's quadrature attribute for them.
+func (t *tracker) setSpan() error {
 	t.span = min(t.g.Samples, compute.NextPow2(max(analyticMinSpan, int(math.Ceil(analyticSpanMS/t.g.dtMS())))))
-	t.end = compute.EndTreatment{Pad: compute.PadFast, TaperMS: float64(t.span) * t.g.dtMS() / 8}
+	t.taper = t.span / 8
+	q, err := compute.Lookup("quadrature")
+	if err != nil {
+		return err
+	}
+	p, err := q.Resolve(map[string]string{"pad": compute.PadFast, "taper": strconv.FormatFloat(float64(t.taper)*t.g.dtMS(), 'g', -1, 64)})
+	if err != nil {
+		return err
+	}
+	t.quad, t.quadParams = q, p
+	return nil
+}
+
+// quadrature returns the quadrature traces (Hilbert transforms) of the
+// stretches in sec, computed by compute's "quadrature" attribute (the
+// imaginary part of Marple's discrete analytic signal) on all cores.
+func (t *tracker) quadrature(ctx context.Context, sec compute.Section) (compute.Section, error) {
+	return t.quad.Compute(ctx, sec, t.quadParams, nil)
+}
+
+// analyticAt returns the envelope and the instantaneous phase (radians)
+// at fractional sample x of a stretch whose quadrature trace is h: the
+// analytic value z = x + i h (x tapered as compute tapers it before the
+// transform, which changes nothing away from the stretch's ends) is
+// interpolated linearly between the samples either side (Taner, Koehler
+// and Sheriff 1979: envelope |z|, phase arg z).
+func (t *tracker) analyticAt(stretch, h []float32, x float64) (env, phase float32) {
+	i0 := int(math.Floor(x))
+	z := func(j int) complex128 {
+		return complex(float64(stretch[j])*t.taperWeight(j), float64(h[j]))
+	}
+	v := z(i0)
+	if f := x - float64(i0); f > 0 && i0+1 < len(h) {
+		v = complex(1-f, 0)*v + complex(f, 0)*z(i0+1)
+	}
+	return float32(cmplx.Abs(v)), float32(cmplx.Phase(v))
+}
+
+// taperWeight returns the weight compute.EndTreatment's half-Hann taper
+// of t.taper samples gives sample j of a stretch: sin^2(pi (j+1/2) / (2L))
+// over the first and last L samples, 1 between.
+func (t *tracker) taperWeight(j int) float64 {
+	L := t.taper
+	if k := t.span - 1 - j; k < j {
+		j = k
+	}
+	if j >= L {
+		return 1
+	}
+	s := math.Sin(math.Pi * (float64(j) + 0.5) / float64(2*L))
+	return s * s
 }
 
 // seed picks the seed traces.
@@ -268,11 +325,12 @@ func (t *tracker) seed(seeds []Seed) error {
 		p := pick{sample: best}
 		if t.needAnalytic {
 			start := t.stretchStart(best)
-			set, err := compute.Instantaneous(context.Background(), compute.Section{Traces: [][]float32{a[start : start+t.span]}, DT: t.g.DT}, t.end, nil)
+			stretch := a[start : start+t.span]
+			q, err := t.quadrature(context.Background(), compute.Section{Traces: [][]float32{stretch}, DT: t.g.DT})
 			if err != nil {
 				return fmt.Errorf("tracking: seed %d: %w", i+1, err)
 			}
-			p.env, p.phase = analyticAt(set, 0, best-float64(start))
+			p.env, p.phase = t.analyticAt(stretch, q.Traces[0], best-float64(start))
 		}
 		t.picks[k] = p
 		t.h.set(k, t.g.msAt(best), 1, Seeded)
@@ -448,8 +506,8 @@ func (t *tracker) evaluate(ws []*worker, pairs []pair, out []candidate, ok []boo
 
 // analytic fills in the envelope and phase of the candidates, from the
 // analytic trace of a stretch of each trace around its pick, computed for
-// all of them as one section through compute.Instantaneous (which shares
-// its FFT plans across the stretches and runs on all cores). A trace whose
+// all of them as one section through compute's quadrature attribute (which
+// shares its FFT plans across the stretches and runs on all cores). A trace whose
 // envelope and phase were computed before at the same pick reuses them.
 func (t *tracker) analytic(ctx context.Context, w *worker, cs []candidate) error {
 	sec := compute.Section{DT: t.g.DT}
@@ -478,13 +536,13 @@ func (t *tracker) analytic(ctx context.Context, w *worker, cs []candidate) error
 	if len(idx) == 0 {
 		return nil
 	}
-	set, err := compute.Instantaneous(ctx, sec, t.end, nil)
+	q, err := t.quadrature(ctx, sec)
 	if err != nil {
 		return err
 	}
 	for n, i := range idx {
 		c := &cs[i]
-		c.env, c.phase = analyticAt(set, n, c.sample-float64(c.start))
+		c.env, c.phase = t.analyticAt(sec.Traces[n], q.Traces[n], c.sample-float64(c.start))
 		t.memo[c.k] = c.pick
 	}
 	return nil
@@ -634,22 +692,4 @@ func correlation(ref []float32, rc int, a []float32, x float64, half int) float6
 		return -1
 	}
 	return max(-1, min(1, r))
-}
-
-// analyticAt returns the envelope and the instantaneous phase (radians)
-// of trace n of set at fractional sample x, interpolating the amplitude
-// and its quadrature (envelope times cosine and sine of phase) linearly
-// between the samples either side.
-func analyticAt(set compute.InstantaneousSet, n int, x float64) (env, phase float32) {
-	a, ph := set.Envelope.Traces[n], set.Phase.Traces[n]
-	i0 := int(math.Floor(x))
-	f := x - float64(i0)
-	z := func(j int) complex128 {
-		return cmplx.Rect(float64(a[j]), float64(ph[j])*math.Pi/180)
-	}
-	v := z(i0)
-	if i0+1 < len(a) {
-		v = complex(1-f, 0)*v + complex(f, 0)*z(i0+1)
-	}
-	return float32(cmplx.Abs(v)), float32(cmplx.Phase(v))
 }
