@@ -71,7 +71,7 @@ func layered(ni, nx, ns int) (*horizon.Traces, float64) {
 }
 
 // BenchmarkTrack1000x1000 tracks one horizon over a 1000 x 1000 grid of
-// 128-sample traces (512 MB in memory) from one seed in the middle.
+// 128-sample traces (512 MB in memory) from one seed in a corner.
 func BenchmarkTrack1000x1000(b *testing.B) {
 	src, t0 := layered(1000, 1000, 128)
 	seeds := []horizon.Seed{{Inline: 0, Crossline: 0, TimeMS: t0}}

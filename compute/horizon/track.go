@@ -1,7 +1,6 @@
 package horizon
 
 import (
-	"container/heap"
 	"context"
 	"fmt"
 	"math"
@@ -120,14 +119,76 @@ type candidate struct {
 	start int32 // first sample of the analytic stretch
 }
 
-// candidates is a max-queue on correlation; ties go to the lower trace
+// queue is a max-queue of candidates on correlation holding at most one
+// candidate per trace (the best one offered); ties go to the lower trace
 // index, then the lower neighbour index, so the order never depends on
 // timing.
-type candidates []candidate
+type queue struct {
+	items []candidate
+	pos   []int32 // pos[k]: index of trace k's candidate in items, -1 when none
+}
 
-func (q candidates) Len() int { return len(q) }
-func (q candidates) Less(i, j int) bool {
-	a, b := q[i], q[j]
+func newQueue(traces int) *queue {
+	q := &queue{pos: make([]int32, traces)}
+	for k := range q.pos {
+		q.pos[k] = -1
+	}
+	return q
+}
+
+func (q *queue) Len() int { return len(q.items) }
+
+// swap exchanges items i and j and updates their positions.
+func (q *queue) swap(i, j int) {
+	q.items[i], q.items[j] = q.items[j], q.items[i]
+	q.pos[q.items[i].k], q.pos[q.items[j].k] = int32(i), int32(j)
+}
+
+// up moves item i towards the root while it is better than its parent
+// (a binary heap, as in container/heap, without boxing the items).
+func (q *queue) up(i int) {
+	for i > 0 {
+		p := (i - 1) / 2
+		if !better(&q.items[i], &q.items[p]) {
+			return
+		}
+		q.swap(i, p)
+		i = p
+	}
+}
+
+// down moves item i towards the leaves while a child is better.
+func (q *queue) down(i int) {
+	n := len(q.items)
+	for {
+		c := 2*i + 1
+		if c >= n {
+			return
+		}
+		if r := c + 1; r < n && better(&q.items[r], &q.items[c]) {
+			c = r
+		}
+		if !better(&q.items[c], &q.items[i]) {
+			return
+		}
+		q.swap(i, c)
+		i = c
+	}
+}
+
+// pop removes and returns the best candidate.
+func (q *queue) pop() candidate {
+	last := len(q.items) - 1
+	q.swap(0, last)
+	c := q.items[last]
+	q.items = q.items[:last]
+	q.pos[c.k] = -1
+	q.down(0)
+	return c
+}
+
+// better reports whether candidate a goes before b.
+func better(a, b *candidate) bool {
 	if a.corr != b.corr {
 		return a.corr > b.corr
 	}
@@ -136,13 +197,20 @@ func (q candidates) Less(i, j int) bool {
 	}
 	return a.from < b.from
 }
-func (q candidates) Swap(i, j int) { q[i], q[j] = q[j], q[i] }
-func (q *candidates) Push(x any)   { *q = append(*q, x.(candidate)) }
-func (q *candidates) Pop() any {
-	old := *q
-	c := old[len(old)-1]
-	*q = old[:len(old)-1]
-	return c
+
+// offer queues c unless its trace has a better candidate queued already.
+func (q *queue) offer(c candidate) {
+	i := q.pos[c.k]
+	switch {
+	case i < 0:
+		q.pos[c.k] = int32(len(q.items))
+		q.items = append(q.items, c)
+		q.up(len(q.items) - 1)
+	case better(&c, &q.items[i]):
+		// A better candidate for the same trace only moves up.
+		q.items[i] = c
+		q.up(int(i))
+	}
 }
 
 // tracker holds one Track run's state.
@@ -181,9 +249,12 @@ type worker struct {
 // correlates best with the picked trace's (Pearson's correlation over
 // CorrelationMS, windows centred on the nearest samples to the picks),
 // and keeps it when the correlation, phase and envelope constraints hold.
-// The proposals wait in a priority queue ordered by that correlation, so
-// the horizon spreads through the most coherent parts first and reaches
-// doubtful traces last, from whichever side fits best. It takes
+// The proposals wait in a priority queue ordered by that correlation (the
+// best proposal per trace), so the horizon spreads through the most
+// coherent parts first and reaches doubtful traces last, from whichever
+// side fits best; the phase and envelope constraints are checked when a
+// proposal leaves the queue, and a trace that fails them may still be
+// picked later from another neighbour. It takes
 // proposals in batches of 64 and evaluates the neighbours of a batch on
 // runtime.GOMAXPROCS(0) workers; the result does not depend on the number
 // of workers.
@@ -361,15 +432,14 @@ func (t *tracker) grow(ctx context.Context, progress func(done, total int)) erro
 	for i := range ws {
 		ws[i] = t.newWorker()
 	}
-	var queue candidates
+	queue := newQueue(total)
 	results := make([]candidate, 0, 4*batch)
 	ok := make([]bool, 0, 4*batch)
 	accepted := make([]int32, 0, batch)
-	var taken, deferred []candidate
-	inBatch := make([]bool, total)
+	var taken []candidate
 	step := max(1, total/200)
 	reported := 0
-	for len(pending) > 0 || len(queue) > 0 {
+	for len(pending) > 0 || queue.Len() > 0 {
 		if err := ctx.Err(); err != nil {
 			return err
 		}
@@ -379,22 +449,14 @@ func (t *tracker) grow(ctx context.Context, progress func(done, total int)) erro
 		}
 		for i, c := range results {
 			if ok[i] {
-				heap.Push(&queue, c)
+				queue.offer(c)
 			}
 		}
-		// Take the best candidates of distinct empty traces; the others
-		// of the same traces go back once the batch is settled.
-		taken, deferred = taken[:0], deferred[:0]
-		for len(taken) < batch && len(queue) > 0 {
-			c := heap.Pop(&queue).(candidate)
-			switch {
-			case t.h.State[c.k] != Empty:
-			case inBatch[c.k]:
-				deferred = append(deferred, c)
-			default:
-				inBatch[c.k] = true
-				taken = append(taken, c)
-			}
+		// Take the best candidates (one per trace, and only of empty
+		// traces: a picked trace is never offered).
+		taken = taken[:0]
+		for len(taken) < batch && queue.Len() > 0 {
+			taken = append(taken, queue.pop())
 		}
 		if t.needAnalytic {
 			if err := t.analytic(ctx, ws[0], taken); err != nil {
@@ -404,18 +466,12 @@ func (t *tracker) grow(ctx context.Context, progress func(done, total int)) erro
 		accepted = accepted[:0]
 		for i := range taken {
 			c := &taken[i]
-			inBatch[c.k] = false
 			if t.needAnalytic && !t.constraints(c) {
 				continue
 			}
 			t.picks[c.k] = c.pick
 			t.h.set(int(c.k), t.g.msAt(c.sample), c.corr, Tracked)
 			accepted = append(accepted, c.k)
-		}
-		for _, c := range deferred {
-			if t.h.State[c.k] == Empty {
-				heap.Push(&queue, c)
-			}
 		}
 		picked += len(accepted)
 		// Neighbours are listed after the whole batch is in, so a trace

@@ -245,3 +245,4 @@ func TestConcurrentTracks(t *testing.T) {
 	}
 	wg.Wait()
 }
+
