@@ -1,6 +1,8 @@
-// Package app is the quadtrace application: the command dispatch here, the
-// batch commands (app/batch, app/export), the data glue between segy,
-// compute and render (app/volume) and the fyne viewer (app/viewer). Only
+// Package app is the quadtrace application: the dispatch here between the
+// window (app/viewer) and the commands (app/cli), and the services they
+// share: surveys as trace sources (app/volume), styles (app/style), the
+// export job (app/export), figures (app/figure) and the version
+// (app/version). Only
 // packages under app/ import fyne, and only app/viewer among them.
 package app
 
@@ -9,8 +11,8 @@ import (
 	"io"
 	"strings"
 
-	"quadtrace/app/batch"
-	"quadtrace/app/export"
+	"quadtrace/app/cli"
+	"quadtrace/app/version"
 	"quadtrace/app/viewer"
 )
 
@@ -51,20 +53,20 @@ func Main(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprint(stdout, usage)
 		return 0
 	case "version", "--version":
-		fmt.Fprintln(stdout, "quadtrace", export.Version)
+		fmt.Fprintln(stdout, "quadtrace", version.Version)
 		return 0
 	case "scan":
-		return batch.Scan(args[1:], stdout, stderr)
+		return cli.Scan(args[1:], stdout, stderr)
 	case "attributes":
-		return batch.Attributes(args[1:], stdout, stderr)
+		return cli.Attributes(args[1:], stdout, stderr)
 	case "export":
-		return export.Command(args[1:], stdout, stderr)
+		return cli.Export(args[1:], stdout, stderr)
 	case "join":
-		return export.JoinCommand(args[1:], stdout, stderr)
+		return cli.Join(args[1:], stdout, stderr)
 	case "figure":
-		return batch.Figure(args[1:], stdout, stderr)
+		return cli.Figure(args[1:], stdout, stderr)
 	case "synth":
-		return batch.Synth(args[1:], stdout, stderr)
+		return cli.Synth(args[1:], stdout, stderr)
 	case "--snapshot":
 		if len(args) < 2 || len(args) > 3 {
 			fmt.Fprint(stderr, "quadtrace: --snapshot takes OUT.png and an optional FILE\n")

@@ -71,7 +71,7 @@ func (a *Attribute) Resolve(raw map[string]string) (Params, error) {
 			if len(known) == 0 {
 				return Params{}, fmt.Errorf("attribute %q: unknown parameter %q (it takes none)", a.ID, name)
 			}
-			return Params{}, fmt.Errorf("attribute %q: unknown parameter %q (it takes %s)", a.ID, name, strings.Join(known, ", "))
+			return Params{}, fmt.Errorf("attribute %q: unknown parameter %q%s (it takes %s)", a.ID, name, DidYouMean(name, known), strings.Join(known, ", "))
 		}
 	}
 	for _, s := range a.Params {
@@ -136,4 +136,54 @@ func ParseParams(pairs []string) (map[string]string, error) {
 		raw[name] = value
 	}
 	return raw, nil
+}
+
+// ResolveAll resolves one set of NAME=VALUE settings for several attributes
+// at once (a figure's base and overlay, an export's outputs): each setting
+// goes to every attribute that has a parameter of that name, and a name
+// that none of them has is an error that names the attributes and suggests
+// the nearest parameter they do have.
+func ResolveAll(attrs []*Attribute, raw map[string]string) ([]Params, error) {
+	var known []string
+	for _, a := range attrs {
+		for _, s := range a.Params {
+			if !slices.Contains(known, s.Name) {
+				known = append(known, s.Name)
+			}
+		}
+	}
+	var unknown []string
+	for name := range raw {
+		if !slices.Contains(known, name) {
+			unknown = append(unknown, name)
+		}
+	}
+	if len(unknown) > 0 {
+		slices.Sort(unknown)
+		ids := make([]string, len(attrs))
+		for i, a := range attrs {
+			ids[i] = a.ID
+		}
+		takes := "they take none"
+		if len(known) > 0 {
+			takes = "they take " + strings.Join(known, ", ")
+		}
+		return nil, fmt.Errorf("parameter %q%s: none of the chosen attributes (%s) has it; %s",
+			unknown[0], DidYouMean(unknown[0], known), strings.Join(ids, ", "), takes)
+	}
+	out := make([]Params, len(attrs))
+	for i, a := range attrs {
+		mine := map[string]string{}
+		for _, s := range a.Params {
+			if v, ok := raw[s.Name]; ok {
+				mine[s.Name] = v
+			}
+		}
+		p, err := a.Resolve(mine)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = p
+	}
+	return out, nil
 }

@@ -4,6 +4,8 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
+	"sync"
 )
 
 // Kind says how an attribute's values behave, so a renderer can pick the
@@ -59,19 +61,58 @@ type Attribute struct {
 	run computeFunc
 }
 
-// Attributes returns the registry in listing order (grouped), as a fresh
-// table each call: callers may change what they get without affecting
-// anyone else.
-func Attributes() []*Attribute { return registry() }
-
-// Lookup returns the attribute with the given id.
-func Lookup(id string) (*Attribute, error) {
-	for _, a := range registry() {
-		if a.ID == id {
-			return a, nil
-		}
+// builtRegistry is the attribute table, built once on first use and never
+// changed after: Attributes and Lookup hand out copies of its entries.
+var builtRegistry = sync.OnceValues(func() ([]*Attribute, map[string]*Attribute) {
+	list := registry()
+	byID := make(map[string]*Attribute, len(list))
+	for _, a := range list {
+		byID[a.ID] = a
 	}
-	return nil, fmt.Errorf("unknown attribute %q", id)
+	return list, byID
+})
+
+// clone returns a copy of a that shares nothing a caller could change with
+// the registry (its parameter specs and their choices are copied too).
+func (a *Attribute) clone() *Attribute {
+	c := *a
+	c.Params = slices.Clone(a.Params)
+	for i := range c.Params {
+		c.Params[i].Choices = slices.Clone(c.Params[i].Choices)
+	}
+	return &c
+}
+
+// Attributes returns the registry in listing order (grouped), as fresh
+// copies each call: callers may change what they get without affecting
+// anyone else. The table itself is built once.
+func Attributes() []*Attribute {
+	list, _ := builtRegistry()
+	out := make([]*Attribute, len(list))
+	for i, a := range list {
+		out[i] = a.clone()
+	}
+	return out
+}
+
+// IDs returns the attribute ids in listing order.
+func IDs() []string {
+	list, _ := builtRegistry()
+	ids := make([]string, len(list))
+	for i, a := range list {
+		ids[i] = a.ID
+	}
+	return ids
+}
+
+// Lookup returns (a copy of) the attribute with the given id. An unknown id
+// is an error that suggests the nearest valid one (see Nearest).
+func Lookup(id string) (*Attribute, error) {
+	_, byID := builtRegistry()
+	if a, ok := byID[id]; ok {
+		return a.clone(), nil
+	}
+	return nil, fmt.Errorf("unknown attribute %q%s", id, DidYouMean(id, IDs()))
 }
 
 // Compute computes the attribute on a section with all cores. p comes from
@@ -97,7 +138,24 @@ func (a *Attribute) Compute(ctx context.Context, in Section, p Params, progress 
 	if err != nil {
 		return Section{}, fmt.Errorf("attribute %q: %w", a.ID, err)
 	}
+	saturate(out)
 	return out, nil
+}
+
+// saturate replaces infinite output samples by the largest finite float32
+// of the same sign: values beyond float32 (a derivative of amplitudes near
+// 1e35, found by FuzzAttributes) are "very large", and an Inf would break
+// every range and colour computation downstream. NaN stays NaN (a gap).
+func saturate(s Section) {
+	for _, tr := range s.Traces {
+		for j, v := range tr {
+			if v > math.MaxFloat32 {
+				tr[j] = math.MaxFloat32
+			} else if v < -math.MaxFloat32 {
+				tr[j] = -math.MaxFloat32
+			}
+		}
+	}
 }
 
 // Parameter specs shared by several attributes.

@@ -69,8 +69,18 @@ func TestRegistryEntries(t *testing.T) {
 
 func TestLookupUnknown(t *testing.T) {
 	_, err := Lookup("sweetnes")
-	if err == nil || err.Error() != `unknown attribute "sweetnes"` {
+	if err == nil || err.Error() != `unknown attribute "sweetnes" (did you mean sweetness?)` {
 		t.Errorf("Lookup error %v", err)
+	}
+	// Nothing near: no suggestion.
+	if _, err := Lookup("zzzzqqqq"); err == nil || err.Error() != `unknown attribute "zzzzqqqq"` {
+		t.Errorf("Lookup error %v", err)
+	}
+	// A copy each call: changing it leaves the registry alone.
+	a, _ := Lookup("envelope")
+	a.Params = nil
+	if b, _ := Lookup("envelope"); len(b.Params) == 0 {
+		t.Error("Lookup shares its entries with its callers")
 	}
 }
 
@@ -273,5 +283,48 @@ func TestCancelAndProgress(t *testing.T) {
 	}
 	if _, err := (Conditioning{AGCWindowMS: 100}).Apply(ctx, sec, nil); !errors.Is(err, context.Canceled) {
 		t.Fatalf("cancelled Apply returned %v", err)
+	}
+}
+
+// TestNearest: edit distances of Levenshtein (1966); "kitten" -> "sitting"
+// is 3, the textbook example (common practice).
+func TestNearest(t *testing.T) {
+	for _, c := range []struct {
+		word string
+		want string
+		ok   bool
+	}{
+		{"envlope", "envelope", true},
+		{"windw", "window", true},
+		{"Sweetness", "sweetness", true},
+		{"instantaneous-phse", "instantaneous-phase", true},
+		{"kitten", "sitting", false}, // 3 edits in 7 letters: more than a third
+		{"xyz", "sitting", false},
+	} {
+		got, ok := Nearest(c.word, []string{"envelope", "window", "sweetness", "instantaneous-phase", "sitting"})
+		if ok != c.ok || (ok && got != c.want) {
+			t.Errorf("Nearest(%q) = %q, %v; want %q, %v", c.word, got, ok, c.want, c.ok)
+		}
+	}
+}
+
+// TestResolveAll: a setting reaches every chosen attribute that has it; a
+// name none has is refused with the nearest one suggested.
+func TestResolveAll(t *testing.T) {
+	env, _ := Lookup("envelope")
+	wf, _ := Lookup("weighted-frequency")
+	amp, _ := Lookup("amplitude")
+	ps, err := ResolveAll([]*Attribute{env, wf}, map[string]string{"window": "100"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := ps[1].Float("window"); got != 100 {
+		t.Errorf("weighted-frequency window %v, want 100", got)
+	}
+	if _, err := ResolveAll([]*Attribute{env, wf}, map[string]string{"windw": "100"}); err == nil || !strings.Contains(err.Error(), `"windw" (did you mean window?)`) {
+		t.Errorf("windw: error %v, want a refusal suggesting window", err)
+	}
+	if _, err := ResolveAll([]*Attribute{amp}, map[string]string{"pad": "fast"}); err == nil || !strings.Contains(err.Error(), "they take none") {
+		t.Errorf("amplitude with pad: error %v, want a refusal", err)
 	}
 }

@@ -3,39 +3,17 @@ package export
 import (
 	"context"
 	"encoding/json"
-	"fmt"
 	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
-	"syscall"
 	"testing"
 	"time"
 
+	"quadtrace/app/apptest"
 	"quadtrace/compute"
 	"quadtrace/segy/segytest"
 )
-
-// benchVolume returns the path of an invented volume of spec v under
-// $TMPDIR/quadtrace-export-bench, generating it through the segy writer the
-// first time (the writer's atomic rename means a file found there is
-// complete; its size is checked anyway). These files are large and never
-// committed; delete the folder to reclaim the space.
-func benchVolume(b *testing.B, v volumeSpec) string {
-	b.Helper()
-	dir := filepath.Join(os.TempDir(), "quadtrace-export-bench")
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		b.Fatal(err)
-	}
-	path := filepath.Join(dir, fmt.Sprintf("harrowmere-%dx%dx%d.sgy", v.inlines[1]-v.inlines[0]+1, v.crosslines[1]-v.crosslines[0]+1, v.samples))
-	if st, err := os.Stat(path); err == nil && st.Size() == v.bytes() {
-		return path
-	}
-	start := time.Now()
-	writeVolume(b, path, v)
-	b.Logf("generated %s (%.0f MB) in %v", path, float64(v.bytes())/1e6, time.Since(start).Round(time.Millisecond))
-	return path
-}
 
 // warm reads a file through so that it sits in the page cache.
 func warm(b *testing.B, path string) {
@@ -76,15 +54,15 @@ func timeCommand(b *testing.B, name string, args ...string) time.Duration {
 // Run with -benchtime=1x: one iteration takes tens of seconds.
 func BenchmarkExportEnvelope(b *testing.B) {
 	segytest.NeedPython(b, "segyio", "scipy", "numpy")
-	v := volumeSpec{inlines: [2]int{1, 200}, crosslines: [2]int{1, 200}, samples: 1501, intervalUS: 2000}
-	src := benchVolume(b, v)
+	v := apptest.VolumeSpec{Inlines: [2]int{1, 200}, Crosslines: [2]int{1, 200}, Samples: 1501, IntervalUS: 2000}
+	src := apptest.BenchVolume(b, v)
 	warm(b, src)
 	dir := b.TempDir()
-	script := filepath.Join(projectRoot(b), "testdata", "export", "scipy_envelope.py")
-	mb := float64(v.bytes()) / 1e6
+	script := filepath.Join(apptest.ProjectRoot(b), "testdata", "export", "scipy_envelope.py")
+	mb := float64(v.Bytes()) / 1e6
 	// The envelope alone, on the volume held in memory, in blocks as the
 	// export computes it: the floor the file handling adds to.
-	sec, _ := readSection(b, src)
+	sec, _ := apptest.ReadSection(b, src)
 	env, err := compute.Lookup("envelope")
 	if err != nil {
 		b.Fatal(err)
@@ -119,7 +97,7 @@ func BenchmarkExportEnvelope(b *testing.B) {
 		tCompute += time.Since(start)
 
 		pyOut := filepath.Join(dir, "scipy-envelope.sgy")
-		res, err := exec.Command(python, script, src, pyOut).Output()
+		res, err := exec.Command(apptest.Python, script, src, pyOut).Output()
 		if err != nil {
 			b.Fatalf("scipy pipeline: %v", err)
 		}
@@ -140,42 +118,4 @@ func BenchmarkExportEnvelope(b *testing.B) {
 	b.ReportMetric(tExport.Seconds()/tCp.Seconds(), "export/cp")
 	b.ReportMetric(tExport.Seconds()/tCpSync.Seconds(), "export/cp+sync")
 	b.ReportMetric(tScipy.Seconds()/tExport.Seconds(), "scipy/export")
-}
-
-// BenchmarkExportPeakMemory exports envelope from a volume of 1.25 GB
-// (200000 traces of 1501 samples) with --budget 256M in a child process and
-// reads its peak resident set size from the kernel (getrusage ru_maxrss, as
-// returned by wait4: the same figure as VmHWM in /proc/PID/status and
-// "Maximum resident set size" of /usr/bin/time -v). It fails when the peak
-// exceeds the budget plus runtimeOverhead, the overhead the export command
-// allows for (runtime, FFT work buffers, write buffers, geometry index).
-// Run with -benchtime=1x.
-func BenchmarkExportPeakMemory(b *testing.B) {
-	v := volumeSpec{inlines: [2]int{1, 400}, crosslines: [2]int{1, 500}, samples: 1501, intervalUS: 2000}
-	src := benchVolume(b, v)
-	const budget = 256 << 20
-	dir := b.TempDir()
-	var peak int64
-	var took time.Duration
-	b.ResetTimer()
-	for i := 0; i < b.N; i++ {
-		cmd := exec.Command(os.Args[0], src, "--attribute", "envelope", "--out", filepath.Join(dir, "envelope.sgy"),
-			"--budget", "256M", "--progress", "none")
-		cmd.Env = append(os.Environ(), childEnv+"=export")
-		start := time.Now()
-		if out, err := cmd.CombinedOutput(); err != nil {
-			b.Fatalf("export: %v: %s", err, out)
-		}
-		took += time.Since(start)
-		ru := cmd.ProcessState.SysUsage().(*syscall.Rusage)
-		peak = max(peak, ru.Maxrss*1024) // ru_maxrss is in KiB on Linux (getrusage(2))
-	}
-	b.StopTimer()
-	b.ReportMetric(float64(peak)/(1<<20), "peak-RSS-MiB")
-	b.ReportMetric(float64(v.bytes())/(1<<20), "input-MiB")
-	b.ReportMetric(float64(v.bytes())*float64(b.N)/1e6/took.Seconds(), "MB/s")
-	if limit := int64(budget + runtimeOverhead); peak > limit {
-		b.Errorf("peak resident memory %.0f MiB exceeds the budget of 256 MiB plus the stated overhead of %d MiB",
-			float64(peak)/(1<<20), runtimeOverhead>>20)
-	}
 }

@@ -1,6 +1,6 @@
 // Package export is quadtrace's whole-volume attribute export: the job
-// (Run) behind the `quadtrace export` command, the window's export dialog,
-// and the `quadtrace join` command that puts range exports back together.
+// (Run) behind the `quadtrace export` command (app/cli) and the window's
+// export dialog, and the join (Join) that puts range exports back together.
 //
 // # How an export runs
 //

@@ -10,6 +10,8 @@ import (
 	"strings"
 	"testing"
 
+	"quadtrace/app/apptest"
+	"quadtrace/app/version"
 	"quadtrace/compute"
 	"quadtrace/segy/segytest"
 )
@@ -61,7 +63,7 @@ func TestExportReadBackBySegyio(t *testing.T) {
 	segytest.NeedPython(t, "segyio", "numpy")
 	dir := t.TempDir()
 	invented := filepath.Join(dir, "harrowmere.sgy")
-	writeVolume(t, invented, volumeSpec{inlines: [2]int{101, 108}, crosslines: [2]int{20, 34}, samples: 301, intervalUS: 2000, startMS: 100})
+	apptest.WriteVolume(t, invented, apptest.VolumeSpec{Inlines: [2]int{101, 108}, Crosslines: [2]int{20, 34}, Samples: 301, IntervalUS: 2000, StartMS: 100})
 	cases := []struct {
 		name   string
 		input  string
@@ -96,8 +98,8 @@ func TestExportReadBackBySegyio(t *testing.T) {
 			if len(paths) != len(c.ids) {
 				t.Fatalf("%d paths for %d attributes", len(paths), len(c.ids))
 			}
-			in, _ := readSection(t, c.input)
-			src := readBySegyio(t, c.input)
+			in, _ := apptest.ReadSection(t, c.input)
+			src := apptest.ReadBySegyio(t, c.input)
 			for k, id := range c.ids {
 				if len(c.ids) > 1 {
 					want := filepath.Join(out, strings.TrimSuffix(filepath.Base(c.input), ".sgy")+"-"+id+".sgy")
@@ -105,10 +107,10 @@ func TestExportReadBackBySegyio(t *testing.T) {
 						t.Errorf("output %d written to %s, want %s", k, paths[k], want)
 					}
 				}
-				got := readBySegyio(t, paths[k])
+				got := apptest.ReadBySegyio(t, paths[k])
 				checkSamples(t, id, got, expected(t, in, id, c.params, c.cond), c.format)
 				checkHeaders(t, id, got, src, c.format)
-				for _, s := range []string{"quadtrace " + Version, "attribute: " + id, "source file: " + filepath.Base(c.input)} {
+				for _, s := range []string{"quadtrace " + version.Version, "attribute: " + id, "source file: " + filepath.Base(c.input)} {
 					if !strings.Contains(got.Text, s) {
 						t.Errorf("%s: textual header lacks %q:\n%s", id, s, got.Text)
 					}
@@ -134,7 +136,7 @@ func TestExportReadBackBySegyio(t *testing.T) {
 // of IBM hexadecimal floats otherwise (a 24-bit fraction whose leading hex
 // digit may hold three zero bits: relative error at most 2^-21 after
 // rounding, IBM System/370 Principles of Operation).
-func checkSamples(t *testing.T, id string, got segyioDump, want compute.Section, format int) {
+func checkSamples(t *testing.T, id string, got apptest.SegyioDump, want compute.Section, format int) {
 	t.Helper()
 	if got.Format != format {
 		t.Errorf("%s: segyio reads format %d, want %d", id, got.Format, format)
@@ -167,7 +169,7 @@ func checkSamples(t *testing.T, id string, got segyioDump, want compute.Section,
 
 // checkHeaders compares binary and trace header fields as segyio decodes
 // them, output against input.
-func checkHeaders(t *testing.T, id string, got, src segyioDump, format int) {
+func checkHeaders(t *testing.T, id string, got, src apptest.SegyioDump, format int) {
 	t.Helper()
 	if got.IntervalUS != src.IntervalUS {
 		t.Errorf("%s: interval %d us, input %d us", id, got.IntervalUS, src.IntervalUS)
@@ -214,8 +216,8 @@ func checkHeaders(t *testing.T, id string, got, src segyioDump, format int) {
 func TestExportPartsJoinToTheWholeExport(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "in.sgy")
-	v := volumeSpec{inlines: [2]int{1, 9}, crosslines: [2]int{1, 11}, samples: 201, intervalUS: 4000}
-	writeVolume(t, in, v)
+	v := apptest.VolumeSpec{Inlines: [2]int{1, 9}, Crosslines: [2]int{1, 11}, Samples: 201, IntervalUS: 4000}
+	apptest.WriteVolume(t, in, v)
 	for _, format := range []int{5, 1} {
 		whole := filepath.Join(dir, "whole.sgy")
 		if _, err := Run(context.Background(), Job{Input: in, Attributes: []string{"envelope"}, Output: whole, Format: format}, nil); err != nil {
@@ -239,12 +241,11 @@ func TestExportPartsJoinToTheWholeExport(t *testing.T) {
 				parts = append(parts, p)
 			}
 			joined := filepath.Join(dir, "joined.sgy")
-			var stdout, stderr strings.Builder
-			if code := JoinCommand(append(parts, "--out", joined), &stdout, &stderr); code != 0 {
-				t.Fatalf("format %d %s: join exit %d: %s", format, split.name, code, stderr.String())
+			if _, err := Join(context.Background(), parts, joined); err != nil {
+				t.Fatalf("format %d %s: join: %v", format, split.name, err)
 			}
-			wh, wd := traceSampleBytes(t, whole, v.samples)
-			jh, jd := traceSampleBytes(t, joined, v.samples)
+			wh, wd := apptest.TraceSampleBytes(t, whole, v.Samples)
+			jh, jd := apptest.TraceSampleBytes(t, joined, v.Samples)
 			if len(jd) != len(wd) {
 				t.Fatalf("format %d %s: joined %d traces, whole export %d", format, split.name, len(jd), len(wd))
 			}
@@ -256,7 +257,7 @@ func TestExportPartsJoinToTheWholeExport(t *testing.T) {
 			// The parts record the source they were cut from, so the joined
 			// file says "whole volume" again: it is the whole export, byte
 			// for byte, file headers included.
-			if fileSum(t, joined) != fileSum(t, whole) {
+			if apptest.FileSum(t, joined) != apptest.FileSum(t, whole) {
 				t.Errorf("format %d %s: joined file differs from the whole export in its file headers", format, split.name)
 			}
 		}
@@ -269,12 +270,12 @@ func TestExportPartsJoinToTheWholeExport(t *testing.T) {
 func TestExportRefusesTheInputAsOutput(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "in-envelope.sgy")
-	writeVolume(t, in, volumeSpec{inlines: [2]int{1, 3}, crosslines: [2]int{1, 4}, samples: 50, intervalUS: 4000})
+	apptest.WriteVolume(t, in, apptest.VolumeSpec{Inlines: [2]int{1, 3}, Crosslines: [2]int{1, 4}, Samples: 50, IntervalUS: 4000})
 	link := filepath.Join(dir, "link.sgy")
 	if err := os.Symlink(in, link); err != nil {
 		t.Fatal(err)
 	}
-	sum := fileSum(t, in)
+	sum := apptest.FileSum(t, in)
 	for _, out := range []string{in, link, dir} {
 		// With --out dir, the envelope of in-envelope.sgy would be named
 		// dir/in-envelope-envelope.sgy: not the input. Name the input so
@@ -290,27 +291,13 @@ func TestExportRefusesTheInputAsOutput(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), "input") {
 			t.Errorf("--out %s over input %s: error %v, want a refusal", out, input, err)
 		}
-		var stderr strings.Builder
-		if code := Command([]string{input, "--attribute", "envelope", "--out", out, "--quiet"}, &strings.Builder{}, &stderr); code != exitFailed {
-			t.Errorf("command --out %s: exit %d, want %d (%s)", out, code, exitFailed, stderr.String())
-		}
 	}
-	if fileSum(t, in) != sum {
+	if apptest.FileSum(t, in) != sum {
 		t.Error("the input changed")
 	}
-	if left := strayTemps(t, dir); len(left) > 0 {
+	if left := apptest.StrayTemps(t, dir); len(left) > 0 {
 		t.Errorf("temporary files left: %v", left)
 	}
-}
-
-// strayTemps lists the segy writer's temporary files (".NAME.tmp-*") in dir.
-func strayTemps(t *testing.T, dir string) []string {
-	t.Helper()
-	m, err := filepath.Glob(filepath.Join(dir, ".*.tmp-*"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	return m
 }
 
 // Checks: cancelling the context part-way returns context.Canceled, removes
@@ -319,7 +306,7 @@ func strayTemps(t *testing.T, dir string) []string {
 func TestExportCancelledLeavesDestinationsAsTheyWere(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "in.sgy")
-	writeVolume(t, in, volumeSpec{inlines: [2]int{1, 20}, crosslines: [2]int{1, 30}, samples: 200, intervalUS: 4000})
+	apptest.WriteVolume(t, in, apptest.VolumeSpec{Inlines: [2]int{1, 20}, Crosslines: [2]int{1, 30}, Samples: 200, IntervalUS: 4000})
 	previous := filepath.Join(dir, "previous.sgy")
 	if err := os.WriteFile(previous, []byte("an earlier export"), 0o644); err != nil {
 		t.Fatal(err)
@@ -338,7 +325,7 @@ func TestExportCancelledLeavesDestinationsAsTheyWere(t *testing.T) {
 			_, statErr := os.Stat(c.out)
 			before := ""
 			if statErr == nil {
-				before = fileSum(t, c.out)
+				before = apptest.FileSum(t, c.out)
 			}
 			ctx, cancel := context.WithCancel(context.Background())
 			defer cancel()
@@ -359,10 +346,10 @@ func TestExportCancelledLeavesDestinationsAsTheyWere(t *testing.T) {
 				if _, err := os.Stat(c.out); !os.IsNotExist(err) {
 					t.Errorf("%s exists after cancellation", c.out)
 				}
-			} else if fileSum(t, c.out) != before {
+			} else if apptest.FileSum(t, c.out) != before {
 				t.Errorf("%s changed after cancellation", c.out)
 			}
-			if left := strayTemps(t, dir); len(left) > 0 {
+			if left := apptest.StrayTemps(t, dir); len(left) > 0 {
 				t.Errorf("temporary files left: %v", left)
 			}
 		})
@@ -376,7 +363,7 @@ func TestExportCancelledLeavesDestinationsAsTheyWere(t *testing.T) {
 func TestExportJobErrors(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "in.sgy")
-	writeVolume(t, in, volumeSpec{inlines: [2]int{1, 2}, crosslines: [2]int{1, 3}, samples: 100, intervalUS: 4000})
+	apptest.WriteVolume(t, in, apptest.VolumeSpec{Inlines: [2]int{1, 2}, Crosslines: [2]int{1, 3}, Samples: 100, IntervalUS: 4000})
 	cases := []struct {
 		name string
 		job  Job
@@ -413,9 +400,9 @@ func TestExportJobErrors(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sec, _ := readSection(t, in)
+	sec, _ := apptest.ReadSection(t, in)
 	for k, id := range []string{"envelope", "weighted-frequency"} {
-		got, _ := readSection(t, paths[k])
+		got, _ := apptest.ReadSection(t, paths[k])
 		want := expected(t, sec, id, map[string]string{"window": "60"}, "")
 		for i := range want.Traces {
 			for s := range want.Traces[i] {
@@ -434,17 +421,17 @@ func TestExportJobErrors(t *testing.T) {
 func TestJoinRefusesBadParts(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "in.sgy")
-	writeVolume(t, in, volumeSpec{inlines: [2]int{1, 6}, crosslines: [2]int{1, 5}, samples: 80, intervalUS: 4000})
+	apptest.WriteVolume(t, in, apptest.VolumeSpec{Inlines: [2]int{1, 6}, Crosslines: [2]int{1, 5}, Samples: 80, IntervalUS: 4000})
 	other := filepath.Join(dir, "other.sgy")
-	writeVolume(t, other, volumeSpec{inlines: [2]int{7, 8}, crosslines: [2]int{1, 5}, samples: 81, intervalUS: 4000})
+	apptest.WriteVolume(t, other, apptest.VolumeSpec{Inlines: [2]int{7, 8}, Crosslines: [2]int{1, 5}, Samples: 81, IntervalUS: 4000})
 	// Raw volumes without records: a grid split in two by inlines, and the
 	// same second half with a hole.
 	rawA := filepath.Join(dir, "rawA.sgy")
-	writeVolume(t, rawA, volumeSpec{inlines: [2]int{1, 3}, crosslines: [2]int{1, 5}, samples: 80, intervalUS: 4000})
+	apptest.WriteVolume(t, rawA, apptest.VolumeSpec{Inlines: [2]int{1, 3}, Crosslines: [2]int{1, 5}, Samples: 80, IntervalUS: 4000})
 	rawB := filepath.Join(dir, "rawB.sgy")
-	writeVolume(t, rawB, volumeSpec{inlines: [2]int{4, 6}, crosslines: [2]int{1, 5}, samples: 80, intervalUS: 4000})
+	apptest.WriteVolume(t, rawB, apptest.VolumeSpec{Inlines: [2]int{4, 6}, Crosslines: [2]int{1, 5}, Samples: 80, IntervalUS: 4000})
 	rawC := filepath.Join(dir, "rawC.sgy")
-	writeVolume(t, rawC, volumeSpec{inlines: [2]int{5, 6}, crosslines: [2]int{1, 5}, samples: 80, intervalUS: 4000})
+	apptest.WriteVolume(t, rawC, apptest.VolumeSpec{Inlines: [2]int{5, 6}, Crosslines: [2]int{1, 5}, Samples: 80, IntervalUS: 4000})
 	part := func(name string, il *Range, format int) string {
 		p := filepath.Join(dir, name)
 		if _, err := Run(context.Background(), Job{Input: in, Attributes: []string{"envelope"}, Output: p, Inlines: il, Format: format}, nil); err != nil {
@@ -471,25 +458,24 @@ func TestJoinRefusesBadParts(t *testing.T) {
 		{"raw parts with a hole", []string{rawA, rawC}, out, "inline 4 crossline 1 is missing"},
 	}
 	for _, tc := range cases {
-		var stderr strings.Builder
-		before := fileSum(t, tc.parts[len(tc.parts)-1])
-		code := JoinCommand(append(append([]string{}, tc.parts...), "--out", tc.out), &strings.Builder{}, &stderr)
-		if code != exitFailed || !strings.Contains(stderr.String(), tc.want) {
-			t.Errorf("%s: exit %d, stderr %q; want %d and %q", tc.name, code, stderr.String(), exitFailed, tc.want)
+		before := apptest.FileSum(t, tc.parts[len(tc.parts)-1])
+		_, err := Join(context.Background(), tc.parts, tc.out)
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: error %v; want one with %q", tc.name, err, tc.want)
 		}
 		if tc.out == out {
 			if _, err := os.Stat(out); !os.IsNotExist(err) {
 				t.Errorf("%s: %s written", tc.name, out)
 			}
-		} else if fileSum(t, tc.out) != before {
+		} else if apptest.FileSum(t, tc.out) != before {
 			t.Errorf("%s: the part named as destination changed", tc.name)
 		}
 	}
-	if left := strayTemps(t, dir); len(left) > 0 {
+	if left := apptest.StrayTemps(t, dir); len(left) > 0 {
 		t.Errorf("temporary files left: %v", left)
 	}
 	// Raw parts that fill their grid join.
-	if code := JoinCommand([]string{rawA, rawB, "--out", out, "--quiet"}, &strings.Builder{}, &strings.Builder{}); code != exitOK {
-		t.Errorf("raw parts filling the grid: exit %d", code)
+	if _, err := Join(context.Background(), []string{rawA, rawB}, out); err != nil {
+		t.Errorf("raw parts filling the grid: %v", err)
 	}
 }

@@ -4,45 +4,11 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"io"
 	"os"
-	"os/signal"
 	"strings"
-	"syscall"
 
 	"quadtrace/segy"
 )
-
-// JoinCommand runs `quadtrace join PART... --out FILE` with args (after the
-// sub-command name) and returns the exit status (0 joined, 1 failed, 2 wrong
-// command line, 130 interrupted). It checks the parts and concatenates their
-// traces in the order given through the segy writer: see join.
-func JoinCommand(args []string, stdout, stderr io.Writer) int {
-	parts, out, quiet, err := parseJoinArgs(args, stderr)
-	if errors.Is(err, errHelp) {
-		return exitOK
-	}
-	if err != nil {
-		fmt.Fprintf(stderr, "quadtrace join: %v\n(see quadtrace join --help)\n", err)
-		return exitUsage
-	}
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	defer stop()
-	n, err := join(ctx, parts, out)
-	if err != nil {
-		if ctx.Err() != nil {
-			fmt.Fprintln(stderr, "quadtrace join: interrupted; nothing written")
-			return exitInterrupted
-		}
-		fmt.Fprintf(stderr, "quadtrace join: %v\n", err)
-		return exitFailed
-	}
-	if !quiet {
-		fmt.Fprintf(stdout, "%s\n", out)
-		fmt.Fprintf(stderr, "quadtrace join: %d traces from %d parts\n", n, len(parts))
-	}
-	return exitOK
-}
 
 // joinPart is one open part of a join.
 type joinPart struct {
@@ -54,7 +20,7 @@ type joinPart struct {
 	has  bool // rec was found in the textual header
 }
 
-// join checks the parts and writes their traces, in the order given, to out
+// Join checks the parts and writes their traces, in the order given, to out
 // through the segy writer (a temporary file renamed into place when
 // complete; out is refused when it is one of the parts). It returns the
 // number of traces written.
@@ -68,7 +34,7 @@ type joinPart struct {
 // Otherwise the parts must fill the regular grid spanned by their inline
 // and crossline numbers (steps from the numbering), and the first hole is
 // reported.
-func join(ctx context.Context, paths []string, out string) (int, error) {
+func Join(ctx context.Context, paths []string, out string) (int, error) {
 	if len(paths) == 0 {
 		return 0, errors.New("no part given")
 	}

@@ -32,61 +32,6 @@ func TestBlockSize(t *testing.T) {
 	}
 }
 
-func TestParseBytes(t *testing.T) {
-	cases := []struct {
-		in   string
-		want int64
-		fail bool
-	}{
-		{"256M", 256 << 20, false},
-		{"256MiB", 256 << 20, false},
-		{"256mb", 256 << 20, false},
-		{"1G", 1 << 30, false},
-		{"1.5G", 3 << 29, false},
-		{"64k", 64 << 10, false},
-		{"1000000", 1000000, false},
-		{"", 0, true},
-		{"M", 0, true},
-		{"-5M", 0, true},
-		{"0", 0, true},
-		{"12X", 0, true},
-	}
-	for _, c := range cases {
-		got, err := parseBytes(c.in)
-		if (err != nil) != c.fail || got != c.want {
-			t.Errorf("parseBytes(%q) = %d, %v; want %d (fail %v)", c.in, got, err, c.want, c.fail)
-		}
-	}
-}
-
-func TestParseRange(t *testing.T) {
-	cases := []struct {
-		in   string
-		want *Range
-	}{
-		{"100:200", &Range{100, 200}},
-		{" 5 : 5 ", &Range{5, 5}},
-		{"7", &Range{7, 7}},
-		{"-3:4", &Range{-3, 4}},
-		{"200:100", nil},
-		{"a:b", nil},
-		{"1:", nil},
-		{"", nil},
-	}
-	for _, c := range cases {
-		got, err := parseRange(c.in)
-		if c.want == nil {
-			if err == nil {
-				t.Errorf("parseRange(%q) = %v, want an error", c.in, got)
-			}
-			continue
-		}
-		if err != nil || *got != *c.want {
-			t.Errorf("parseRange(%q) = %v, %v; want %v", c.in, got, err, c.want)
-		}
-	}
-}
-
 func TestSelectRuns(t *testing.T) {
 	// An invented inline-sorted grid: inlines 10..13, crosslines 1..5.
 	key := func(i int) (int, int, error) { return 10 + i/5, 1 + i%5, nil }
@@ -117,6 +62,34 @@ func TestSelectRuns(t *testing.T) {
 			if got[i] != c.want[i] {
 				t.Errorf("%s: runs %v, want %v", c.name, got, c.want)
 			}
+		}
+	}
+}
+
+func TestParseRange(t *testing.T) {
+	cases := []struct {
+		in   string
+		want *Range
+	}{
+		{"100:200", &Range{100, 200}},
+		{" 5 : 5 ", &Range{5, 5}},
+		{"7", &Range{7, 7}},
+		{"-3:4", &Range{-3, 4}},
+		{"200:100", nil},
+		{"a:b", nil},
+		{"1:", nil},
+		{"", nil},
+	}
+	for _, c := range cases {
+		got, err := ParseRange(c.in)
+		if c.want == nil {
+			if err == nil {
+				t.Errorf("ParseRange(%q) = %v, want an error", c.in, got)
+			}
+			continue
+		}
+		if err != nil || *got != *c.want {
+			t.Errorf("ParseRange(%q) = %v, %v; want %v", c.in, got, err, c.want)
 		}
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"quadtrace/app/version"
 	"quadtrace/segy"
 )
 
@@ -32,7 +33,7 @@ type headerFacts struct {
 func textHeader(f headerFacts) string {
 	var body []string
 	add := func(format string, a ...any) { body = append(body, fmt.Sprintf(format, a...)) }
-	add("quadtrace %s attribute volume", Version)
+	add("quadtrace %s attribute volume", version.Version)
 	add("attribute: %s (%s)", f.stage.id, f.stage.name)
 	params := f.stage.params
 	if params == "" {
@@ -159,7 +160,7 @@ func parsePartRecord(text string) (rec partRecord, ok bool) {
 		if t == "all" {
 			return nil, true
 		}
-		r, err := parseRange(t)
+		r, err := ParseRange(t)
 		return r, err == nil
 	}
 	var ok1, ok2 bool

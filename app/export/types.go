@@ -2,12 +2,10 @@ package export
 
 import (
 	"fmt"
+	"strconv"
+	"strings"
 	"time"
 )
-
-// Version is the quadtrace version recorded in the textual header of every
-// volume the export writes.
-const Version = "0.1.0"
 
 // Range is an inclusive range of inline or crossline numbers, First <= Last.
 type Range struct{ First, Last int }
@@ -61,4 +59,24 @@ func selectRuns(n int, inlines, crosslines *Range, key func(i int) (inline, cros
 		return nil, fmt.Errorf("%w: no trace has inline in %s and crossline in %s", errNoTraces, inlines, crosslines)
 	}
 	return runs, nil
+}
+
+// ParseRange reads an inclusive range "A:B" of inline or crossline numbers.
+// A single number "A" is the range A:A.
+func ParseRange(s string) (*Range, error) {
+	a, b, found := strings.Cut(strings.TrimSpace(s), ":")
+	first, err := strconv.Atoi(strings.TrimSpace(a))
+	if err != nil {
+		return nil, fmt.Errorf("range %q: want FIRST:LAST, two whole numbers", s)
+	}
+	last := first
+	if found {
+		if last, err = strconv.Atoi(strings.TrimSpace(b)); err != nil {
+			return nil, fmt.Errorf("range %q: want FIRST:LAST, two whole numbers", s)
+		}
+	}
+	if last < first {
+		return nil, fmt.Errorf("range %q: last %d is before first %d", s, last, first)
+	}
+	return &Range{First: first, Last: last}, nil
 }

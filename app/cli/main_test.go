@@ -1,0 +1,22 @@
+package cli
+
+import (
+	"os"
+	"testing"
+)
+
+// childEnv, when set in the environment, makes the test binary act as the
+// quadtrace command instead of running tests: "export" runs Export and
+// "join" Join with the process arguments. The interruption and
+// memory tests start it that way to signal and measure a real process.
+const childEnv = "QUADTRACE_EXPORT_TEST_CHILD"
+
+func TestMain(m *testing.M) {
+	switch os.Getenv(childEnv) {
+	case "export":
+		os.Exit(Export(os.Args[1:], os.Stdout, os.Stderr))
+	case "join":
+		os.Exit(Join(os.Args[1:], os.Stdout, os.Stderr))
+	}
+	os.Exit(m.Run())
+}
