@@ -67,6 +67,24 @@ type MapSpec struct {
 	Base *Horizon
 }
 
+// Validate reports what in the spec Map cannot use: no statistic, a
+// window that is not a pair of finite numbers, or (without Base) one that
+// ends before it starts.
+func (spec MapSpec) Validate() error {
+	if spec.Stat < Value || spec.Stat > MinAbs {
+		return fmt.Errorf("map: no statistic chosen (want one of %v)", Stats())
+	}
+	if spec.Stat != Value {
+		if math.IsNaN(spec.FromMS) || math.IsNaN(spec.ToMS) || math.IsInf(spec.FromMS, 0) || math.IsInf(spec.ToMS, 0) {
+			return fmt.Errorf("map: window %v to %v ms is not a pair of finite numbers", spec.FromMS, spec.ToMS)
+		}
+		if spec.Base == nil && spec.ToMS < spec.FromMS {
+			return fmt.Errorf("map: window %g to %g ms ends before it starts", spec.FromMS, spec.ToMS)
+		}
+	}
+	return nil
+}
+
 // AttributeMap is a map on a grid, inline-major like Horizon: Values[il*
 // Crosslines+xl], NaN where there is no value (no pick, the window off the
 // trace or holding only gaps).
@@ -91,16 +109,8 @@ func Map(ctx context.Context, src Source, top *Horizon, spec MapSpec, progress f
 	if spec.Base != nil && (spec.Base.Inlines != g.Inlines || spec.Base.Crosslines != g.Crosslines) {
 		return nil, fmt.Errorf("map: the base horizon's grid does not match the survey's %d x %d traces", g.Inlines, g.Crosslines)
 	}
-	if spec.Stat < Value || spec.Stat > MinAbs {
-		return nil, fmt.Errorf("map: no statistic chosen (want one of %v)", Stats())
-	}
-	if spec.Stat != Value {
-		if math.IsNaN(spec.FromMS) || math.IsNaN(spec.ToMS) || math.IsInf(spec.FromMS, 0) || math.IsInf(spec.ToMS, 0) {
-			return nil, fmt.Errorf("map: window %v to %v ms is not a pair of finite numbers", spec.FromMS, spec.ToMS)
-		}
-		if spec.Base == nil && spec.ToMS < spec.FromMS {
-			return nil, fmt.Errorf("map: window %g to %g ms ends before it starts", spec.FromMS, spec.ToMS)
-		}
+	if err := spec.Validate(); err != nil {
+		return nil, err
 	}
 	out := &AttributeMap{Inlines: g.Inlines, Crosslines: g.Crosslines, Values: make([]float32, g.Inlines*g.Crosslines)}
 	var next, done atomic.Int64
