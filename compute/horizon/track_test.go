@@ -245,4 +245,3 @@ func TestConcurrentTracks(t *testing.T) {
 	}
 	wg.Wait()
 }
-
