@@ -250,3 +250,46 @@ func FromPicks(l Layout, picks []Pick) (*Horizon, error) {
 	}
 	return h, nil
 }
+
+// MapHeader is the first line of a map file written by WriteMap.
+const MapHeader = "inline crossline x y value"
+
+// WriteMap writes a map as text: the MapHeader line, then one line per
+// trace with a value (NaN traces are left out), in grid order: inline and
+// crossline numbers, x and y to 0.01 m, the value with 7 significant
+// digits (a float32 keeps about that many).
+func WriteMap(w io.Writer, m *AttributeMap, l Layout) error {
+	if m == nil || m.Inlines != l.Inlines || m.Crosslines != l.Crosslines || len(m.Values) != m.Inlines*m.Crosslines {
+		return fmt.Errorf("writing map: the map's grid does not match the layout's %d x %d traces", l.Inlines, l.Crosslines)
+	}
+	bw := bufio.NewWriter(w)
+	bw.WriteString(MapHeader + "\n")
+	buf := make([]byte, 0, 96)
+	for k, v := range m.Values {
+		if math.IsNaN(float64(v)) || math.IsInf(float64(v), 0) {
+			continue
+		}
+		il, xl := k/m.Crosslines, k%m.Crosslines
+		var x, y float64
+		if l.XY != nil {
+			x, y = l.XY(il, xl)
+		}
+		buf = strconv.AppendInt(buf[:0], int64(l.FirstInline+il*l.InlineStep), 10)
+		buf = append(buf, ' ')
+		buf = strconv.AppendInt(buf, int64(l.FirstCrossline+xl*l.CrosslineStep), 10)
+		buf = append(buf, ' ')
+		buf = strconv.AppendFloat(buf, x, 'f', 2, 64)
+		buf = append(buf, ' ')
+		buf = strconv.AppendFloat(buf, y, 'f', 2, 64)
+		buf = append(buf, ' ')
+		buf = strconv.AppendFloat(buf, float64(v), 'g', 7, 32)
+		buf = append(buf, '\n')
+		if _, err := bw.Write(buf); err != nil {
+			return fmt.Errorf("writing map: %w", err)
+		}
+	}
+	if err := bw.Flush(); err != nil {
+		return fmt.Errorf("writing map: %w", err)
+	}
+	return nil
+}

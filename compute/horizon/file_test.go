@@ -136,3 +136,22 @@ func TestPicksOffTheGrid(t *testing.T) {
 		t.Error("Write accepted a NaN time")
 	}
 }
+
+// A map file has the header line and one row per trace with a value, the
+// value as written reading back to the float32 it was.
+func TestWriteMap(t *testing.T) {
+	l := horizon.Layout{Inlines: 2, Crosslines: 3, FirstInline: 5, InlineStep: 1, FirstCrossline: 100, CrosslineStep: 2}
+	nan := float32(math.NaN())
+	m := &horizon.AttributeMap{Inlines: 2, Crosslines: 3, Values: []float32{1.2345678, nan, -3e-7, 4, nan, 6.5e12}}
+	var buf bytes.Buffer
+	if err := horizon.WriteMap(&buf, m, l); err != nil {
+		t.Fatal(err)
+	}
+	want := horizon.MapHeader + "\n5 100 0.00 0.00 1.234568\n5 104 0.00 0.00 -3e-07\n6 100 0.00 0.00 4\n6 104 0.00 0.00 6.5e+12\n"
+	if buf.String() != want {
+		t.Errorf("map file:\n%s\nwant:\n%s", buf.String(), want)
+	}
+	if err := horizon.WriteMap(&buf, m, horizon.Layout{Inlines: 3, Crosslines: 3}); err == nil {
+		t.Error("a map on another grid was written")
+	}
+}
