@@ -192,3 +192,72 @@ func TestMapAttributeMatchesWholeVolume(t *testing.T) {
 		t.Errorf("seed off the grid: %v", err)
 	}
 }
+
+// Maps of an attribute along a tracked horizon agree with numpy (Debian's
+// python3-numpy, testdata/horizon/map_stats.py) computed on the attribute
+// volume written as SEG-Y and read back with segyio (python3-segyio):
+// every statistic over a window, to float32 precision.
+func TestMapAgreesWithNumpyOnSegyioVolume(t *testing.T) {
+	py := segytest.NeedPython(t, "segyio", "numpy")
+	dir := t.TempDir()
+	s, f := noisySegy(t, py, dir)
+	src, err := NewFileSource(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sf, _ := s.Surface(synth.SurfaceSeafloor)
+	h, err := horizon.Track(context.Background(), src, []horizon.Seed{{Inline: 3, Crossline: 4, TimeMS: float64(sf.PeakMS[3*50+4])}}, horizon.Options{Event: horizon.Peak, WindowMS: 4}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := compute.Lookup("envelope")
+	p, _ := a.Resolve(nil)
+	env, err := a.Compute(context.Background(), compute.Section{Traces: s.Traces, DT: s.IntervalMS() / 1000}, p, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeVolume(t, filepath.Join(dir, "env"), env.Traces, s.IntervalMS())
+	envSgy := filepath.Join(dir, "env.sgy")
+	runPython(t, py, script("segyio_volume.py"), "write", filepath.Join(dir, "env"), "40", "50", "1000", "2000", envSgy)
+	var tb bytes.Buffer
+	binary.Write(&tb, binary.LittleEndian, h.TimeMS)
+	os.WriteFile(filepath.Join(dir, "top"), tb.Bytes(), 0o644)
+	stats := []horizon.Stat{horizon.Mean, horizon.MeanAbs, horizon.RMS, horizon.MaxAbs, horizon.MinAbs}
+	args := []string{script("map_stats.py"), envSgy, filepath.Join(dir, "top"), "-", filepath.Join(dir, "out"), "value", "0", "0"}
+	for _, st := range stats {
+		args = append(args, st.String(), "-9.3", "13.1")
+	}
+	runPython(t, py, args...)
+	raw, _ := os.ReadFile(filepath.Join(dir, "out"))
+	want := make([]float64, len(raw)/8)
+	binary.Read(bytes.NewReader(raw), binary.LittleEndian, want)
+	n := len(h.State)
+	if len(want) != n*(1+len(stats)) {
+		t.Fatalf("numpy gave %d values, want %d", len(want), n*(1+len(stats)))
+	}
+	for i, spec := range append([]horizon.MapSpec{{Stat: horizon.Value}}, func() []horizon.MapSpec {
+		var out []horizon.MapSpec
+		for _, st := range stats {
+			out = append(out, horizon.MapSpec{Stat: st, FromMS: -9.3, ToMS: 13.1})
+		}
+		return out
+	}()...) {
+		m, err := MapAttribute(context.Background(), src, h, a, p, spec, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		values := 0
+		for k, g := range m.Values {
+			w := want[i*n+k]
+			if math.IsNaN(w) != math.IsNaN(float64(g)) || math.Abs(float64(g)-w) > 1e-5*math.Max(1e-3, math.Abs(w)) {
+				t.Fatalf("%v: trace %d: %v, numpy on segyio's reading %v", spec.Stat, k, g, w)
+			}
+			if !math.IsNaN(w) {
+				values++
+			}
+		}
+		if values < n*9/10 {
+			t.Errorf("%v: only %d values", spec.Stat, values)
+		}
+	}
+}

@@ -7,7 +7,9 @@ Run with /usr/bin/python3 (the Go tests do):
   map_stats.py VOLUME TOP BASE OUT STAT FROM_MS TO_MS [STAT FROM_MS TO_MS ...]
 
 VOLUME (little-endian): int32 ntr, int32 ns, float64 dt_ms, float64 t0_ms,
-then ntr*ns float32 samples, trace after trace (NaN samples are gaps).
+then ntr*ns float32 samples, trace after trace (NaN samples are gaps); or,
+when its name ends in .sgy, a SEG-Y file read with segyio (Debian's
+python3-segyio), traces in file order.
 TOP and BASE: ntr float64 horizon times in ms, NaN where empty; BASE is
 "-" for a window relative to TOP only. For each (STAT, FROM_MS, TO_MS) the
 map is appended to OUT as ntr float64 values:
@@ -26,10 +28,19 @@ import numpy as np
 
 def main(argv):
     vol, top, base, out = argv[1:5]
-    with open(vol, "rb") as f:
-        ntr, ns = struct.unpack("<ii", f.read(8))
-        dt, t0 = struct.unpack("<dd", f.read(16))
-        data = np.frombuffer(f.read(), dtype="<f4").reshape(ntr, ns).astype(np.float64)
+    if vol.endswith(".sgy"):
+        import segyio
+
+        with segyio.open(vol, ignore_geometry=True) as f:
+            times = np.asarray(f.samples, dtype=np.float64)
+            t0, dt = times[0], times[1] - times[0]
+            data = segyio.tools.collect(f.trace[:]).astype(np.float64)
+        ntr, ns = data.shape
+    else:
+        with open(vol, "rb") as f:
+            ntr, ns = struct.unpack("<ii", f.read(8))
+            dt, t0 = struct.unpack("<dd", f.read(16))
+            data = np.frombuffer(f.read(), dtype="<f4").reshape(ntr, ns).astype(np.float64)
     top = np.fromfile(top, dtype="<f8")
     base = None if base == "-" else np.fromfile(base, dtype="<f8")
     times = t0 + dt * np.arange(ns)
