@@ -137,6 +137,9 @@ func Track(args []string, stdout, stderr io.Writer) int {
 		return fail(2, fmt.Errorf("--event: %w", err))
 	}
 	opt := horizon.Options{Event: ev, WindowMS: *window, MaxPhaseJumpDeg: *phase, MinEnvelope: *env, MinCorrelation: *corr, CorrelationMS: *corrWin}
+	if err := opt.Check(); err != nil {
+		return fail(2, err)
+	}
 	segyOpt, err := options()
 	if err != nil {
 		return fail(2, err)

@@ -69,34 +69,43 @@ const (
 	batch = 64
 )
 
-// validate checks the options and fills in the defaults.
-func (o Options) resolved(g Grid) (Options, error) {
+// Check reports the first option that no grid can use (Track checks the
+// search window against the sample interval besides).
+func (o Options) Check() error {
 	if !o.Event.valid() {
-		return o, fmt.Errorf("tracking: no event chosen (want %v)", Events())
+		return fmt.Errorf("tracking: no event chosen (want %v)", Events())
 	}
 	if !(o.WindowMS > 0) || math.IsInf(o.WindowMS, 0) {
-		return o, fmt.Errorf("tracking: search window %v ms: want a positive number of ms", o.WindowMS)
+		return fmt.Errorf("tracking: search window %v ms: want a positive number of ms", o.WindowMS)
+	}
+	if math.IsNaN(o.MaxPhaseJumpDeg) || o.MaxPhaseJumpDeg < 0 {
+		return fmt.Errorf("tracking: maximum phase jump %v degrees: want 0 (off) or more", o.MaxPhaseJumpDeg)
+	}
+	if math.IsNaN(o.MinEnvelope) || o.MinEnvelope < 0 || math.IsInf(o.MinEnvelope, 0) {
+		return fmt.Errorf("tracking: minimum envelope fraction %v: want 0 (off) or more", o.MinEnvelope)
+	}
+	if !(o.MinCorrelation >= -1 && o.MinCorrelation <= 1) {
+		return fmt.Errorf("tracking: minimum correlation %v: want -1 to 1", o.MinCorrelation)
+	}
+	if o.LevelRadius < 0 {
+		return fmt.Errorf("tracking: level radius %d traces is negative", o.LevelRadius)
+	}
+	if math.IsNaN(o.CorrelationMS) || o.CorrelationMS < 0 || math.IsInf(o.CorrelationMS, 0) {
+		return fmt.Errorf("tracking: correlation window %v ms: want a positive length", o.CorrelationMS)
+	}
+	return nil
+}
+
+// resolved checks the options for grid g and fills in the defaults.
+func (o Options) resolved(g Grid) (Options, error) {
+	if err := o.Check(); err != nil {
+		return o, err
 	}
 	if o.WindowMS < g.dtMS()/2 {
 		return o, fmt.Errorf("tracking: search window %v ms is less than half the %v ms sample interval", o.WindowMS, g.dtMS())
 	}
-	if math.IsNaN(o.MaxPhaseJumpDeg) || o.MaxPhaseJumpDeg < 0 {
-		return o, fmt.Errorf("tracking: maximum phase jump %v degrees: want 0 (off) or more", o.MaxPhaseJumpDeg)
-	}
-	if math.IsNaN(o.MinEnvelope) || o.MinEnvelope < 0 || math.IsInf(o.MinEnvelope, 0) {
-		return o, fmt.Errorf("tracking: minimum envelope fraction %v: want 0 (off) or more", o.MinEnvelope)
-	}
-	if !(o.MinCorrelation >= -1 && o.MinCorrelation <= 1) {
-		return o, fmt.Errorf("tracking: minimum correlation %v: want -1 to 1", o.MinCorrelation)
-	}
-	if o.LevelRadius < 0 {
-		return o, fmt.Errorf("tracking: level radius %d traces is negative", o.LevelRadius)
-	}
 	if o.LevelRadius == 0 {
 		o.LevelRadius = DefaultLevelRadius
-	}
-	if math.IsNaN(o.CorrelationMS) || o.CorrelationMS < 0 || math.IsInf(o.CorrelationMS, 0) {
-		return o, fmt.Errorf("tracking: correlation window %v ms: want a positive length", o.CorrelationMS)
 	}
 	if o.CorrelationMS == 0 {
 		o.CorrelationMS = DefaultCorrelationMS
