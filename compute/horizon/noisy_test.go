@@ -29,7 +29,14 @@ func TestNoisyTrackingAgreesWithScipyPeaks(t *testing.T) {
 		t.Fatal(err)
 	}
 	dir := t.TempDir()
-	writeVolume(t, filepath.Join(dir, "vol"), s.Traces, s.IntervalMS(), 0)
+	// The first 300 ms hold the seafloor (80 to 120 ms) well inside, so
+	// scipy's peaks there are those of the whole trace; the rest is left
+	// out to keep the reference run short.
+	short := make([][]float32, len(s.Traces))
+	for k, tr := range s.Traces {
+		short[k] = tr[:151]
+	}
+	writeVolume(t, filepath.Join(dir, "vol"), short, s.IntervalMS(), 0)
 	guide := make([]float64, len(f.PeakMS))
 	for k, v := range f.PeakMS {
 		guide[k] = float64(v)
