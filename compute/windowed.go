@@ -11,7 +11,7 @@ import (
 func windowedAttribute(fill func(w *traceWork, half int, out []float32)) computeFunc {
 	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
 		half := windowHalf(p.Float("window"), in.DT)
-		return analyticRun(ctx, in, p, progress, true, func(w *traceWork, out []float32) {
+		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: true}, func(w *traceWork, out []float32) {
 			fill(w, half, out)
 		})
 	}
@@ -200,21 +200,17 @@ func rmsAmplitude(ctx context.Context, in Section, p Params, progress func(done,
 // Units are amplitude·s.
 func relativeImpedance(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
 	fc := p.Float("low-cut")
-	return analyticRun(ctx, in, p, progress, false, func(w *traceWork, out []float32) {
-		df := 1 / (float64(w.m) * w.dt)
-		last := len(w.work)
-		if w.nyquist() {
-			last--
-			w.work[last] = 0
-		}
-		w.work[0] = 0
-		for k := 1; k < last; k++ {
+	op := func(p *analyticPair) spectralOp {
+		op := make(spectralOp, p.m/2+1)
+		df := 1 / (float64(p.m) * p.dt)
+		s := 1 / float64(p.m)
+		for k := 1; k <= (p.m-1)/2; k++ {
 			f := df * float64(k)
-			g := lowCutGain(f, fc) / (twoPi * f)
-			c := w.spec[k]
-			w.work[k] = complex(g*imag(c), -g*real(c)) // X g / i
+			op[k] = complex(0, -lowCutGain(f, fc)/(twoPi*f)*s) // L(f)/(i2πf)
 		}
-		w.inverse(w.v)
+		return op
+	}
+	return analyticRun(ctx, in, p, progress, analyticNeeds{op: op}, func(w *traceWork, out []float32) {
 		for j := range out {
 			out[j] = float32(w.v[j])
 		}
