@@ -92,7 +92,9 @@ func weightedBandwidthAt(w *traceWork, half int, out []float32) {
 }
 
 // thinBedAt is the thin-bed indicator after Taner (2001): instantaneous
-// frequency minus the weighted average frequency over the window (from
+// frequency minus the weighted average frequency over the window, whose
+// weights are the envelope squared, a² (Barnes 1993, as
+// weightedFrequencyAt), not the envelope (from
 // memory: Taner takes the difference of the two; we keep its sign, so
 // interference spikes show up and down).
 func thinBedAt(w *traceWork, half int, out []float32) {
