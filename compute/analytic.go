@@ -106,11 +106,17 @@ func (t *analyticTrace) load(tr []float32, taper []float64) {
 }
 
 // spectralOp is a real linear time-invariant operator given by its
-// frequency response: op[k] multiplies bin k for k = 0..m/2 (positive
-// frequencies), the negative frequency -k takes conj(op[k]) so that real
-// signals stay real, and op[0] and (m even) op[m/2] must be real. The 1/m
-// of the inverse transform is folded in.
-type spectralOp []complex128
+// frequency response at bins k = 0..m/2 (the positive frequencies; the
+// negative frequency -k takes the conjugate response, so real signals stay
+// real): g[k] when the response is real (zero phase: filters, |ω|, -ω²),
+// i·g[k] when it is imaginary (Hilbert transform, iω, integration). Every
+// operator quadtrace needs is one of the two, which keeps the per-bin work
+// at two multiplications. g[0] and (m even) g[m/2] must be 0 for an
+// imaginary response. The 1/m of the inverse transform is folded into g.
+type spectralOp struct {
+	g         []float64
+	imaginary bool
+}
 
 // analyticPair computes analytic traces two at a time: the real traces a
 // and b are transformed together as a + ib with one complex FFT of length m
@@ -179,22 +185,22 @@ func (p *analyticPair) setup(n int, dt float64, end EndTreatment, plan *fftPlan)
 		s := math.Sin(math.Pi * (float64(j) + 0.5) / float64(2*L))
 		p.taper[j] = s * s
 	}
-	p.hilbert = p.makeOp(func(om float64) complex128 { return complex(0, -1) })
-	p.dx = p.makeOp(func(om float64) complex128 { return complex(0, om) })
-	p.dh = p.makeOp(func(om float64) complex128 { return complex(om, 0) })
-	p.ddx = p.makeOp(func(om float64) complex128 { return complex(-om*om, 0) })
-	p.ddh = p.makeOp(func(om float64) complex128 { return complex(0, om*om) })
+	p.hilbert = p.makeOp(true, func(om float64) float64 { return -1 })
+	p.dx = p.makeOp(true, func(om float64) float64 { return om })
+	p.dh = p.makeOp(false, func(om float64) float64 { return om })
+	p.ddx = p.makeOp(false, func(om float64) float64 { return -om * om })
+	p.ddh = p.makeOp(true, func(om float64) float64 { return om * om })
 	return nil
 }
 
-// makeOp builds the spectralOp with response resp(ω) at the positive
-// angular frequencies ω of bins 1..(m-1)/2, zero at DC and Nyquist.
-func (p *analyticPair) makeOp(resp func(om float64) complex128) spectralOp {
-	op := make(spectralOp, p.m/2+1)
+// makeOp builds the spectralOp with response resp(ω) (times i when
+// imaginary) at the positive angular frequencies ω of bins 1..(m-1)/2,
+// zero at DC and Nyquist.
+func (p *analyticPair) makeOp(imaginary bool, resp func(om float64) float64) spectralOp {
+	op := spectralOp{g: make([]float64, p.m/2+1), imaginary: imaginary}
 	dw := 2 * math.Pi / (float64(p.m) * p.dt)
-	s := complex(1/float64(p.m), 0)
 	for k := 1; k <= (p.m-1)/2; k++ {
-		op[k] = resp(dw*float64(k)) * s
+		op.g[k] = resp(dw*float64(k)) / float64(p.m)
 	}
 	return op
 }
@@ -221,19 +227,34 @@ func (p *analyticPair) forward(a, b *analyticTrace) {
 func (p *analyticPair) apply(op spectralOp, ra, rb []float64) {
 	m, s, z := p.m, p.spec, p.z
 	// z = conj(op·spec), so that a forward transform and a final conjugate
-	// make the inverse: ifft(Y) = conj(fft(conj(Y))).
-	z[0] = complex(real(op[0]), 0) * complex(real(s[0]), -imag(s[0]))
+	// make the inverse: ifft(Y) = conj(fft(conj(Y))). At bin k, with
+	// u = spec_k: real g: conj(g u) = g conj(u); imaginary: conj(i g u) =
+	// g (-imag u - i real u). At bin m-k (response conjugated), with
+	// v = spec_{m-k}: real: g conj(v); imaginary: conj(-i g v) =
+	// g (imag v + i real v).
 	pos := (m - 1) / 2
-	for k := 1; k <= pos; k++ {
-		c, u, v := op[k], s[k], s[m-k]
-		w := c * u
-		z[k] = complex(real(w), -imag(w))
-		// conj(conj(c)·v) = c·conj(v)
-		z[m-k] = c * complex(real(v), -imag(v))
-	}
-	if m%2 == 0 {
-		v := s[m/2]
-		z[m/2] = complex(real(op[m/2]), 0) * complex(real(v), -imag(v))
+	g := op.g[:pos+1]
+	if op.imaginary {
+		z[0] = 0
+		for k := 1; k <= pos; k++ {
+			c, u, v := g[k], s[k], s[m-k]
+			z[k] = complex(-c*imag(u), -c*real(u))
+			z[m-k] = complex(c*imag(v), c*real(v))
+		}
+		if m%2 == 0 {
+			z[m/2] = 0
+		}
+	} else {
+		z[0] = complex(g[0]*real(s[0]), -g[0]*imag(s[0]))
+		for k := 1; k <= pos; k++ {
+			c, u, v := g[k], s[k], s[m-k]
+			z[k] = complex(c*real(u), -c*imag(u))
+			z[m-k] = complex(c*real(v), -c*imag(v))
+		}
+		if m%2 == 0 {
+			v, c := s[m/2], op.g[m/2]
+			z[m/2] = complex(c*real(v), -c*imag(v))
+		}
 	}
 	p.plan.transform(z, z, p.work)
 	if rb == nil {

@@ -67,7 +67,7 @@ func analyticRun(ctx context.Context, in Section, p Params, progress func(done, 
 		if err := w.p.setup(n, in.DT, end, plan); err != nil {
 			return err
 		}
-		if needs.op != nil && (w.op == nil || len(w.op) != w.p.m/2+1) {
+		if needs.op != nil && len(w.op.g) != w.p.m/2+1 {
 			w.op = needs.op(&w.p)
 		}
 		var tb []float32
@@ -86,7 +86,7 @@ func analyticRun(ctx context.Context, in Section, p Params, progress func(done, 
 			w.p.apply(w.p.ddx, w.a.ddx, bdd)
 			w.p.apply(w.p.ddh, w.a.ddh, bddh)
 		}
-		if w.op != nil {
+		if needs.op != nil {
 			w.p.apply(w.op, w.a.v, bv)
 		}
 		for k, t := range []*traceWork{&w.a, b} {

@@ -14,7 +14,7 @@ func interior(n int) (int, int) { return n / 4, 3 * n / 4 }
 // frequency is the carrier's, the instantaneous bandwidth |a'/a|/2π
 // (Barnes 1992) and the dominant frequency sqrt(f² + b²) (Barnes 1993).
 func TestEnvelopeDerivativesBandwidthDominantOnAM(t *testing.T) {
-	const n, dt = 1024, 0.002
+	const n, dt = 1000, 0.002
 	const fc, fm, d = 50.0, 4.0, 0.6
 	wm := 2 * math.Pi * fm
 	x := sampled(n, dt, func(t float64) float64 { return (1 + d*math.Cos(wm*t)) * math.Cos(2*math.Pi*fc*t) })

@@ -211,7 +211,7 @@ func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done,
 			if err := w.p.setup(n, in.DT, pad, plan); err != nil {
 				return err
 			}
-			if w.op == nil {
+			if w.op.g == nil {
 				w.op = c.bandpassOp(&w.p)
 			}
 			w.a.resize(n, in.DT)
@@ -240,12 +240,12 @@ func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done,
 // bandpassOp is the band-pass gain as a spectralOp for p's padded length
 // (real, so zero phase; DC and Nyquist included).
 func (c Conditioning) bandpassOp(p *analyticPair) spectralOp {
-	op := make(spectralOp, p.m/2+1)
+	op := spectralOp{g: make([]float64, p.m/2+1)}
 	df := 1 / (float64(p.m) * p.dt)
 	s := 1 / float64(p.m)
-	for k := range op {
+	for k := range op.g {
 		f := df * float64(k)
-		op[k] = complex(lowCutGain(f, c.LowCutHz)*highCutGain(f, c.HighCutHz)*s, 0)
+		op.g[k] = lowCutGain(f, c.LowCutHz) * highCutGain(f, c.HighCutHz) * s
 	}
 	return op
 }

@@ -203,14 +203,9 @@ func rmsAmplitude(ctx context.Context, in Section, p Params, progress func(done,
 func relativeImpedance(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
 	fc := p.Float("low-cut")
 	op := func(p *analyticPair) spectralOp {
-		op := make(spectralOp, p.m/2+1)
-		df := 1 / (float64(p.m) * p.dt)
-		s := 1 / float64(p.m)
-		for k := 1; k <= (p.m-1)/2; k++ {
-			f := df * float64(k)
-			op[k] = complex(0, -lowCutGain(f, fc)/(twoPi*f)*s) // L(f)/(i2πf)
-		}
-		return op
+		return p.makeOp(true, func(om float64) float64 {
+			return -lowCutGain(om/twoPi, fc) / om // L(f)/(i2πf)
+		})
 	}
 	return analyticRun(ctx, in, p, progress, analyticNeeds{op: op}, func(w *traceWork, out []float32) {
 		for j := range out {
