@@ -115,6 +115,14 @@ func (t *analyticTrace) markGaps(out []float32) {
 	}
 }
 
+// traceAttribute makes a computeFunc from a whole-trace formula of x, h
+// and (when deriv is set) x', h'.
+func traceAttribute(deriv bool, fill func(w *traceWork, out []float32)) computeFunc {
+	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
+		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: deriv}, fill)
+	}
+}
+
 // sampleAttribute makes a computeFunc from a per-sample formula of x, h and
 // (when deriv is set) x', h'.
 func sampleAttribute(deriv bool, at func(w *traceWork, j int) float64) computeFunc {
@@ -131,7 +139,16 @@ const twoPi = 2 * math.Pi
 
 func quadratureAt(w *traceWork, j int) float64 { return w.h[j] }
 
-func envelopeAt(w *traceWork, j int) float64 { return math.Hypot(w.x[j], w.h[j]) }
+// envelopeTrace writes the envelope sqrt(x² + h²) of a trace (one loop
+// with nothing called per sample: the export's hot path). x and h come from
+// float32 samples, so x² + h² can neither overflow nor lose precision to
+// underflow in float64, and math.Hypot's scaling is not needed.
+func envelopeTrace(w *traceWork, out []float32) {
+	x, h := w.x[:len(out)], w.h[:len(out)]
+	for j, xj := range x {
+		out[j] = float32(math.Sqrt(xj*xj + h[j]*h[j]))
+	}
+}
 
 // phaseAt is atan2(h, x) in degrees, -180..180.
 func phaseAt(w *traceWork, j int) float64 { return fastAtan2(w.h[j], w.x[j]) * (180 / math.Pi) }

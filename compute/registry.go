@@ -146,7 +146,7 @@ func registry() []*Attribute {
 			Params: analyticParams(), run: sampleAttribute(false, quadratureAt)},
 		{ID: "envelope", Name: "Envelope (reflection strength)", Unit: "amplitude", Kind: Magnitude, Group: GroupAmplitude,
 			Description: "modulus of the analytic trace", Source: srcTaner1979,
-			Params: analyticParams(), run: sampleAttribute(false, envelopeAt)},
+			Params: analyticParams(), run: traceAttribute(false, envelopeTrace)},
 		{ID: "envelope-derivative", Name: "Envelope first derivative", Unit: "amplitude/s", Kind: Signed, Group: GroupAmplitude,
 			Description: "time derivative of the envelope, (x x' + h h')/a", Source: srcTaner1979,
 			Params: analyticParams(), run: sampleAttribute(true, envelopeDerivativeAt)},
