@@ -1,13 +1,17 @@
+//go:build linux
+
 package cli
 
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"math/rand/v2"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"syscall"
 	"testing"
@@ -211,7 +215,14 @@ func TestSignalsDuringOpen(t *testing.T) {
 			if err := cmd.Start(); err != nil {
 				t.Fatal(err)
 			}
-			time.Sleep(150 * time.Millisecond)
+			// Signal once the child holds the input open (its header scan
+			// is under way), not after a fixed sleep: on a loaded machine
+			// the child may not have reached main after any fixed delay.
+			if err := waitInputOpen(cmd.Process.Pid, in, 30*time.Second); err != nil {
+				cmd.Process.Kill()
+				cmd.Wait()
+				t.Fatal(err)
+			}
 			sent := time.Now()
 			cmd.Process.Signal(c.sig)
 			err := cmd.Wait()
@@ -238,3 +249,22 @@ func TestSignalsDuringOpen(t *testing.T) {
 }
 
 func errorsAs(err error, target any) bool { return errors.As(err, target) }
+
+// waitInputOpen waits until process pid has path open (one of the links in
+// /proc/PID/fd points at it), or fails after timeout.
+func waitInputOpen(pid int, path string, timeout time.Duration) error {
+	want, err := filepath.EvalSymlinks(path)
+	if err != nil {
+		return err
+	}
+	fdDir := filepath.Join("/proc", strconv.Itoa(pid), "fd")
+	for end := time.Now().Add(timeout); time.Now().Before(end); time.Sleep(5 * time.Millisecond) {
+		fds, _ := os.ReadDir(fdDir)
+		for _, fd := range fds {
+			if target, err := os.Readlink(filepath.Join(fdDir, fd.Name())); err == nil && target == want {
+				return nil
+			}
+		}
+	}
+	return fmt.Errorf("process %d did not open %s within %v", pid, path, timeout)
+}
