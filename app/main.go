@@ -97,6 +97,9 @@ func Main(args []string, stdout, stderr io.Writer) int {
 }
 
 func runViewer(opt viewer.Options, stderr io.Writer) int {
+	if code, missing := reportNoDisplay(stderr); missing {
+		return code
+	}
 	if err := viewer.Run(opt); err != nil {
 		fmt.Fprintln(stderr, "quadtrace:", err)
 		return 1
