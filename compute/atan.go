@@ -25,23 +25,32 @@ const (
 // takes one division and a polynomial.
 func fastAtan2(y, x float64) float64 {
 	ax, ay := math.Abs(x), math.Abs(y)
-	var t float64
-	swap := ay > ax
-	switch {
-	case swap:
-		t = ax / ay
-	case ax > 0:
-		t = ay / ax
-	default: // both zero: keep math.Atan2's signed-zero results
+	if ax == 0 && ay == 0 { // keep math.Atan2's signed-zero results
 		return math.Atan2(y, x)
 	}
+	// Octant from sign bits, not branches: whether |y| > |x| is a coin
+	// toss on seismic data, and a mispredicted branch costs more than this.
+	swap := math.Float64bits(ax-ay) >> 63 // 1 when ay > ax
+	v := [2]float64{ay, ax}
+	t := v[swap] / v[swap^1]
+	// The polynomial in t² by Estrin's scheme (pairs, then pairs of pairs):
+	// the same terms as Horner's rule with a dependency chain half as long,
+	// so successive samples overlap in the processor.
 	t2 := t * t
-	p := t * (atanC0 + t2*(atanC1+t2*(atanC2+t2*(atanC3+t2*(atanC4+t2*(atanC5+t2*(atanC6+t2*(atanC7+t2*atanC8))))))))
-	if swap {
-		p = math.Pi/2 - p
-	}
-	if x < 0 {
-		p = math.Pi - p
-	}
+	t4 := t2 * t2
+	t8 := t4 * t4
+	q01 := atanC0 + atanC1*t2
+	q23 := atanC2 + atanC3*t2
+	q45 := atanC4 + atanC5*t2
+	q67 := atanC6 + atanC7*t2
+	q03 := q01 + q23*t4
+	q47 := q45 + q67*t4
+	p := t * (q03 + (q47+atanC8*t8)*t8)
+	// swap: π/2 - p; then x < 0 (sign bit, -0 included): π - p.
+	off := [2]float64{0, math.Pi / 2}
+	sgn := [2]float64{1, -1}
+	p = off[swap] + sgn[swap]*p
+	neg := math.Float64bits(x) >> 63
+	p = 2*off[neg] + sgn[neg]*p
 	return math.Copysign(p, y)
 }

@@ -83,7 +83,14 @@ func (set *InstantaneousSet) fill(i int, t *analyticTrace) {
 		a[j] = float32(r)
 		ph[j] = float32(fastAtan2(hj, xj) * toDeg)
 		f[j] = float32((xj*dh[j] - hj*dx[j]) * inv2pi * inv)
-		c[j] = float32(cosPhase(xj, r, inv))
+		// cosPhase with its clamp as rarely taken branches.
+		cp := xj * r * inv
+		if cp > 1 {
+			cp = 1
+		} else if cp < -1 {
+			cp = -1
+		}
+		c[j] = float32(cp)
 	}
 	if t.gaps > 0 {
 		for j, g := range t.gap {
