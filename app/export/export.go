@@ -46,19 +46,19 @@ type plan struct {
 func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []string, err error) {
 	start := time.Now()
 	if len(p.stages) == 0 {
-		return nil, errors.New("export: no attribute chosen")
+		return nil, errors.New("no attribute chosen")
 	}
 	if p.format == 0 {
 		p.format = 5
 	}
 	if p.format != 1 && p.format != 5 {
-		return nil, fmt.Errorf("export: sample format %d: want 5 (IEEE float) or 1 (IBM float)", p.format)
+		return nil, fmt.Errorf("sample format %d: want 5 (IEEE float) or 1 (IBM float)", p.format)
 	}
 	if p.budget == 0 {
 		p.budget = DefaultBudget
 	}
 	if p.budget < 0 {
-		return nil, fmt.Errorf("export: negative memory budget %d", p.budget)
+		return nil, fmt.Errorf("negative memory budget %d", p.budget)
 	}
 
 	// The input is opened read-only and read with ordinary reads rather
@@ -66,28 +66,28 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	// process's resident memory as it is read, defeating the budget.
 	fh, err := os.Open(p.input)
 	if err != nil {
-		return nil, fmt.Errorf("export: %w", err)
+		return nil, err
 	}
 	defer fh.Close()
 	st, err := fh.Stat()
 	if err != nil {
-		return nil, fmt.Errorf("export: %w", err)
+		return nil, err
 	}
 	if st.IsDir() {
-		return nil, fmt.Errorf("export: %s is a folder, not a SEG-Y file", p.input)
+		return nil, fmt.Errorf("%s is a folder, not a SEG-Y file", p.input)
 	}
 	win := &windowReader{r: fh}
 	src, err := segy.OpenReaderAt(win, st.Size(), p.input, p.options)
 	if err != nil {
-		return nil, fmt.Errorf("export: %w", err)
+		return nil, err
 	}
 	defer src.Close()
 	info := src.Info()
 	if info.Traces == 0 {
-		return nil, fmt.Errorf("export: %s: no traces", p.input)
+		return nil, fmt.Errorf("%s: no traces", p.input)
 	}
 	if info.IntervalUS <= 0 {
-		return nil, fmt.Errorf("export: %s: sample interval unknown (0 in the binary and trace headers)", p.input)
+		return nil, fmt.Errorf("%s: sample interval unknown (0 in the binary and trace headers)", p.input)
 	}
 
 	dsts, madeDir, err := destinations(p.input, p.output, p.stages)
@@ -105,7 +105,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return h.Inline, h.Crossline, err
 	})
 	if err != nil {
-		return nil, fmt.Errorf("export: %s: %w", p.input, err)
+		return nil, fmt.Errorf("%s: %w", p.input, err)
 	}
 	total := selectionSize(runs)
 	// The geometry scan at open and the range selection read only trace
@@ -122,7 +122,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	}
 	perBlock, err := blockSize(p.budget, info.Samples, len(p.stages), p.cond.apply != nil, total)
 	if err != nil {
-		return nil, fmt.Errorf("export: %w", err)
+		return nil, err
 	}
 
 	writers := make([]*segy.Writer, 0, len(p.stages))
@@ -138,7 +138,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 			inlines: p.inlines, crosslines: p.crosslines, traces: total, format: p.format})
 		w, err := segy.Create(dsts[k], src, segy.WriteOptions{Format: p.format, TextHeader: text})
 		if err != nil {
-			return nil, fmt.Errorf("export: %w", err)
+			return nil, err
 		}
 		writers = append(writers, w)
 	}
@@ -185,11 +185,11 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return nil, err
 		}
-		return nil, fmt.Errorf("export %s: %w", p.input, err)
+		return nil, fmt.Errorf("%s: %w", p.input, err)
 	}
 	for k, w := range writers {
 		if err = w.Commit(); err != nil {
-			return dsts[:k], fmt.Errorf("export: %w", err)
+			return dsts[:k], err
 		}
 	}
 	return dsts, nil
@@ -214,34 +214,34 @@ func destinations(input, output string, stages []stage) (dsts []string, madeDir 
 	switch {
 	case len(stages) == 1 && !isDir:
 		if strings.HasSuffix(output, string(filepath.Separator)) {
-			return nil, "", fmt.Errorf("export: output folder %s does not exist", output)
+			return nil, "", fmt.Errorf("output folder %s does not exist", output)
 		}
 		dsts = []string{output}
 	case isDir:
 		dsts = named(output)
 	case statErr == nil:
-		return nil, "", fmt.Errorf("export: %d attributes need a folder for --out, and %s is a file", len(stages), output)
+		return nil, "", fmt.Errorf("%d attributes need a folder for --out, and %s is a file", len(stages), output)
 	default:
 		if err := os.Mkdir(output, 0o777); err != nil {
-			return nil, "", fmt.Errorf("export: making output folder: %w", err)
+			return nil, "", fmt.Errorf("making output folder: %w", err)
 		}
 		madeDir = output
 		dsts = named(output)
 	}
 	for _, d := range dsts {
-		if sameFile(d, input) {
+		if SameFile(d, input) {
 			if madeDir != "" {
 				os.Remove(madeDir)
 			}
-			return nil, "", fmt.Errorf("export: refusing to write %s: it is the input file", d)
+			return nil, "", fmt.Errorf("refusing to write %s: it is the input file", d)
 		}
 	}
 	return dsts, madeDir, nil
 }
 
-// sameFile reports whether paths a and b name the same file: the same
+// SameFile reports whether paths a and b name the same file: the same
 // absolute path, or (when both exist) the same inode through links.
-func sameFile(a, b string) bool {
+func SameFile(a, b string) bool {
 	aa, err1 := filepath.Abs(a)
 	bb, err2 := filepath.Abs(b)
 	if err1 == nil && err2 == nil && aa == bb {

@@ -13,6 +13,7 @@ import (
 	"quadtrace/app/apptest"
 	"quadtrace/app/version"
 	"quadtrace/compute"
+	"quadtrace/segy"
 	"quadtrace/segy/segytest"
 )
 
@@ -241,7 +242,7 @@ func TestExportPartsJoinToTheWholeExport(t *testing.T) {
 				parts = append(parts, p)
 			}
 			joined := filepath.Join(dir, "joined.sgy")
-			if _, err := Join(context.Background(), parts, joined); err != nil {
+			if _, err := Join(context.Background(), parts, joined, segy.Options{}); err != nil {
 				t.Fatalf("format %d %s: join: %v", format, split.name, err)
 			}
 			wh, wd := apptest.TraceSampleBytes(t, whole, v.Samples)
@@ -459,7 +460,7 @@ func TestJoinRefusesBadParts(t *testing.T) {
 	}
 	for _, tc := range cases {
 		before := apptest.FileSum(t, tc.parts[len(tc.parts)-1])
-		_, err := Join(context.Background(), tc.parts, tc.out)
+		_, err := Join(context.Background(), tc.parts, tc.out, segy.Options{})
 		if err == nil || !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%s: error %v; want one with %q", tc.name, err, tc.want)
 		}
@@ -475,7 +476,7 @@ func TestJoinRefusesBadParts(t *testing.T) {
 		t.Errorf("temporary files left: %v", left)
 	}
 	// Raw parts that fill their grid join.
-	if _, err := Join(context.Background(), []string{rawA, rawB}, out); err != nil {
+	if _, err := Join(context.Background(), []string{rawA, rawB}, out, segy.Options{}); err != nil {
 		t.Errorf("raw parts filling the grid: %v", err)
 	}
 }

@@ -33,13 +33,14 @@ type joinPart struct {
 // their traces add up to its trace count, the parts hold the whole source.
 // Otherwise the parts must fill the regular grid spanned by their inline
 // and crossline numbers (steps from the numbering), and the first hole is
-// reported.
-func Join(ctx context.Context, paths []string, out string) (int, error) {
+// reported. opt gives the header byte locations and byte order of the
+// parts.
+func Join(ctx context.Context, paths []string, out string, opt segy.Options) (int, error) {
 	if len(paths) == 0 {
 		return 0, errors.New("no part given")
 	}
 	for _, p := range paths {
-		if sameFile(out, p) {
+		if SameFile(out, p) {
 			return 0, fmt.Errorf("refusing to write %s: it is one of the parts", out)
 		}
 	}
@@ -60,7 +61,7 @@ func Join(ctx context.Context, paths []string, out string) (int, error) {
 			fh.Close()
 			return 0, err
 		}
-		f, err := segy.OpenReaderAt(fh, st.Size(), path, segy.Options{})
+		f, err := segy.OpenReaderAt(fh, st.Size(), path, opt)
 		if err != nil {
 			fh.Close()
 			return 0, err

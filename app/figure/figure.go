@@ -10,43 +10,39 @@ import (
 	"fmt"
 	"image"
 	"image/color"
+	"image/jpeg"
 	"os"
 	"path/filepath"
+	"strings"
+
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/render"
 )
 
-// only returns the parameters of raw that attribute a declares.
-func only(raw map[string]string, a *compute.Attribute) map[string]string {
-	out := map[string]string{}
-	for _, spec := range a.Params {
-		if v, ok := raw[spec.Name]; ok {
-			out[spec.Name] = v
-		}
-	}
-	return out
-}
-
 // Request says which figure to build: the slice, the attributes and how
 // they are drawn, and the figure's size and resolution.
 type Request struct {
-	Inline, Crossline       int
-	TimeMS                  float64
-	Orientation             volume.Orientation
-	Attribute, Overlay      string
-	Params                  map[string]string
-	Condition               string
-	Palette, OverlayPalette string
-	Opacity                 float64
-	OpacityFollows          bool
-	Clip                    float64
-	Width, Height           int
-	DPI                     float64
-	BinM                    float64
-	Wiggle                  bool
-	Title                   string
+	Orientation       volume.Orientation
+	Inline, Crossline int     // the line drawn, by Orientation
+	TimeMS            float64 // a time slice's time; the nearest sample is drawn
+	Offset            int     // the offset of a pre-stack file (ignored for post-stack)
+
+	Attribute, Overlay string            // attribute ids; Overlay "" draws none
+	Params             map[string]string // NAME=VALUE for every chosen attribute that has NAME (compute.ResolveAll)
+	Condition          string            // compute.ParseConditioning's form; "" none
+
+	Palette, OverlayPalette string  // palette names; "" picks by the attribute's kind
+	Opacity                 float64 // overlay opacity, 0 to 1
+	OpacityFollows          bool    // weak overlay values more transparent
+	Clip                    float64 // percentile of values inside the colour range
+	Wiggle                  bool    // amplitude wiggles over a section
+
+	Width, Height int     // pixels
+	DPI           float64 // resolution recorded in a PNG
+	BinM          float64 // trace spacing for the scale bar; 0 takes it from the coordinates
+	Title         string  // "" makes one from the survey, line and attributes
 }
 
 // Draw computes what r asks for on v and draws the figure.
@@ -61,7 +57,7 @@ func Draw(ctx context.Context, v *volume.Volume, r Request) (*image.RGBA, error)
 // Build computes what r asks for on v and composes the figure.
 func Build(ctx context.Context, v *volume.Volume, r Request) (render.Figure, error) {
 	info := v.Info()
-	s := volume.Slice{Orientation: r.Orientation}
+	s := volume.Slice{Orientation: r.Orientation, Offset: r.Offset}
 	switch r.Orientation {
 	case volume.Inline:
 		s.Number = r.Inline
@@ -74,15 +70,22 @@ func Build(ctx context.Context, v *volume.Volume, r Request) (render.Figure, err
 	if err != nil {
 		return render.Figure{}, fmt.Errorf("--condition: %w", err)
 	}
-	layer := func(id, paletteName string, overlay bool) (render.Layer, render.Legend, volume.Section, error) {
-		a, err := compute.Lookup(id)
-		if err != nil {
-			return render.Layer{}, render.Legend{}, volume.Section{}, err
+	ids := []string{r.Attribute}
+	if r.Overlay != "" {
+		ids = append(ids, r.Overlay)
+	}
+	attrs := make([]*compute.Attribute, len(ids))
+	for i, id := range ids {
+		if attrs[i], err = compute.Lookup(id); err != nil {
+			return render.Figure{}, err
 		}
-		p, err := a.Resolve(only(r.Params, a))
-		if err != nil {
-			return render.Layer{}, render.Legend{}, volume.Section{}, err
-		}
+	}
+	params, err := compute.ResolveAll(attrs, r.Params)
+	if err != nil {
+		return render.Figure{}, err
+	}
+	layer := func(k int, paletteName string, overlay bool) (render.Layer, render.Legend, volume.Section, error) {
+		a, p := attrs[k], params[k]
 		sec, err := v.Attribute(ctx, s, a, p, cond, nil)
 		if err != nil {
 			return render.Layer{}, render.Legend{}, volume.Section{}, err
@@ -103,13 +106,13 @@ func Build(ctx context.Context, v *volume.Volume, r Request) (render.Figure, err
 		}
 		return l, style.LegendFor(a, l), sec, nil
 	}
-	base, baseLegend, sec, err := layer(r.Attribute, r.Palette, false)
+	base, baseLegend, sec, err := layer(0, r.Palette, false)
 	if err != nil {
 		return render.Figure{}, err
 	}
 	fig := render.Figure{Base: base, Legends: []render.Legend{baseLegend}, Width: r.Width, Height: r.Height}
 	if r.Overlay != "" {
-		over, overLegend, _, err := layer(r.Overlay, r.OverlayPalette, true)
+		over, overLegend, _, err := layer(1, r.OverlayPalette, true)
 		if err != nil {
 			return render.Figure{}, err
 		}
@@ -167,18 +170,55 @@ func Build(ctx context.Context, v *volume.Volume, r Request) (render.Figure, err
 	return fig, nil
 }
 
-// WritePNG writes img to path with its resolution recorded, through a
-// temporary file renamed into place so a failed write leaves nothing.
-func WritePNG(path string, img *image.RGBA, dpi float64) error {
+// Format is an image file format a figure can be written in.
+type Format string
+
+// The formats Write knows.
+const (
+	PNG  Format = "png"  // lossless, with the resolution in a pHYs chunk
+	JPEG Format = "jpeg" // baseline JPEG (image/jpeg) at quality 92
+)
+
+// FormatOf picks the format from path's extension (any case): .png is PNG,
+// .jpg and .jpeg are JPEG; anything else, SVG included (a figure is a
+// raster image), is an error naming the ones that work.
+func FormatOf(path string) (Format, error) {
+	switch ext := strings.ToLower(filepath.Ext(path)); ext {
+	case ".png":
+		return PNG, nil
+	case ".jpg", ".jpeg":
+		return JPEG, nil
+	case "":
+		return "", fmt.Errorf("%s has no extension: want .png, .jpg or .jpeg", path)
+	default:
+		return "", fmt.Errorf("%s: cannot write %s figures: want .png, .jpg or .jpeg", path, ext)
+	}
+}
+
+// Write writes img to path in the format its extension names (FormatOf),
+// a PNG with dpi recorded. It is the one figure writer of the window and
+// the figure command: the image goes to a temporary file in path's folder,
+// readable by all (mode 0644: a figure is for sharing), renamed over path
+// only when complete, so a failed or interrupted write leaves path as it
+// was.
+func Write(path string, img image.Image, dpi float64) error {
+	format, err := FormatOf(path)
+	if err != nil {
+		return err
+	}
 	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
 	if err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
-	// os.CreateTemp makes the file private; a figure is for sharing.
-	err = tmp.Chmod(0o644)
+	err = tmp.Chmod(0o644) // os.CreateTemp makes the file private
 	w := bufio.NewWriter(tmp)
 	if err == nil {
-		err = render.EncodePNG(w, img, dpi)
+		switch format {
+		case PNG:
+			err = render.EncodePNG(w, img, dpi)
+		case JPEG:
+			err = jpeg.Encode(w, img, &jpeg.Options{Quality: 92})
+		}
 	}
 	if err == nil {
 		err = w.Flush()

@@ -15,6 +15,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"quadtrace/app/export"
+	"quadtrace/app/figure"
 	"quadtrace/app/style"
 	"quadtrace/app/version"
 	"quadtrace/app/volume"
@@ -407,26 +408,14 @@ func (v *viewer) saveFigure(path, title string, w, h int, dpi float64) {
 	})
 }
 
-// writeFigure draws f and writes it as PNG at dpi, replacing path only when
-// the whole file is written.
+// writeFigure draws f and writes it through figure.Write (format from the
+// extension, path replaced only when the whole file is written).
 func writeFigure(f render.Figure, path string, dpi float64) error {
 	img, err := f.Draw()
 	if err != nil {
 		return fmt.Errorf("figure: %w", err)
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("figure: %w", err)
-	}
-	defer os.Remove(tmp.Name())
-	if err := render.EncodePNG(tmp, img, dpi); err != nil {
-		tmp.Close()
-		return fmt.Errorf("figure %s: %w", path, err)
-	}
-	if err := tmp.Close(); err != nil {
-		return fmt.Errorf("figure %s: %w", path, err)
-	}
-	return os.Rename(tmp.Name(), path)
+	return figure.Write(path, img, dpi)
 }
 
 // --- export ---

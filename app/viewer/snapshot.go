@@ -5,13 +5,12 @@ import (
 	"fmt"
 	"image"
 	"os"
-	"path/filepath"
 	"strconv"
 	"time"
 
 	"fyne.io/fyne/v2"
 
-	"quadtrace/render"
+	"quadtrace/app/figure"
 )
 
 // The snapshot (quadtrace --snapshot OUT.png) is a picture of the real
@@ -125,20 +124,8 @@ func distinctColours(img *image.RGBA, limit int) int {
 	return len(seen)
 }
 
-// writePNG writes img to path through a temporary file.
+// writePNG writes img to path as PNG at 96 dpi through figure.Write (a
+// temporary file renamed into place).
 func writePNG(path string, img image.Image) error {
-	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("snapshot: %w", err)
-	}
-	defer os.Remove(tmp.Name())
-	if err := render.EncodePNG(tmp, img, 96); err != nil {
-		tmp.Close()
-		return fmt.Errorf("snapshot %s: %w", path, err)
-	}
-	if err := tmp.Close(); err != nil {
-		return fmt.Errorf("snapshot %s: %w", path, err)
-	}
-	return os.Rename(tmp.Name(), path)
+	return figure.Write(path, img, 96)
 }
