@@ -138,7 +138,24 @@ func (a *Attribute) Compute(ctx context.Context, in Section, p Params, progress 
 	if err != nil {
 		return Section{}, fmt.Errorf("attribute %q: %w", a.ID, err)
 	}
+	saturate(out)
 	return out, nil
+}
+
+// saturate replaces infinite output samples by the largest finite float32
+// of the same sign: values beyond float32 (a derivative of amplitudes near
+// 1e35, found by FuzzAttributes) are "very large", and an Inf would break
+// every range and colour computation downstream. NaN stays NaN (a gap).
+func saturate(s Section) {
+	for _, tr := range s.Traces {
+		for j, v := range tr {
+			if v > math.MaxFloat32 {
+				tr[j] = math.MaxFloat32
+			} else if v < -math.MaxFloat32 {
+				tr[j] = -math.MaxFloat32
+			}
+		}
+	}
 }
 
 // Parameter specs shared by several attributes.

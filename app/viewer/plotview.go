@@ -113,7 +113,7 @@ type plotRenderer struct {
 	bg      *canvas.Rectangle
 	image   *canvas.Image
 	message *canvas.Text
-	texts   []fyne.CanvasObject
+	texts   textPool // the labels, made once and reused by every layout
 }
 
 func (r *plotRenderer) Destroy() {}
@@ -121,7 +121,7 @@ func (r *plotRenderer) Destroy() {}
 func (r *plotRenderer) MinSize() fyne.Size { return r.p.MinSize() }
 
 func (r *plotRenderer) Objects() []fyne.CanvasObject {
-	return append([]fyne.CanvasObject{r.bg, r.image, r.message}, r.texts...)
+	return append([]fyne.CanvasObject{r.bg, r.image, r.message}, r.texts.objects()...)
 }
 
 func (r *plotRenderer) Refresh() {
@@ -145,16 +145,15 @@ func (r *plotRenderer) Layout(size fyne.Size) {
 	r.message.Hidden = p.message == ""
 	r.message.Move(fyne.NewPos(0, size.Height/2-10))
 	r.message.Resize(fyne.NewSize(size.Width, 20))
-	r.texts = r.texts[:0]
+	r.texts.reset()
+	defer r.texts.finish()
 	fg := theme.Color(theme.ColorNameForeground)
 	for _, l := range p.labels {
 		c := l.Color
 		if c == nil {
 			c = fg
 		}
-		t := canvas.NewText(l.Text, c)
-		t.TextSize = theme.CaptionTextSize()
-		t.TextStyle.Bold = l.Bold
+		t := r.texts.next(l.Text, c, theme.CaptionTextSize(), l.Bold)
 		ts := t.MinSize()
 		x := pos.X + float32(l.X)*ps.Width
 		switch l.Align {
@@ -166,6 +165,5 @@ func (r *plotRenderer) Layout(size fyne.Size) {
 		x = max(0, min(x, size.Width-ts.Width))
 		y := pos.Y + float32(l.Y)*ps.Height + l.DY - ts.Height/2
 		t.Move(fyne.NewPos(x, y))
-		r.texts = append(r.texts, t)
 	}
 }

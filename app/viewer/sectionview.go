@@ -46,7 +46,8 @@ type sectionView struct {
 	vp         render.Viewport // the part of the section img shows
 	axes       sectionAxes
 	aspect     float64 // plot width/height to keep (maps); 0 = fill
-	pick       float64 // picked trace index; NaN = none
+	pick       float64 // picked trace index (a map's column); NaN = none
+	pickRow    float64 // a map's picked row; NaN on a section
 	message    string  // shown instead of the section (loading, errors)
 	lastCursor fyne.Position
 
@@ -60,7 +61,7 @@ type sectionView struct {
 }
 
 func newSectionView() *sectionView {
-	v := &sectionView{pick: math.NaN(), message: "Opening…"}
+	v := &sectionView{pick: math.NaN(), pickRow: math.NaN(), message: "Opening…"}
 	v.ExtendBaseWidget(v)
 	return v
 }
@@ -77,9 +78,10 @@ func (v *sectionView) setMessage(msg string) {
 	v.Refresh()
 }
 
-// setPick marks trace index t (NaN: none).
-func (v *sectionView) setPick(t float64) {
-	v.pick = t
+// setPick marks trace index col of a section (row NaN) or the point (col,
+// row) of a map with a cross; col NaN marks nothing.
+func (v *sectionView) setPick(col, row float64) {
+	v.pick, v.pickRow = col, row
 	v.Refresh()
 }
 
@@ -234,6 +236,8 @@ func (v *sectionView) CreateRenderer() fyne.WidgetRenderer {
 	r.image.FillMode = canvas.ImageFillStretch
 	r.pickLine = canvas.NewLine(color.RGBA{255, 200, 0, 255})
 	r.pickLine.StrokeWidth = 1.5
+	r.pickRow = canvas.NewLine(color.RGBA{255, 200, 0, 255})
+	r.pickRow.StrokeWidth = 1.5
 	r.message = canvas.NewText("", theme.Color(theme.ColorNameForeground))
 	r.message.Alignment = fyne.TextAlignCenter
 	r.hTitle = canvas.NewText("", theme.Color(theme.ColorNameForeground))
@@ -252,10 +256,13 @@ type sectionRenderer struct {
 	frame    *canvas.Rectangle
 	image    *canvas.Image
 	pickLine *canvas.Line
+	pickRow  *canvas.Line // the horizontal line of a map's pick cross
 	message  *canvas.Text
 	hTitle   *canvas.Text
 	vTitle   *canvas.Text
-	ticks    []fyne.CanvasObject // tick lines and labels, rebuilt on layout
+	// Tick marks and labels, made once and reused by every layout.
+	tickLines  linePool
+	tickLabels textPool
 }
 
 func (r *sectionRenderer) Destroy() {}
@@ -263,16 +270,19 @@ func (r *sectionRenderer) Destroy() {}
 func (r *sectionRenderer) MinSize() fyne.Size { return r.v.MinSize() }
 
 func (r *sectionRenderer) Objects() []fyne.CanvasObject {
-	objs := []fyne.CanvasObject{r.bg, r.image, r.frame, r.pickLine, r.hTitle, r.vTitle, r.message}
-	return append(objs, r.ticks...)
+	objs := []fyne.CanvasObject{r.bg, r.image, r.frame, r.pickLine, r.pickRow, r.hTitle, r.vTitle, r.message}
+	return append(append(objs, r.tickLines.objects()...), r.tickLabels.objects()...)
 }
 
 func (r *sectionRenderer) Refresh() {
 	fg := theme.Color(theme.ColorNameForeground)
 	r.bg.FillColor = theme.Color(theme.ColorNameInputBackground)
 	r.frame.StrokeColor = theme.Color(theme.ColorNameSeparator)
+	r.frame.StrokeWidth = 1
 	if r.v.focused {
-		r.frame.StrokeColor = theme.Color(theme.ColorNameFocus)
+		// The keys act on the section: say so with a frame that shows.
+		r.frame.StrokeColor = theme.Color(theme.ColorNamePrimary)
+		r.frame.StrokeWidth = 3
 	}
 	r.message.Color, r.hTitle.Color, r.vTitle.Color = fg, fg, fg
 	r.message.Text = r.v.message
@@ -313,7 +323,20 @@ func (r *sectionRenderer) Layout(size fyne.Size) {
 			r.pickLine.Hidden = false
 		}
 	}
-	r.ticks = r.ticks[:0]
+	r.pickRow.Hidden = true
+	if !r.pickLine.Hidden && !math.IsNaN(v.pickRow) && v.vp.Sample1 > v.vp.Sample0 {
+		fy := float32((v.pickRow + 0.5 - v.vp.Sample0) / (v.vp.Sample1 - v.vp.Sample0))
+		if fy >= 0 && fy <= 1 {
+			y := pos.Y + fy*ps.Height
+			r.pickRow.Position1 = fyne.NewPos(pos.X, y)
+			r.pickRow.Position2 = fyne.NewPos(pos.X+ps.Width, y)
+			r.pickRow.Hidden = false
+		}
+	}
+	r.tickLines.reset()
+	r.tickLabels.reset()
+	defer r.tickLines.finish()
+	defer r.tickLabels.finish()
 	if !hasImage {
 		r.hTitle.Hidden, r.vTitle.Hidden = true, true
 		return
@@ -342,12 +365,10 @@ func (r *sectionRenderer) layoutTicks(pos fyne.Position, ps fyne.Size) {
 	if n := len(v.axes.HKeys); n > 0 {
 		for _, idx := range keyTicks(v.axes.HKeys, v.vp.Trace0, v.vp.Trace1, int(ps.Width/90)+1) {
 			x := pos.X + float32((float64(idx)+0.5-v.vp.Trace0)/tw)*ps.Width
-			r.addTick(fyne.NewPos(x, pos.Y-4), fyne.NewPos(x, pos.Y))
-			t := canvas.NewText(fmt.Sprint(v.axes.HKeys[idx]), fg)
-			t.TextSize = small
+			r.tickLines.next(fyne.NewPos(x, pos.Y-4), fyne.NewPos(x, pos.Y), fg)
+			t := r.tickLabels.next(fmt.Sprint(v.axes.HKeys[idx]), fg, small, false)
 			ts := t.MinSize()
 			t.Move(fyne.NewPos(x-ts.Width/2, pos.Y-4-ts.Height))
-			r.ticks = append(r.ticks, t)
 		}
 	}
 	// Vertical: time in ms, or row keys for a map.
@@ -377,20 +398,11 @@ func (r *sectionRenderer) layoutTicks(pos fyne.Position, ps fyne.Size) {
 		if y < pos.Y-0.5 || y > pos.Y+ps.Height+0.5 {
 			continue
 		}
-		r.addTick(fyne.NewPos(pos.X-4, y), fyne.NewPos(pos.X, y))
-		t := canvas.NewText(l.text, fg)
-		t.TextSize = small
+		r.tickLines.next(fyne.NewPos(pos.X-4, y), fyne.NewPos(pos.X, y), fg)
+		t := r.tickLabels.next(l.text, fg, small, false)
 		ts := t.MinSize()
 		t.Move(fyne.NewPos(pos.X-6-ts.Width, y-ts.Height/2))
-		r.ticks = append(r.ticks, t)
 	}
-}
-
-func (r *sectionRenderer) addTick(a, b fyne.Position) {
-	l := canvas.NewLine(theme.Color(theme.ColorNameForeground))
-	l.StrokeWidth = 1
-	l.Position1, l.Position2 = a, b
-	r.ticks = append(r.ticks, l)
 }
 
 // keyTicks chooses trace indices in [lo, hi) whose keys are multiples of a

@@ -55,6 +55,7 @@ type viewState struct {
 	CenterTrace, CenterSample float64
 
 	PickTrace    int  // index of the picked trace in the section; -1 = none
+	PickSample   int  // sample index clicked on a section; -1 = none
 	FollowCursor bool // the trace panel follows the cursor instead of clicks
 }
 
@@ -76,6 +77,7 @@ func newViewState(info segy.Info) viewState {
 		Zoom:                1,
 		Exaggeration:        1,
 		PickTrace:           -1,
+		PickSample:          -1,
 	}
 	if len(info.Offsets) > 0 {
 		s.Offset = info.Offsets[0]

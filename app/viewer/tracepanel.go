@@ -53,13 +53,13 @@ type curveSource struct {
 // background: its amplitude and attribute curves and its spectrum.
 func (v *viewer) requestTrace() {
 	d := v.data
-	if d.amp == nil || d.base == nil || v.state.PickTrace < 0 || v.vol == nil {
+	if !d.complete() || v.state.PickTrace < 0 || v.vol == nil {
 		v.ui.trace.setMessage("Click a trace to see it here")
 		v.ui.spectrum.setMessage("")
 		return
 	}
 	st := v.state
-	pl := st.plan()
+	pl := d.plan // the layers of the shown data, not those requested
 	vol := v.vol
 	tw, th := v.ui.trace.plotPixels()
 	sw, sh := v.ui.spectrum.plotPixels()
@@ -70,11 +70,7 @@ func (v *viewer) requestTrace() {
 	if pl.Base.ID == amplitudeID && d.base == d.amp {
 		ampRange = ranges[fmt.Sprintf("%s@%g", d.baseKey, st.ClipPercent)]
 	}
-	baseParams := copyMap(st.Params[pl.Base.ID])
-	var overParams map[string]string
-	if pl.Overlay != nil {
-		overParams = copyMap(st.Params[pl.Overlay.ID])
-	}
+	baseParams, overParams, cond := d.baseParams, d.overParams, d.cond
 	nx, ny := v.dims()
 	vp := st.viewport(nx, ny)
 	v.jobs.start("trace", func(j *job) {
@@ -100,7 +96,7 @@ func (v *viewer) requestTrace() {
 			il, xl := d.amp.InlineKeys[row], d.amp.Keys[col]
 			pic.title = fmt.Sprintf("Inline %d, crossline %d", il, xl)
 			var err error
-			amp, err = vol.Trace(il, xl, st.Offset)
+			amp, err = vol.Trace(il, xl, d.amp.Slice.Offset)
 			if err != nil {
 				v.onUI(j, func() { v.ui.trace.setMessage(err.Error()); v.ui.spectrum.setMessage("") })
 				return
@@ -110,7 +106,7 @@ func (v *viewer) requestTrace() {
 				if err != nil {
 					return
 				}
-				c, err := vol.TraceAttribute(j.ctx, il, xl, st.Offset, at.a, p, st.Cond)
+				c, err := vol.TraceAttribute(j.ctx, il, xl, d.amp.Slice.Offset, at.a, p, cond)
 				if err != nil {
 					v.onUI(j, func() { v.ui.trace.setMessage(err.Error()) })
 					return

@@ -13,9 +13,7 @@ import (
 	"context"
 	"fmt"
 	"image"
-	"math"
 	"path/filepath"
-	"strings"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/app"
@@ -23,7 +21,6 @@ import (
 	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
-	"quadtrace/render"
 	"quadtrace/segy"
 )
 
@@ -71,9 +68,24 @@ type survey interface {
 // shown holds the data behind the picture: the amplitude of the slice and
 // the sections of the base and overlay layers, with the keys they were made
 // for. Sections are never changed once made, so jobs may read them freely.
+//
+// plan, the parameters and the conditioning are those the sections were
+// made with: everything that draws the data (section, trace panel, legends,
+// figures, the cursor readout) takes the layers from here, never from the
+// state, whose layers may already name an overlay whose data are still
+// being computed.
 type shown struct {
 	ampKey, baseKey, overKey string
 	amp, base, over          *volume.Section
+	plan                     layerPlan
+	baseParams, overParams   map[string]string
+	cond                     compute.Conditioning
+}
+
+// complete reports whether d holds every section its plan names.
+func (d shown) complete() bool {
+	return d.amp != nil && d.base != nil && d.plan.Base != nil && (d.plan.Overlay == nil) == (d.over == nil) &&
+		len(d.amp.Traces) > 0 && len(d.base.Traces) == len(d.amp.Traces) && (d.over == nil || len(d.over.Traces) == len(d.amp.Traces))
 }
 
 // viewer is the window and everything it shows. Its fields belong to the UI
@@ -103,12 +115,19 @@ type viewer struct {
 	snapshotTaken bool
 
 	ui *widgets
+
+	// wantPick is the trace to pick in the next data shown (set by a change
+	// of view); history and histPos are the Back/Forward history.
+	wantPick *pickKeys
+	history     []historyEntry
+	histPos     int
+	histPending int // the entry a Back/Forward is going to; -1: none
 }
 
 // newViewer builds the window on app a, with its background work run by js;
 // start opens the survey. The caller shows the window.
 func newViewer(a fyne.App, opt Options, js *jobs) *viewer {
-	v := &viewer{app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
+	v := &viewer{histPending: -1, app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
 	v.win = a.NewWindow("quadtrace")
 	v.buildUI()
 	v.restoreWindowSize()
@@ -209,8 +228,10 @@ func (v *viewer) setSurvey(vol survey) {
 	v.cache.clear()
 	v.ranges = map[string][2]float32{}
 	v.state = newViewState(v.info)
+	v.wantPick, v.history, v.histPos, v.histPending = nil, nil, 0, -1
+	v.showStatus("") // errors about the survey before do not apply
 	v.loadPalettePrefs()
-	v.win.SetTitle("quadtrace — " + vol.Name())
+	v.ui.surveyPanel.refresh(vol.Name(), vol.Path() != "", v.info)
 	v.refreshControls()
 	if v.info.Traces == 0 {
 		msg := filepath.Base(vol.Name()) + " holds headers but no traces"
@@ -220,255 +241,6 @@ func (v *viewer) setSurvey(vol survey) {
 		return
 	}
 	v.requestData()
-}
-
-// --- the data pipeline: read, compute, render ---
-
-// dataRequest names the sections a picture needs and the keys that tell
-// whether the shown data already hold them.
-type dataRequest struct {
-	slice                    volume.Slice
-	plan                     layerPlan
-	baseParams, overParams   map[string]string
-	cond                     compute.Conditioning
-	ampKey, baseKey, overKey string
-}
-
-// dataRequestFor works out the sections state st needs.
-func dataRequestFor(st *viewState) dataRequest {
-	r := dataRequest{slice: st.slice(), plan: st.plan(), cond: st.Cond}
-	r.ampKey = attrKey(r.slice, lookup(amplitudeID), nil, compute.Conditioning{})
-	r.baseParams = copyMap(st.Params[r.plan.Base.ID])
-	r.baseKey = attrKey(r.slice, r.plan.Base, r.baseParams, r.cond)
-	if r.plan.Overlay != nil {
-		r.overParams = copyMap(st.Params[r.plan.Overlay.ID])
-		r.overKey = attrKey(r.slice, r.plan.Overlay, r.overParams, r.cond)
-	}
-	return r
-}
-
-// satisfied reports whether d already holds what r asks for.
-func (r dataRequest) satisfied(d shown) bool {
-	return d.ampKey == r.ampKey && d.baseKey == r.baseKey && d.overKey == r.overKey
-}
-
-// fetchData reads and computes the sections of req, reusing those of have
-// and of cached whose keys match. progress(label) gives the progress callback of a
-// computation. It runs in a background job.
-func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cached map[string]*volume.Section, progress func(label string) func(done, total int)) (shown, error) {
-	var out shown
-	reuse := func(key string) *volume.Section {
-		if s := cached[key]; s != nil {
-			return s
-		}
-		switch {
-		case key == out.ampKey && out.amp != nil:
-			return out.amp
-		case key == have.ampKey && have.amp != nil:
-			return have.amp
-		case key == have.baseKey && have.base != nil:
-			return have.base
-		case key == have.overKey && have.over != nil:
-			return have.over
-		}
-		return nil
-	}
-	get := func(key string, a *compute.Attribute, params map[string]string, c compute.Conditioning) (*volume.Section, error) {
-		if s := reuse(key); s != nil {
-			return s, nil
-		}
-		if a.ID == amplitudeID && c.IsZero() {
-			s, err := vol.Read(ctx, req.slice)
-			return &s, err
-		}
-		p, err := a.Resolve(params)
-		if err != nil {
-			return nil, fmt.Errorf("%s: %w", a.Name, err)
-		}
-		label := "Computing " + strings.ToLower(a.Name)
-		if req.slice.Orientation == volume.TimeSlice {
-			label += " for the whole volume"
-		}
-		var pf func(int, int)
-		if progress != nil {
-			pf = progress(label)
-		}
-		s, err := vol.Attribute(ctx, req.slice, a, p, c, pf)
-		return &s, err
-	}
-	var err error
-	if out.amp, err = get(req.ampKey, lookup(amplitudeID), nil, compute.Conditioning{}); err != nil {
-		return shown{}, err
-	}
-	out.ampKey = req.ampKey
-	if out.base, err = get(req.baseKey, req.plan.Base, req.baseParams, req.cond); err != nil {
-		return shown{}, err
-	}
-	out.baseKey = req.baseKey
-	if req.plan.Overlay != nil {
-		if out.over, err = get(req.overKey, req.plan.Overlay, req.overParams, req.cond); err != nil {
-			return shown{}, err
-		}
-		out.overKey = req.overKey
-	}
-	return out, nil
-}
-
-// requestData starts a job that reads and computes whatever the state needs
-// and the shown data lack; it cancels any such job still running.
-func (v *viewer) requestData() {
-	if v.vol == nil {
-		return
-	}
-	req := dataRequestFor(&v.state)
-	if req.satisfied(v.data) {
-		v.setIdle(v.ui.work)
-		v.jobs.cancel("data")
-		v.requestRender()
-		return
-	}
-	have, vol, cached := v.data, v.vol, v.cache.snapshot()
-	cancel := func() {
-		v.jobs.cancel("data")
-		v.setIdle(v.ui.work)
-		v.backToShown()
-	}
-	v.setBusy(v.ui.work, "Reading "+strings.ToLower(v.state.title(v.info)), 0, 0, cancel)
-	v.jobs.start("data", func(j *job) {
-		var thr progressThrottle
-		progress := func(label string) func(done, total int) {
-			return func(done, total int) {
-				if thr.due(done, total) {
-					v.onUI(j, func() { v.setBusy(v.ui.work, label, done, total, cancel) })
-				}
-			}
-		}
-		out, err := fetchData(j.ctx, vol, req, have, cached, progress)
-		if j.ctx.Err() != nil {
-			return
-		}
-		v.onUI(j, func() {
-			v.setIdle(v.ui.work)
-			if err != nil {
-				v.ui.section.setMessage(err.Error())
-				v.showStatus(err.Error())
-				v.failSnapshot(err)
-				return
-			}
-			newShape := v.data.amp == nil || sectionShape(v.data.amp) != sectionShape(out.amp)
-			v.data = out
-			v.shownState = v.state.dataFields()
-			v.cache.put(out.ampKey, out.amp)
-			v.cache.put(out.baseKey, out.base)
-			v.cache.put(out.overKey, out.over)
-			if newShape {
-				n, m := v.dims()
-				v.state.fit(n, m)
-				v.state.PickTrace = n / 2
-				if v.state.Orientation == volume.TimeSlice {
-					v.state.PickTrace = m/2*n + n/2
-				}
-			}
-			v.refreshNavigation()
-			v.requestRender()
-			v.requestTrace()
-		})
-	})
-}
-
-// backToShown undoes the requested change whose data were cancelled, so the
-// controls name what the picture shows.
-func (v *viewer) backToShown() {
-	if v.data.amp == nil {
-		return
-	}
-	v.state.restoreDataFields(v.shownState)
-	v.refreshControls()
-	v.showStatus("Cancelled; still showing " + strings.ToLower(v.state.title(v.info)))
-}
-
-// sectionShape is the size of a section's grid.
-func sectionShape(s *volume.Section) [3]int {
-	if s == nil || len(s.Traces) == 0 {
-		return [3]int{}
-	}
-	return [3]int{int(s.Slice.Orientation), len(s.Traces), len(s.Traces[0])}
-}
-
-// dims is the shown section's size along the view's horizontal and vertical
-// axes: traces by samples for a section, crosslines by inlines for a map.
-func (v *viewer) dims() (int, int) {
-	s := v.data.amp
-	if s == nil || len(s.Traces) == 0 {
-		return 0, 0
-	}
-	if s.Slice.Orientation == volume.TimeSlice {
-		return len(s.Traces[0]), len(s.Traces)
-	}
-	return len(s.Traces), len(s.Traces[0])
-}
-
-// renderRequest is everything a render job needs, copied from the UI.
-type renderRequest struct {
-	state         viewState
-	plan          layerPlan
-	data          shown
-	ranges        map[string][2]float32
-	width, height int
-}
-
-// renderResult is a rendered section with what the view needs to label it.
-type renderResult struct {
-	img       *image.RGBA
-	vp        render.Viewport
-	axes      sectionAxes
-	aspect    float64
-	base, ov  render.Layer
-	hasOv     bool
-	newRanges map[string][2]float32
-}
-
-// requestRender renders the shown data at the section view's size in the
-// background and shows it.
-func (v *viewer) requestRender() {
-	if v.data.amp == nil || v.data.base == nil {
-		return
-	}
-	w, h := v.ui.section.plotPixels()
-	st := v.state
-	st.Params, st.Palettes = nil, nil // not needed, and not to be shared
-	req := renderRequest{state: st, plan: v.state.plan(), data: v.data, ranges: copyRanges(v.ranges), width: w, height: h}
-	basePal := v.state.paletteFor(req.plan.Base, false)
-	var ovPal = basePal
-	if req.plan.Overlay != nil {
-		ovPal = v.state.paletteFor(req.plan.Overlay, true)
-	}
-	v.jobs.start("render", func(j *job) {
-		res := renderSection(req, basePal, ovPal)
-		v.onUI(j, func() {
-			if len(v.ranges) > 256 { // keep the ranges of recent sections only
-				v.ranges = map[string][2]float32{}
-			}
-			for k, r := range res.newRanges {
-				v.ranges[k] = r
-			}
-			v.lastSection = res.img
-			v.ui.section.setImage(res.img, res.vp, res.axes, res.aspect)
-			v.ui.section.setPick(v.pickIndex())
-			v.sectionDrawn++
-			v.refreshLegends(req.plan, res)
-			v.maybeSnapshot()
-		})
-	})
-}
-
-// pickIndex is the picked trace's index along the section (NaN: none, or a
-// map, where the pick is a point).
-func (v *viewer) pickIndex() float64 {
-	if v.state.PickTrace < 0 || v.state.Orientation == volume.TimeSlice {
-		return math.NaN()
-	}
-	return float64(v.state.PickTrace)
 }
 
 func copyMap(m map[string]string) map[string]string {

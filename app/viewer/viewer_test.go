@@ -193,7 +193,7 @@ func TestOpenStepPickAndClick(t *testing.T) {
 	v.ui.attrTree.Select("attr:instantaneous-phase")
 	v.jobs.wait()
 	if v.state.AttributeID != "instantaneous-phase" {
-		t.Fatalf("attribute %q after picking instantaneous phase (refreshing %v)", v.state.AttributeID, v.ui.refreshing)
+		t.Fatalf("attribute %q after picking instantaneous phase (refreshing %v)", v.state.AttributeID, v.ui.attributePanel.refreshing)
 	}
 	if v.win.Canvas().Focused() != v.ui.section {
 		t.Error("after picking an attribute the section does not have the keyboard")
@@ -321,8 +321,8 @@ func TestEnvelopeOverAmplitudeOneClick(t *testing.T) {
 	if !samePixels(v.lastSection, expectedSection(t, v)) {
 		t.Error("opacity 0: the drawn section differs from render's output")
 	}
-	if len(v.ui.legends.Objects) != 4 { // a heading and a bar per layer
-		t.Errorf("legend strip has %d objects, want 4 (two layers)", len(v.ui.legends.Objects))
+	if v.ui.legends.shown() != 2 { // a heading and a bar per layer
+		t.Errorf("legend strip shows %d layers, want 2", v.ui.legends.shown())
 	}
 }
 
