@@ -162,7 +162,7 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	if err != nil {
 		return c.fail(file, err)
 	}
-	if err := figure.Write(out, img, r.DPI); err != nil {
+	if err := figure.Write(out, img, r.DPI, file); err != nil {
 		return c.fail(out, err)
 	}
 	fmt.Fprintln(stdout, out)

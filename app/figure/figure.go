@@ -11,10 +11,10 @@ import (
 	"image"
 	"image/color"
 	"image/jpeg"
-	"os"
 	"path/filepath"
 	"strings"
 
+	"quadtrace/app/outfile"
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
@@ -197,41 +197,31 @@ func FormatOf(path string) (Format, error) {
 
 // Write writes img to path in the format its extension names (FormatOf),
 // a PNG with dpi recorded. It is the one figure writer of the window and
-// the figure command: the image goes to a temporary file in path's folder,
-// readable by all (mode 0644: a figure is for sharing), renamed over path
-// only when complete, so a failed or interrupted write leaves path as it
-// was.
-func Write(path string, img image.Image, dpi float64) error {
+// the figure command, through app/outfile: path must not be one of inputs
+// nor anything but a regular file, missing folders are made, and path is
+// replaced (mode 0644) only when the whole image is written.
+func Write(path string, img image.Image, dpi float64, inputs ...string) error {
 	format, err := FormatOf(path)
 	if err != nil {
 		return err
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
+	out, err := outfile.Create(path, outfile.Options{Inputs: inputs})
 	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+		return err
 	}
-	err = tmp.Chmod(0o644) // os.CreateTemp makes the file private
-	w := bufio.NewWriter(tmp)
-	if err == nil {
-		switch format {
-		case PNG:
-			err = render.EncodePNG(w, img, dpi)
-		case JPEG:
-			err = jpeg.Encode(w, img, &jpeg.Options{Quality: 92})
-		}
+	w := bufio.NewWriter(out)
+	switch format {
+	case PNG:
+		err = render.EncodePNG(w, img, dpi)
+	case JPEG:
+		err = jpeg.Encode(w, img, &jpeg.Options{Quality: 92})
 	}
 	if err == nil {
 		err = w.Flush()
 	}
-	if cerr := tmp.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Rename(tmp.Name(), path)
-	}
 	if err != nil {
-		os.Remove(tmp.Name())
+		out.Abort()
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
-	return nil
+	return out.Commit()
 }

@@ -1,0 +1,96 @@
+package figure
+
+import (
+	"bytes"
+	"image"
+	"image/color"
+	"image/jpeg"
+	"image/png"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestFormatOf: the extension (any case) decides the format; others,
+// SVG included, are refused with the ones that work named.
+func TestFormatOf(t *testing.T) {
+	for _, c := range []struct {
+		path string
+		want Format
+	}{{"a.png", PNG}, {"A.PNG", PNG}, {"b.jpg", JPEG}, {"c.JPEG", JPEG}, {"d.svg", ""}, {"e", ""}, {"f.png.gz", ""}} {
+		got, err := FormatOf(c.path)
+		if got != c.want || (c.want == "") != (err != nil) {
+			t.Errorf("FormatOf(%q) = %q, %v; want %q", c.path, got, err, c.want)
+		}
+		if err != nil && !strings.Contains(err.Error(), ".png, .jpg or .jpeg") {
+			t.Errorf("FormatOf(%q): %v does not name the formats that work", c.path, err)
+		}
+	}
+}
+
+// TestWrite writes a small image as PNG and as JPEG and decodes both with
+// the standard library's decoders (image/png, image/jpeg): the PNG exactly,
+// the JPEG within the loss of quality 92 on flat colours. The file mode is
+// 0644 and the input named is refused as the output.
+func TestWrite(t *testing.T) {
+	img := image.NewRGBA(image.Rect(0, 0, 64, 48))
+	for y := range 48 {
+		for x := range 64 {
+			c := color.RGBA{200, 30, 40, 255}
+			if x >= 32 {
+				c = color.RGBA{20, 90, 220, 255}
+			}
+			img.SetRGBA(x, y, c)
+		}
+	}
+	dir := t.TempDir()
+	pngPath := filepath.Join(dir, "sub", "fig.png")
+	if err := Write(pngPath, img, 150); err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(pngPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := png.Decode(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.At(5, 5) != (color.NRGBA{200, 30, 40, 255}) && got.At(5, 5) != (color.RGBA{200, 30, 40, 255}) {
+		t.Errorf("PNG pixel %v", got.At(5, 5))
+	}
+	if st, _ := os.Stat(pngPath); st.Mode().Perm() != 0o644 {
+		t.Errorf("mode %v, want 0644", st.Mode().Perm())
+	}
+	jpgPath := filepath.Join(dir, "fig.jpg")
+	if err := Write(jpgPath, img, 150); err != nil {
+		t.Fatal(err)
+	}
+	f, err := os.Open(jpgPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	j, err := jpeg.Decode(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, g, bl, _ := j.At(48, 24).RGBA()
+	if d := absDiff(r>>8, 20) + absDiff(g>>8, 90) + absDiff(bl>>8, 220); d > 24 {
+		t.Errorf("JPEG pixel %d,%d,%d, want about 20,90,220", r>>8, g>>8, bl>>8)
+	}
+	if err := Write(jpgPath, img, 150, jpgPath); err == nil {
+		t.Error("writing over an input: no error")
+	}
+	if err := Write(filepath.Join(dir, "fig.svg"), img, 150); err == nil {
+		t.Error("SVG: no error")
+	}
+}
+
+func absDiff(a, b uint32) uint32 {
+	if a > b {
+		return a - b
+	}
+	return b - a
+}
