@@ -11,6 +11,7 @@ import (
 	"image"
 	"image/color"
 	"image/jpeg"
+	"math"
 	"path/filepath"
 	"strings"
 
@@ -158,6 +159,7 @@ func Build(ctx context.Context, v *volume.Volume, r Request) (render.Figure, err
 		}
 		fig.Scale = render.ScaleBar{MetresPerTrace: spacing}
 		fig.Title = fmt.Sprintf("%s: time slice %g ms", name, info.StartMS+float64(s.Number)*float64(info.IntervalUS)/1000)
+		fig.Geo = MapGeo(v, sec.InlineKeys, keys)
 	}
 	if r.Overlay != "" {
 		fig.Title += ", " + fig.Legends[1].Name + " over " + fig.Legends[0].Name
@@ -167,7 +169,84 @@ func Build(ctx context.Context, v *volume.Volume, r Request) (render.Figure, err
 	if r.Title != "" {
 		fig.Title = r.Title
 	}
+	fig.Caption = Caption(name, attrs, params, cond)
 	return fig, nil
+}
+
+// Caption is a figure's caption line: the file or survey name, then each
+// attribute with its parameters as resolved and the conditioning, e.g.
+// "survey.sgy · Envelope (pad=fast, taper=0 ms) · band-pass 8-60 Hz".
+func Caption(name string, attrs []*compute.Attribute, params []compute.Params, cond compute.Conditioning) string {
+	parts := []string{name}
+	for i, a := range attrs {
+		text := a.Name
+		if i < len(params) && len(a.Params) > 0 {
+			var ps []string
+			for _, spec := range a.Params {
+				v := params[i].String(spec.Name)
+				if spec.Unit != "" {
+					v += " " + spec.Unit
+				}
+				ps = append(ps, spec.Name+"="+v)
+			}
+			text += " (" + strings.Join(ps, ", ") + ")"
+		}
+		parts = append(parts, text)
+	}
+	if !cond.IsZero() {
+		parts = append(parts, "conditioning "+cond.String())
+	}
+	return strings.Join(parts, " · ")
+}
+
+// MapGeo places a time slice's map on the ground from the survey's CDP
+// coordinates at the grid's corners (inlines down the page, crosslines
+// across): the direction of grid north on the page and the corners' X/Y.
+// It is nil when the survey has no coordinates at the corners or the grid
+// is degenerate (one line, or collinear corners).
+func MapGeo(v *volume.Volume, inlines, crosslines []int) *render.MapGeo {
+	if len(inlines) < 2 || len(crosslines) < 2 {
+		return nil
+	}
+	il0, il1 := inlines[0], inlines[len(inlines)-1]
+	xl0, xl1 := crosslines[0], crosslines[len(crosslines)-1]
+	type pt struct {
+		x, y float64
+		ok   bool
+	}
+	at := func(il, xl int) pt { x, y, ok := v.Coordinates(il, xl); return pt{x, y, ok} }
+	corners := [4]pt{at(il0, xl0), at(il0, xl1), at(il1, xl0), at(il1, xl1)}
+	g := &render.MapGeo{NorthDegrees: math.NaN()}
+	any := false
+	for k, c := range corners {
+		if c.ok {
+			g.Corners[k] = fmt.Sprintf("X %.0f  Y %.0f", c.x, c.y)
+			any = true
+		}
+	}
+	if !any {
+		return nil
+	}
+	tl, tr, bl := corners[0], corners[1], corners[2]
+	if tl.ok && tr.ok && bl.ok {
+		// Page right is the crossline direction (tl to tr), page down the
+		// inline direction (tl to bl); the map is drawn with equal metres
+		// both ways. North (0, 1) on the ground is a*across + b*down with
+		// across and down the unit vectors of those directions.
+		ax, ay := tr.x-tl.x, tr.y-tl.y
+		dx, dy := bl.x-tl.x, bl.y-tl.y
+		la, ld := math.Hypot(ax, ay), math.Hypot(dx, dy)
+		if la > 0 && ld > 0 {
+			ax, ay, dx, dy = ax/la, ay/la, dx/ld, dy/ld
+			det := ax*dy - ay*dx
+			if math.Abs(det) > 1e-6 {
+				a := -dx / det // solves a*(ax,ay) + b*(dx,dy) = (0,1)
+				b := ax / det
+				g.NorthDegrees = math.Mod(math.Atan2(a, -b)*180/math.Pi+360, 360)
+			}
+		}
+	}
+	return g
 }
 
 // Format is an image file format a figure can be written in.

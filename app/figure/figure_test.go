@@ -2,14 +2,20 @@ package figure
 
 import (
 	"bytes"
+	"context"
 	"image"
 	"image/color"
 	"image/jpeg"
 	"image/png"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"quadtrace/app/apptest"
+	"quadtrace/app/volume"
+	"quadtrace/segy"
 )
 
 // TestFormatOf: the extension (any case) decides the format; others,
@@ -93,4 +99,44 @@ func absDiff(a, b uint32) uint32 {
 		return a - b
 	}
 	return b - a
+}
+
+// TestMapGeoAndCaption builds a time-slice figure of an invented volume
+// whose CDP X grows east with the crossline (12.5 m) and Y north with the
+// inline (apptest.WriteVolume): inlines run down the page, so grid north
+// points straight down (180 degrees clockwise from up), and the top-left
+// corner (inline 1, crossline 1) is at X 612013, Y 7130013 (612000.5 +
+// 12.5, 7130000.25 + 12.5, rounded). The caption names the file, the
+// attribute and its parameters as resolved.
+func TestMapGeoAndCaption(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "grid.sgy")
+	apptest.WriteVolume(t, path, apptest.VolumeSpec{Inlines: [2]int{1, 6}, Crosslines: [2]int{1, 9}, Samples: 60, IntervalUS: 4000})
+	v, err := volume.Open(path, segy.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer v.Close()
+	fig, err := Build(context.Background(), v, Request{Orientation: volume.TimeSlice, TimeMS: 100, Attribute: "envelope",
+		Params: map[string]string{"taper": "8"}, Clip: 99, Width: 800, Height: 600})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fig.Geo == nil || math.Abs(fig.Geo.NorthDegrees-180) > 1e-6 {
+		t.Fatalf("geo %+v, want north at 180 degrees", fig.Geo)
+	}
+	if fig.Geo.Corners[0] != "X 612013  Y 7130013" {
+		t.Errorf("top-left corner %q", fig.Geo.Corners[0])
+	}
+	for _, want := range []string{"grid.sgy", "Envelope", "taper=8 ms", "pad="} {
+		if !strings.Contains(fig.Caption, want) {
+			t.Errorf("caption %q lacks %q", fig.Caption, want)
+		}
+	}
+	if _, err := fig.Draw(); err != nil {
+		t.Fatal(err)
+	}
+	sec, err := Build(context.Background(), v, Request{Orientation: volume.Inline, Inline: 2, Attribute: "amplitude", Clip: 99, Width: 800, Height: 600})
+	if err != nil || sec.Geo != nil {
+		t.Errorf("inline figure: geo %+v, error %v; want none", sec.Geo, err)
+	}
 }

@@ -28,6 +28,11 @@ func (s fileStore) timeSlice(sample, offset int) ([][]float32, error) {
 
 func (s fileStore) close() error { return s.f.Close() }
 
+func (s fileStore) coordinates(i int) (float64, float64, error) {
+	h, err := s.f.TraceHeader(i)
+	return h.CDPX, h.CDPY, err
+}
+
 // surveyStore reads the in-memory demo survey (inline-major traces).
 type surveyStore struct{ s *synth.Survey }
 
@@ -60,6 +65,15 @@ func (s surveyStore) timeSlice(sample, _ int) ([][]float32, error) {
 }
 
 func (s surveyStore) close() error { return nil }
+
+func (s surveyStore) coordinates(i int) (float64, float64, error) {
+	n := s.s.Config.Crosslines
+	if i < 0 || i >= len(s.s.Traces) || n <= 0 {
+		return 0, 0, fmt.Errorf("demo survey: no trace %d", i)
+	}
+	x, y := s.s.CDP(s.s.FirstInline+i/n, s.s.FirstCrossline+i%n)
+	return x, y, nil
+}
 
 // surveyInfo describes the demo survey in the terms `scan` uses for a file.
 func surveyInfo(s *synth.Survey) segy.Info {

@@ -79,6 +79,9 @@ type store interface {
 	// traceIndex returns the position of the trace at (inline, crossline,
 	// offset), or -1 where there is none.
 	traceIndex(inline, crossline, offset int) int
+	// coordinates returns the CDP X and Y of trace i (scaled, in the
+	// survey's units).
+	coordinates(i int) (x, y float64, err error)
 	// readTrace reads trace i into dst (reused when large enough).
 	readTrace(i int, dst []float32) ([]float32, error)
 	// timeSlice returns values at one sample on the inline x crossline grid.
@@ -184,6 +187,21 @@ func (v *Volume) Trace(inline, crossline, offset int) ([]float32, error) {
 		return nil, fmt.Errorf("%s: no trace at inline %d, crossline %d", v.name, inline, crossline)
 	}
 	return v.store.readTrace(i, nil)
+}
+
+// Coordinates returns the CDP X and Y of the trace at (inline, crossline)
+// of the first offset; ok is false where there is no trace, or the survey
+// has no coordinates (both zero).
+func (v *Volume) Coordinates(inline, crossline int) (x, y float64, ok bool) {
+	i := v.store.traceIndex(inline, crossline, v.offset(0))
+	if i < 0 {
+		return 0, 0, false
+	}
+	x, y, err := v.store.coordinates(i)
+	if err != nil || (x == 0 && y == 0) || math.IsNaN(x+y) || math.IsInf(x+y, 0) {
+		return 0, 0, false
+	}
+	return x, y, true
 }
 
 // Read returns the amplitude section s.
