@@ -40,6 +40,26 @@ type plan struct {
 	inlines    *Range
 	crosslines *Range
 	budget     int64
+	source     Source // when set, read instead of opening input
+	stem       string // names outputs in a folder; "" takes input's stem
+}
+
+// fileSource is a SEG-Y file opened by the export as a Source.
+type fileSource struct{ *segy.File }
+
+func (f fileSource) Name() string { return f.Path() }
+
+// Source is a survey an export can read other than a SEG-Y file it opens
+// itself: the demo survey held in memory by app/volume, for one. Its
+// methods must be safe for concurrent use with the caller's other reads.
+type Source interface {
+	// Name names the survey in the outputs' textual headers.
+	Name() string
+	// Info describes it as segy.File.Info does a file.
+	Info() segy.Info
+	// TraceHeader and ReadTrace read trace i (0 to Info().Traces-1).
+	TraceHeader(i int) (segy.TraceHeader, error)
+	ReadTrace(i int, dst []float32) ([]float32, error)
 }
 
 // runPlan exports the stages of p; see Run for the contract.
@@ -61,27 +81,43 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, fmt.Errorf("negative memory budget %d", p.budget)
 	}
 
-	// The input is opened read-only and read with ordinary reads rather
-	// than mapped: a mapping of the whole volume would count in the
-	// process's resident memory as it is read, defeating the budget.
-	fh, err := os.Open(p.input)
-	if err != nil {
-		return nil, err
+	var (
+		src    Source
+		create func(dst string, opt segy.WriteOptions) (*segy.Writer, error)
+		win    *windowReader
+	)
+	if p.source != nil {
+		src, p.input = p.source, p.source.Name()
+		create = func(dst string, opt segy.WriteOptions) (*segy.Writer, error) {
+			in := src.Info()
+			return segy.CreateNew(dst, segy.NewSpec{Samples: in.Samples, IntervalUS: in.IntervalUS, StartMS: in.StartMS}, opt)
+		}
+	} else {
+		// The input is opened read-only and read with ordinary reads
+		// rather than mapped: a mapping of the whole volume would count
+		// in the process's resident memory as it is read, defeating the
+		// budget.
+		fh, err := os.Open(p.input)
+		if err != nil {
+			return nil, err
+		}
+		defer fh.Close()
+		st, err := fh.Stat()
+		if err != nil {
+			return nil, err
+		}
+		if st.IsDir() {
+			return nil, fmt.Errorf("%s is a folder, not a SEG-Y file", p.input)
+		}
+		win = &windowReader{r: fh}
+		f, err := segy.OpenReaderAt(win, st.Size(), p.input, p.options)
+		if err != nil {
+			return nil, err
+		}
+		defer f.Close()
+		src = fileSource{f}
+		create = func(dst string, opt segy.WriteOptions) (*segy.Writer, error) { return segy.Create(dst, f, opt) }
 	}
-	defer fh.Close()
-	st, err := fh.Stat()
-	if err != nil {
-		return nil, err
-	}
-	if st.IsDir() {
-		return nil, fmt.Errorf("%s is a folder, not a SEG-Y file", p.input)
-	}
-	win := &windowReader{r: fh}
-	src, err := segy.OpenReaderAt(win, st.Size(), p.input, p.options)
-	if err != nil {
-		return nil, err
-	}
-	defer src.Close()
 	info := src.Info()
 	if info.Traces == 0 {
 		return nil, fmt.Errorf("%s: no traces", p.input)
@@ -90,7 +126,11 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, fmt.Errorf("%s: sample interval unknown (0 in the binary and trace headers)", p.input)
 	}
 
-	dsts, madeDir, err := destinations(p.input, p.output, p.stages)
+	stem := p.stem
+	if stem == "" {
+		stem = strings.TrimSuffix(filepath.Base(p.input), filepath.Ext(p.input))
+	}
+	dsts, madeDir, err := destinations(p.input, stem, p.output, p.stages)
 	if err != nil {
 		return nil, err
 	}
@@ -117,7 +157,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		longest = max(longest, r.Count)
 	}
 	traceBytes := segy.TraceHeaderSize + info.Samples*segy.FormatSize(info.Format)
-	if window := min(readWindow, longest*traceBytes); window >= 2*traceBytes {
+	if window := min(readWindow, longest*traceBytes); win != nil && window >= 2*traceBytes {
 		win.enable(window)
 	}
 	perBlock, err := blockSize(p.budget, info.Samples, len(p.stages), p.cond.apply != nil, total)
@@ -136,7 +176,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	for k, s := range p.stages {
 		text := textHeader(headerFacts{stage: s, cond: p.cond.describe, input: p.input, info: info,
 			inlines: p.inlines, crosslines: p.crosslines, traces: total, format: p.format})
-		w, err := segy.Create(dsts[k], src, segy.WriteOptions{Format: p.format, TextHeader: text})
+		w, err := create(dsts[k], segy.WriteOptions{Format: p.format, TextHeader: text})
 		if err != nil {
 			return nil, err
 		}
@@ -200,8 +240,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 // folder), and output/<stem>-<id>.sgy for several, creating the folder
 // output when it does not exist (madeDir then names it, for removal on
 // failure). It refuses a destination that is the input file.
-func destinations(input, output string, stages []stage) (dsts []string, madeDir string, err error) {
-	stem := strings.TrimSuffix(filepath.Base(input), filepath.Ext(input))
+func destinations(input, stem, output string, stages []stage) (dsts []string, madeDir string, err error) {
 	named := func(dir string) []string {
 		out := make([]string, len(stages))
 		for k, s := range stages {

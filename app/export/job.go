@@ -12,7 +12,15 @@ import (
 
 // Job is one whole-volume attribute export.
 type Job struct {
-	Input       string       // the SEG-Y volume; opened read-only, never written
+	Input string // the SEG-Y volume; opened read-only, never written
+	// Source, when set, is read instead of Input (which is then unused):
+	// a survey already open, such as the demo survey in memory, exports
+	// without being written to a file first. Its outputs get a textual
+	// header of the export's own and a binary header from its sampling.
+	Source Source
+	// Stem names the outputs written into a folder, <Stem>-<id>.sgy; ""
+	// takes the stem of Input's file name (or of Source's name).
+	Stem        string
 	SegyOptions segy.Options // header byte locations and byte order overrides
 
 	// Attributes are attribute ids (see compute.Attributes); one output each.
@@ -75,7 +83,7 @@ func Run(ctx context.Context, job Job, progress func(Progress)) ([]string, error
 	return runPlan(ctx, plan{
 		input: job.Input, options: job.SegyOptions, stages: stages, cond: c,
 		output: job.Output, format: job.Format, inlines: job.Inlines, crosslines: job.Crosslines,
-		budget: job.BudgetBytes,
+		budget: job.BudgetBytes, source: job.Source, stem: job.Stem,
 	}, progress)
 }
 

@@ -1,11 +1,9 @@
 package viewer
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
-	"quadtrace/app/export"
-	"quadtrace/compute"
-	"quadtrace/segy"
 	"strings"
 
 	"fyne.io/fyne/v2"
@@ -13,6 +11,10 @@ import (
 	"fyne.io/fyne/v2/dialog"
 	"fyne.io/fyne/v2/layout"
 	"fyne.io/fyne/v2/widget"
+
+	"quadtrace/app/export"
+	"quadtrace/compute"
+	"quadtrace/segy"
 )
 
 // showExportDialog lets the user pick attributes, format and folder for a
@@ -138,26 +140,18 @@ func demoStem(info segy.Info) string {
 	return strings.Join(strings.Fields(strings.ToLower(name)), "-")
 }
 
-// runDemoExport exports from the in-memory demo survey: the job first
-// writes the survey as a temporary SEG-Y file in a hidden folder inside the
-// destination folder (the export job reads files), exports from it as from
-// any file, and removes it whatever happens. Outputs are named after stem.
+// runDemoExport exports from the in-memory demo survey, read as the
+// export's trace source (export.Source) without writing it to a file
+// first. Outputs are named after stem.
 func (v *viewer) runDemoExport(ej export.Job, folder, stem string) {
-	vol := v.vol
+	src, ok := v.vol.(export.Source)
 	cancel := func() { v.jobs.cancel("export") }
-	v.setBusy(v.ui.export, "Writing the demo survey", 0, 0, cancel)
+	v.setBusy(v.ui.export, "Exporting", 0, 0, cancel)
 	v.jobs.start("export", func(j *job) {
-		// A hidden folder of its own holds stem.sgy, so that the export
-		// names its outputs stem-ID.sgy and records stem.sgy as the source.
-		tmpDir, err := os.MkdirTemp(folder, ".quadtrace-demo-*")
-		input := filepath.Join(tmpDir, stem+".sgy")
-		if err == nil {
-			defer os.RemoveAll(tmpDir)
-			err = vol.WriteDemo(j.ctx, input, segy.WriteOptions{Format: 5})
-		}
 		var paths []string
-		if err == nil {
-			ej.Input = input
+		err := fmt.Errorf("the survey in the window cannot be exported (%T is no trace source)", v.vol)
+		if ok {
+			ej.Source, ej.Stem = src, stem
 			var thr progressThrottle
 			paths, err = export.Run(j.ctx, ej, func(p export.Progress) {
 				if thr.due(p.Done, p.Total) {

@@ -28,6 +28,8 @@ func (s fileStore) timeSlice(sample, offset int) ([][]float32, error) {
 
 func (s fileStore) close() error { return s.f.Close() }
 
+func (s fileStore) traceHeader(i int) (segy.TraceHeader, error) { return s.f.TraceHeader(i) }
+
 func (s fileStore) coordinates(i int) (float64, float64, error) {
 	h, err := s.f.TraceHeader(i)
 	return h.CDPX, h.CDPY, err
@@ -67,12 +69,20 @@ func (s surveyStore) timeSlice(sample, _ int) ([][]float32, error) {
 func (s surveyStore) close() error { return nil }
 
 func (s surveyStore) coordinates(i int) (float64, float64, error) {
+	h, err := s.traceHeader(i)
+	return h.CDPX, h.CDPY, err
+}
+
+// traceHeader makes the header the demo survey's SEG-Y file has (see
+// WriteSurvey): inline, crossline and CDP coordinates.
+func (s surveyStore) traceHeader(i int) (segy.TraceHeader, error) {
 	n := s.s.Config.Crosslines
 	if i < 0 || i >= len(s.s.Traces) || n <= 0 {
-		return 0, 0, fmt.Errorf("demo survey: no trace %d", i)
+		return segy.TraceHeader{}, fmt.Errorf("demo survey: no trace %d", i)
 	}
-	x, y := s.s.CDP(s.s.FirstInline+i/n, s.s.FirstCrossline+i%n)
-	return x, y, nil
+	il, xl := s.s.FirstInline+i/n, s.s.FirstCrossline+i%n
+	x, y := s.s.CDP(il, xl)
+	return segy.NewTraceHeader(il, xl, x, y), nil
 }
 
 // surveyInfo describes the demo survey in the terms `scan` uses for a file.

@@ -82,6 +82,8 @@ type store interface {
 	// coordinates returns the CDP X and Y of trace i (scaled, in the
 	// survey's units).
 	coordinates(i int) (x, y float64, err error)
+	// traceHeader returns trace i's header.
+	traceHeader(i int) (segy.TraceHeader, error)
 	// readTrace reads trace i into dst (reused when large enough).
 	readTrace(i int, dst []float32) ([]float32, error)
 	// timeSlice returns values at one sample on the inline x crossline grid.
@@ -203,6 +205,16 @@ func (v *Volume) Coordinates(inline, crossline int) (x, y float64, ok bool) {
 	}
 	return x, y, true
 }
+
+// TraceHeader returns the header of trace i in storage order (0 to
+// Info().Traces-1): as read from the file, or for the demo survey one with
+// its inline, crossline and CDP coordinates. With ReadTrace it makes a
+// Volume a trace source for the export (export.Source).
+func (v *Volume) TraceHeader(i int) (segy.TraceHeader, error) { return v.store.traceHeader(i) }
+
+// ReadTrace reads trace i in storage order into dst (reused when large
+// enough).
+func (v *Volume) ReadTrace(i int, dst []float32) ([]float32, error) { return v.store.readTrace(i, dst) }
 
 // Read returns the amplitude section s.
 func (v *Volume) Read(ctx context.Context, s Slice) (Section, error) {
