@@ -19,6 +19,7 @@ import (
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
+	"quadtrace/palettes"
 	"quadtrace/render"
 )
 
@@ -85,91 +86,144 @@ func Build(ctx context.Context, v *volume.Volume, r Request) (render.Figure, err
 	if err != nil {
 		return render.Figure{}, err
 	}
-	layer := func(k int, paletteName string, overlay bool) (render.Layer, render.Legend, volume.Section, error) {
-		a, p := attrs[k], params[k]
-		sec, err := v.Attribute(ctx, s, a, p, cond, nil)
-		if err != nil {
-			return render.Layer{}, render.Legend{}, volume.Section{}, err
-		}
-		var l render.Layer
-		if overlay {
-			pal, err := style.OverlayPalette(a, paletteName)
-			if err != nil {
-				return render.Layer{}, render.Legend{}, volume.Section{}, err
-			}
-			l = style.Overlay(a, sec.Traces, pal, r.Clip, r.Opacity, r.OpacityFollows)
-		} else {
-			pal, err := style.Palette(a, paletteName)
-			if err != nil {
-				return render.Layer{}, render.Legend{}, volume.Section{}, err
-			}
-			l = style.Layer(a, sec.Traces, pal, r.Clip)
-		}
-		return l, style.LegendFor(a, l), sec, nil
+	c := Content{
+		Name: filepath.Base(v.Name()), Attrs: attrs, Params: params, Cond: cond,
+		Clip: r.Clip, Opacity: r.Opacity, OpacityFollows: r.OpacityFollows, Wiggle: r.Wiggle,
+		Width: r.Width, Height: r.Height, Title: r.Title, MetresPerTrace: r.BinM,
 	}
-	base, baseLegend, sec, err := layer(0, r.Palette, false)
-	if err != nil {
-		return render.Figure{}, err
-	}
-	fig := render.Figure{Base: base, Legends: []render.Legend{baseLegend}, Width: r.Width, Height: r.Height}
-	if r.Overlay != "" {
-		over, overLegend, _, err := layer(1, r.OverlayPalette, true)
+	for k, name := range []string{r.Palette, r.OverlayPalette}[:len(attrs)] {
+		pick := style.Palette
+		if k == 1 {
+			pick = style.OverlayPalette
+		}
+		pal, err := pick(attrs[k], name)
 		if err != nil {
 			return render.Figure{}, err
 		}
-		fig.Overlay = &over
-		fig.Legends = append(fig.Legends, overLegend)
+		sec, err := v.Attribute(ctx, s, attrs[k], params[k], cond, nil)
+		if err != nil {
+			return render.Figure{}, err
+		}
+		c.Palettes = append(c.Palettes, pal)
+		c.Sections = append(c.Sections, &sec)
 	}
-	if r.Wiggle && r.Orientation != volume.TimeSlice {
-		// Wiggles show the amplitude: the base layer itself when it is the
-		// unconditioned amplitude, else the section read once more.
-		amp := sec
-		if r.Attribute != "amplitude" || !cond.IsZero() {
-			if amp, err = v.Read(ctx, s); err != nil {
-				return render.Figure{}, err
+	if r.Wiggle && r.Orientation != volume.TimeSlice && (r.Attribute != "amplitude" || !cond.IsZero()) {
+		// Wiggles show the amplitude: the base layer itself when it is
+		// the unconditioned amplitude, else the section read once more.
+		amp, err := v.Read(ctx, s)
+		if err != nil {
+			return render.Figure{}, err
+		}
+		c.Amplitude = &amp
+	}
+	if r.Orientation == volume.TimeSlice {
+		if c.MetresPerTrace == 0 {
+			c.MetresPerTrace = info.InlineSpacingM
+		}
+		c.Geo = MapGeo(v, c.Sections[0].InlineKeys, c.Sections[0].Keys)
+	}
+	return Compose(c)
+}
+
+// Content is what a figure shows, already computed: the window passes what
+// it displays, Build what it computed for a Request. Compose lays it out.
+type Content struct {
+	Name     string               // file or survey name, for the title and caption
+	Attrs    []*compute.Attribute // base, then the overlay if any
+	Params   []compute.Params     // as resolved, one per attribute (for the caption)
+	Cond     compute.Conditioning // applied before the attributes
+	Sections []*volume.Section    // one per attribute, all of one slice
+	Palettes []*palettes.Palette  // one per attribute
+	// Amplitude is the wiggles' data when it is not Sections[0] (an
+	// attribute or conditioned base); nil draws Sections[0].
+	Amplitude *volume.Section
+
+	Clip, Opacity  float64 // percentile kept inside the colours; overlay opacity
+	OpacityFollows bool    // weak overlay values more transparent
+	Wiggle         bool    // amplitude wiggles over a section
+	// View is the window of a section shown (render.Figure.View); the zero
+	// value shows it all.
+	View          render.Viewport
+	Width, Height int
+	Title         string // "" makes one from the name, the slice and the attributes
+	// MetresPerTrace is the scale bar's trace spacing; 0 takes the
+	// section's own (for a map: none, give the inline spacing).
+	MetresPerTrace float64
+	Geo            *render.MapGeo // a map's north arrow and corner coordinates
+}
+
+// Compose lays out the figure of c: layers and legends by the attribute's
+// kind (app/style), axes labelled at the centres of the first and last
+// trace and sample in view, scale bar, title and caption. It is the one
+// figure builder of the window and the figure command.
+func Compose(c Content) (render.Figure, error) {
+	if len(c.Sections) == 0 || len(c.Sections) != len(c.Attrs) || len(c.Palettes) != len(c.Attrs) || c.Sections[0] == nil {
+		return render.Figure{}, fmt.Errorf("figure: %d sections, %d attributes and %d palettes", len(c.Sections), len(c.Attrs), len(c.Palettes))
+	}
+	base := c.Sections[0]
+	if len(base.Traces) == 0 || len(base.Traces[0]) == 0 {
+		return render.Figure{}, fmt.Errorf("figure: the section is empty")
+	}
+	fig := render.Figure{Width: c.Width, Height: c.Height, View: c.View}
+	fig.Base = style.Layer(c.Attrs[0], base.Traces, c.Palettes[0], c.Clip)
+	fig.Legends = []render.Legend{style.LegendFor(c.Attrs[0], fig.Base)}
+	if len(c.Attrs) > 1 && c.Sections[1] != nil {
+		ov := style.Overlay(c.Attrs[1], c.Sections[1].Traces, c.Palettes[1], c.Clip, c.Opacity, c.OpacityFollows)
+		fig.Overlay = &ov
+		fig.Legends = append(fig.Legends, style.LegendFor(c.Attrs[1], ov))
+	}
+	sl := base.Slice
+	if sl.Orientation == volume.TimeSlice {
+		keys, rows := base.Keys, base.InlineKeys
+		fig.MapAspect = base.MapAspect
+		if !(fig.MapAspect > 0) {
+			fig.MapAspect = 1
+		}
+		fig.View = render.Viewport{}
+		fig.Horizontal = render.Axis{Title: "Crossline", First: float64(keys[0]), Last: float64(keys[len(keys)-1])}
+		fig.Vertical = render.Axis{Title: "Inline", First: float64(rows[0]), Last: float64(rows[len(rows)-1])}
+		fig.Scale = render.ScaleBar{MetresPerTrace: c.MetresPerTrace}
+		fig.Geo = c.Geo
+		fig.Title = fmt.Sprintf("%s: time slice %g ms", c.Name, (base.T0+float64(sl.Number)*base.DT)*1000)
+	} else {
+		n, m := len(base.Traces), len(base.Traces[0])
+		vp := c.View
+		if vp == (render.Viewport{}) {
+			vp = render.Viewport{Trace0: 0, Trace1: float64(n), Sample0: 0, Sample1: float64(m)}
+		}
+		i0 := max(0, min(int(vp.Trace0), n-1))
+		i1 := max(i0, min(int(vp.Trace1+0.999)-1, n-1))
+		s0 := max(0, min(int(vp.Sample0), m-1))
+		s1 := max(s0, min(int(vp.Sample1+0.999)-1, m-1))
+		across := "Crossline"
+		if sl.Orientation == volume.Crossline {
+			across = "Inline"
+		}
+		fig.Horizontal = render.Axis{Title: across, First: float64(base.Keys[i0]), Last: float64(base.Keys[i1])}
+		fig.Vertical = render.Axis{Title: "Time (ms)", First: (base.T0 + float64(s0)*base.DT) * 1000, Last: (base.T0 + float64(s1)*base.DT) * 1000}
+		if c.Wiggle {
+			amp := base
+			if c.Amplitude != nil {
+				amp = c.Amplitude
 			}
+			fig.Wiggle = &render.WiggleStyle{Data: amp.Traces, Color: color.RGBA{A: 255}, Fill: true, Gain: 1}
 		}
-		fig.Wiggle = &render.WiggleStyle{Data: amp.Traces, Color: color.RGBA{A: 255}, Fill: true, Gain: 1}
-	}
-	name := filepath.Base(v.Name())
-	keys := sec.Keys
-	switch r.Orientation {
-	case volume.Inline, volume.Crossline:
-		across := "crossline"
-		if r.Orientation == volume.Crossline {
-			across = "inline"
-		}
-		fig.Horizontal = render.Axis{Title: across, First: float64(keys[0]), Last: float64(keys[len(keys)-1])}
-		first := info.StartMS
-		last := first + float64(info.Samples-1)*float64(info.IntervalUS)/1000
-		fig.Vertical = render.Axis{Title: "time (ms)", First: first, Last: last}
-		spacing := sec.MetresPerTrace
-		if r.BinM > 0 {
-			spacing = r.BinM
+		spacing := base.MetresPerTrace
+		if c.MetresPerTrace > 0 {
+			spacing = c.MetresPerTrace
 		}
 		fig.Scale = render.ScaleBar{MetresPerTrace: spacing}
-		fig.Title = fmt.Sprintf("%s: %s %d", name, r.Orientation, s.Number)
-	case volume.TimeSlice:
-		fig.Horizontal = render.Axis{Title: "crossline", First: float64(keys[0]), Last: float64(keys[len(keys)-1])}
-		fig.Vertical = render.Axis{Title: "inline", First: float64(sec.InlineKeys[0]), Last: float64(sec.InlineKeys[len(sec.InlineKeys)-1])}
-		fig.MapAspect = sec.MapAspect
-		spacing := info.InlineSpacingM
-		if r.BinM > 0 {
-			spacing = r.BinM
-		}
-		fig.Scale = render.ScaleBar{MetresPerTrace: spacing}
-		fig.Title = fmt.Sprintf("%s: time slice %g ms", name, info.StartMS+float64(s.Number)*float64(info.IntervalUS)/1000)
-		fig.Geo = MapGeo(v, sec.InlineKeys, keys)
+		fig.Title = fmt.Sprintf("%s: %s %d", c.Name, sl.Orientation, sl.Number)
 	}
-	if r.Overlay != "" {
+	if len(fig.Legends) > 1 {
 		fig.Title += ", " + fig.Legends[1].Name + " over " + fig.Legends[0].Name
 	} else {
 		fig.Title += ", " + fig.Legends[0].Name
 	}
-	if r.Title != "" {
-		fig.Title = r.Title
+	if c.Title != "" {
+		fig.Title = c.Title
 	}
-	fig.Caption = Caption(name, attrs, params, cond)
+	fig.Caption = Caption(c.Name, c.Attrs, c.Params, c.Cond)
 	return fig, nil
 }
 
@@ -199,12 +253,18 @@ func Caption(name string, attrs []*compute.Attribute, params []compute.Params, c
 	return strings.Join(parts, " · ")
 }
 
+// Located is a survey that knows its traces' CDP coordinates
+// (*volume.Volume is one).
+type Located interface {
+	Coordinates(inline, crossline int) (x, y float64, ok bool)
+}
+
 // MapGeo places a time slice's map on the ground from the survey's CDP
 // coordinates at the grid's corners (inlines down the page, crosslines
 // across): the direction of grid north on the page and the corners' X/Y.
 // It is nil when the survey has no coordinates at the corners or the grid
 // is degenerate (one line, or collinear corners).
-func MapGeo(v *volume.Volume, inlines, crosslines []int) *render.MapGeo {
+func MapGeo(v Located, inlines, crosslines []int) *render.MapGeo {
 	if len(inlines) < 2 || len(crosslines) < 2 {
 		return nil
 	}

@@ -14,7 +14,11 @@ import (
 	"testing"
 
 	"quadtrace/app/apptest"
+	"quadtrace/app/style"
 	"quadtrace/app/volume"
+	"quadtrace/compute"
+	"quadtrace/palettes"
+	"quadtrace/render"
 	"quadtrace/segy"
 )
 
@@ -138,5 +142,43 @@ func TestMapGeoAndCaption(t *testing.T) {
 	sec, err := Build(context.Background(), v, Request{Orientation: volume.Inline, Inline: 2, Attribute: "amplitude", Clip: 99, Width: 800, Height: 600})
 	if err != nil || sec.Geo != nil {
 		t.Errorf("inline figure: geo %+v, error %v; want none", sec.Geo, err)
+	}
+}
+
+// TestComposeView: a section shown through a window is labelled at the
+// centres of the first and last trace and sample in view (traces 1 to 3 of
+// crosslines 20-24; samples 10 to 19 at 4 ms from 100 ms), and the wiggles
+// draw the amplitude given beside an attribute base.
+func TestComposeView(t *testing.T) {
+	traces := make([][]float32, 5)
+	for i := range traces {
+		traces[i] = make([]float32, 50)
+		for k := range traces[i] {
+			traces[i][k] = float32(i + k%7)
+		}
+	}
+	sec := &volume.Section{Section: compute.Section{Traces: traces, DT: 0.004, T0: 0.1},
+		Slice: volume.Slice{Orientation: volume.Inline, Number: 3}, Keys: []int{20, 21, 22, 23, 24}, MetresPerTrace: 25}
+	amp := &volume.Section{Section: sec.Section, Slice: sec.Slice, Keys: sec.Keys}
+	env, _ := compute.Lookup("envelope")
+	p, _ := env.Resolve(nil)
+	pal, err := style.Palette(env, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	fig, err := Compose(Content{Name: "t.sgy", Attrs: []*compute.Attribute{env}, Params: []compute.Params{p},
+		Sections: []*volume.Section{sec}, Palettes: []*palettes.Palette{pal}, Amplitude: amp, Wiggle: true,
+		Clip: 99, Width: 800, Height: 600, View: render.Viewport{Trace0: 1, Trace1: 4, Sample0: 10, Sample1: 20}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fig.Horizontal.First != 21 || fig.Horizontal.Last != 23 || fig.Vertical.First != 140 || fig.Vertical.Last != 176 {
+		t.Errorf("axes %+v %+v, want crosslines 21..23 and 140..176 ms", fig.Horizontal, fig.Vertical)
+	}
+	if fig.Wiggle == nil || &fig.Wiggle.Data[0][0] != &amp.Traces[0][0] {
+		t.Error("wiggles do not draw the amplitude given")
+	}
+	if !strings.HasPrefix(fig.Title, "t.sgy: inline 3, Envelope") || fig.Scale.MetresPerTrace != 25 {
+		t.Errorf("title %q, scale %+v", fig.Title, fig.Scale)
 	}
 }

@@ -12,8 +12,8 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"quadtrace/app/figure"
-	"quadtrace/app/style"
 	"quadtrace/app/volume"
+	"quadtrace/compute"
 	"quadtrace/render"
 )
 
@@ -84,48 +84,31 @@ func (v *viewer) figureFor(title string, w, h int) (render.Figure, error) {
 		return render.Figure{}, fmt.Errorf("no section is shown")
 	}
 	st := v.state
-	pl := d.plan
-	basePal := st.paletteFor(pl.Base, false)
-	f := render.Figure{Title: title, Width: w, Height: h}
-	f.Base = style.Layer(pl.Base, d.base.Traces, basePal, st.ClipPercent)
-	f.Legends = []render.Legend{style.LegendFor(pl.Base, f.Base)}
-	if pl.Overlay != nil && d.over != nil {
-		ov := style.Overlay(pl.Overlay, d.over.Traces, st.paletteFor(pl.Overlay, true), st.ClipPercent, st.Opacity, st.OpacityFollowsValue)
-		f.Overlay = &ov
-		f.Legends = []render.Legend{f.Legends[0], style.LegendFor(pl.Overlay, ov)}
+	c := figure.Content{
+		Name: filepath.Base(v.vol.Name()), Cond: st.Cond, Clip: st.ClipPercent, Opacity: st.Opacity,
+		OpacityFollows: st.OpacityFollowsValue, Wiggle: st.Wiggle, Width: w, Height: h, Title: title,
 	}
-	amp := d.amp
-	if amp.Slice.Orientation == volume.TimeSlice {
-		f.MapAspect = amp.MapAspect
-		if !(f.MapAspect > 0) {
-			f.MapAspect = 1
+	for k, a := range []*compute.Attribute{d.plan.Base, d.plan.Overlay} {
+		sec := []*volume.Section{d.base, d.over}[k]
+		if a == nil || sec == nil {
+			continue
 		}
-		f.Horizontal = render.Axis{Title: "Crossline", First: float64(amp.Keys[0]), Last: float64(amp.Keys[len(amp.Keys)-1])}
-		f.Vertical = render.Axis{Title: "Inline", First: float64(amp.InlineKeys[0]), Last: float64(amp.InlineKeys[len(amp.InlineKeys)-1])}
-		f.Scale = render.ScaleBar{MetresPerTrace: v.info.InlineSpacingM}
-		return f, nil
+		p, _ := a.Resolve(st.Params[a.ID]) // for the caption; the shown data used these
+		c.Attrs, c.Params, c.Sections = append(c.Attrs, a), append(c.Params, p), append(c.Sections, sec)
+		c.Palettes = append(c.Palettes, st.paletteFor(a, k == 1))
 	}
-	n, m := len(amp.Traces), len(amp.Traces[0])
-	vp := st.viewport(n, m)
-	f.View = vp
-	i0, i1 := int(vp.Trace0), min(int(vp.Trace1+0.999)-1, n-1)
-	hTitle := "Crossline"
-	if amp.Slice.Orientation == volume.Crossline {
-		hTitle = "Inline"
+	if d.base != d.amp {
+		c.Amplitude = d.amp
 	}
-	// Axis values are at the centres of the first and last trace (sample)
-	// in view.
-	f.Horizontal = render.Axis{Title: hTitle, First: float64(amp.Keys[i0]), Last: float64(amp.Keys[max(i1, i0)])}
-	s0, s1 := int(vp.Sample0), min(int(vp.Sample1+0.999)-1, m-1)
-	f.Vertical = render.Axis{Title: "Time (ms)", First: (amp.T0 + float64(s0)*amp.DT) * 1000, Last: (amp.T0 + float64(max(s1, s0))*amp.DT) * 1000}
-	if st.Wiggle {
-		f.Wiggle = &render.WiggleStyle{Fill: true, Gain: 1}
-		if d.base != d.amp {
-			f.Wiggle.Data = amp.Traces
+	if d.amp.Slice.Orientation == volume.TimeSlice {
+		c.MetresPerTrace = v.info.InlineSpacingM
+		if loc, ok := v.vol.(figure.Located); ok {
+			c.Geo = figure.MapGeo(loc, d.amp.InlineKeys, d.amp.Keys)
 		}
+	} else {
+		c.View = st.viewport(len(d.amp.Traces), len(d.amp.Traces[0]))
 	}
-	f.Scale = render.ScaleBar{MetresPerTrace: amp.MetresPerTrace}
-	return f, nil
+	return figure.Compose(c)
 }
 
 // saveFigure draws and writes the figure in the background.
