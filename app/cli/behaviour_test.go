@@ -56,7 +56,7 @@ func TestEveryCommandBehavesAlike(t *testing.T) {
 	for _, p := range inputs {
 		sums[p] = apptest.FileSum(t, p)
 	}
-	before := listNames(t, dir)
+	before := listDir(t, dir)
 	missing := filepath.Join(dir, "missing.sgy")
 
 	type call struct {
@@ -166,21 +166,7 @@ func TestEveryCommandBehavesAlike(t *testing.T) {
 			t.Errorf("%s changed", p)
 		}
 	}
-	if after := listNames(t, dir); !slices.Equal(after, before) {
+	if after := listDir(t, dir); !slices.Equal(after, before) {
 		t.Errorf("files in the folder changed: before %v, after %v", before, after)
 	}
-}
-
-// listNames lists the names in dir, hidden ones included, sorted.
-func listNames(t *testing.T, dir string) []string {
-	t.Helper()
-	entries, err := os.ReadDir(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var names []string
-	for _, e := range entries {
-		names = append(names, e.Name())
-	}
-	return names
 }

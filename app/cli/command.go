@@ -163,6 +163,43 @@ func (c *command) segyFlags() {
 	}
 }
 
+// openOne parses args of a command that takes one SEG-Y FILE and opens it
+// read-only with the SEG-Y options given. done means the command has
+// finished (help, a usage error or a failure, reported) with code.
+func (c *command) openOne(args []string) (f *segy.File, code int, done bool) {
+	pos, code, done := c.parse(args)
+	if done {
+		return nil, code, true
+	}
+	if len(pos) != 1 {
+		return nil, c.usage("want one FILE, got %d arguments", len(pos)), true
+	}
+	opt, err := c.segy()
+	if err != nil {
+		return nil, c.usage("%v", err), true
+	}
+	if f, err = segy.Open(pos[0], opt); err != nil {
+		return nil, c.fail(pos[0], err), true
+	}
+	return f, exitOK, false
+}
+
+// parseCommand builds a command with build, parses args and completes the
+// arguments (build's second result). done means help was printed or a
+// usage error reported, with code.
+func parseCommand[A any](build func(*A, io.Writer, io.Writer) (*command, func([]string) error), args []string, stdout, stderr io.Writer) (a *A, c *command, code int, done bool) {
+	a = new(A)
+	c, finish := build(a, stdout, stderr)
+	pos, code, done := c.parse(args)
+	if done {
+		return nil, c, code, true
+	}
+	if err := finish(pos); err != nil {
+		return nil, c, c.usage("%v", err), true
+	}
+	return a, c, exitOK, false
+}
+
 // multiFlag collects a repeatable string flag.
 type multiFlag []string
 

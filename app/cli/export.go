@@ -138,19 +138,11 @@ func newExportCommand(a *exportArgs, stdout, stderr io.Writer) (*command, func(p
 	}
 }
 
-// parseExportArgs reads the export command line (for tests: Export uses
-// newExportCommand directly). done reports help or a reported usage error.
+// parseExportArgs reads the export command line (for tests). done
+// reports help or a reported usage error.
 func parseExportArgs(args []string, stdout, stderr io.Writer) (*exportArgs, int, bool) {
-	var a exportArgs
-	c, finish := newExportCommand(&a, stdout, stderr)
-	pos, code, done := c.parse(args)
-	if done {
-		return nil, code, true
-	}
-	if err := finish(pos); err != nil {
-		return nil, c.usage("%v", err), true
-	}
-	return &a, exitOK, false
+	a, _, code, done := parseCommand(newExportCommand, args, stdout, stderr)
+	return a, code, done
 }
 
 // parseFormat maps ieee/ibm (or the SEG-Y format codes 5 and 1) to the code.
@@ -171,14 +163,9 @@ func parseFormat(s string) (int, error) {
 // is left at the destinations). The written paths go to stdout, one a
 // line; progress and errors go to stderr.
 func Export(args []string, stdout, stderr io.Writer) int {
-	var a exportArgs
-	c, finish := newExportCommand(&a, stdout, stderr)
-	pos, code, done := c.parse(args)
+	a, c, code, done := parseCommand(newExportCommand, args, stdout, stderr)
 	if done {
 		return code
-	}
-	if err := finish(pos); err != nil {
-		return c.usage("%v", err)
 	}
 	attrs := make([]*compute.Attribute, len(a.attributes))
 	for i, id := range a.attributes {

@@ -7,8 +7,6 @@ import (
 	"math"
 	"strconv"
 	"text/tabwriter"
-
-	"quadtrace/segy"
 )
 
 // headerField is one field of a SEG-Y binary or trace header: its first
@@ -190,23 +188,12 @@ positions count from the start of the file, trace header positions from the
 start of the trace header.`, stdout, stderr)
 	trace := c.fs.Int("trace", 0, "index of the trace whose header is printed (0 is the first)")
 	c.segyFlags()
-	pos, code, done := c.parse(args)
+	f, code, done := c.openOne(args)
 	if done {
 		return code
 	}
-	if len(pos) != 1 {
-		return c.usage("want one FILE, got %d arguments", len(pos))
-	}
-	opt, err := c.segy()
-	if err != nil {
-		return c.usage("%v", err)
-	}
-	file := pos[0]
-	f, err := segy.Open(file, opt)
-	if err != nil {
-		return c.fail(file, err)
-	}
 	defer f.Close()
+	file := f.Path()
 	if n := f.Info().Traces; *trace < 0 || *trace >= n {
 		if n == 0 {
 			return c.fail(file, fmt.Errorf("--trace %d: the file has no traces", *trace))

@@ -51,16 +51,8 @@ func newJoinCommand(a *joinArgs, stdout, stderr io.Writer) (*command, func(pos [
 
 // parseJoinArgs reads `join PART... --out FILE` (for tests).
 func parseJoinArgs(args []string, stdout, stderr io.Writer) (*joinArgs, int, bool) {
-	var a joinArgs
-	c, finish := newJoinCommand(&a, stdout, stderr)
-	pos, code, done := c.parse(args)
-	if done {
-		return nil, code, true
-	}
-	if err := finish(pos); err != nil {
-		return nil, c.usage("%v", err), true
-	}
-	return &a, exitOK, false
+	a, _, code, done := parseCommand(newJoinCommand, args, stdout, stderr)
+	return a, code, done
 }
 
 // Join runs `quadtrace join PART... --out FILE` with args (after the
@@ -69,14 +61,9 @@ func parseJoinArgs(args []string, stdout, stderr io.Writer) (*joinArgs, int, boo
 // concatenates their traces in the order given through the segy writer:
 // see export.Join.
 func Join(args []string, stdout, stderr io.Writer) int {
-	var a joinArgs
-	c, finish := newJoinCommand(&a, stdout, stderr)
-	pos, code, done := c.parse(args)
+	a, c, code, done := parseCommand(newJoinCommand, args, stdout, stderr)
 	if done {
 		return code
-	}
-	if err := finish(pos); err != nil {
-		return c.usage("%v", err)
 	}
 	if err := prepareOutput(a.out, a.parts...); err != nil {
 		return c.fail(a.out, err)

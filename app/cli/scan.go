@@ -87,23 +87,12 @@ and duplicate traces, bin spacing, coordinate extent), amplitudes from a
 sample of traces, warnings, and the textual header.`, stdout, stderr)
 	asJSON := c.fs.Bool("json", false, "print one JSON object instead of text")
 	c.segyFlags()
-	pos, code, done := c.parse(args)
+	f, code, done := c.openOne(args)
 	if done {
 		return code
 	}
-	if len(pos) != 1 {
-		return c.usage("want one FILE, got %d arguments", len(pos))
-	}
-	opt, err := c.segy()
-	if err != nil {
-		return c.usage("%v", err)
-	}
-	f, err := segy.Open(pos[0], opt)
-	if err != nil {
-		return c.fail(pos[0], err)
-	}
 	defer f.Close()
-	rep := newScanReport(pos[0], f.Info())
+	rep := newScanReport(f.Path(), f.Info())
 	if *asJSON {
 		enc := json.NewEncoder(stdout)
 		enc.SetIndent("", "  ")
