@@ -42,6 +42,13 @@ usage:
                                  write a report figure without a window
   quadtrace synth OUT.sgy [options]
                                  write the demo survey as SEG-Y
+  quadtrace track FILE --seed IL,XL,MS [--seed ...] [--event peak]
+                 [--window MS] [--max-phase-jump DEG] [--min-correlation X]
+                 --out HORIZON.txt
+                                 track a horizon from seed points
+  quadtrace map FILE --horizon HORIZON.txt --attribute ID [--window A:B]
+                 [--stat rms] --out MAP.png|MAP.txt
+                                 map an attribute along a horizon
   quadtrace version              print the version
 
 Every command that opens SEG-Y takes --inline-byte, --crossline-byte,
@@ -60,6 +67,8 @@ func commandTable() map[string]func(args []string, stdout, stderr io.Writer) int
 		"figure":     cli.Figure,
 		"synth":      cli.Synth,
 		"version":    cli.Version,
+		"track":      cli.Track,
+		"map":        cli.Map,
 	}
 }
 
@@ -109,6 +118,9 @@ func Main(args []string, stdout, stderr io.Writer) int {
 }
 
 func runViewer(opt viewer.Options, stderr io.Writer) int {
+	if code, missing := reportNoDisplay(stderr); missing {
+		return code
+	}
 	if err := viewer.Run(opt); err != nil {
 		fmt.Fprintln(stderr, "quadtrace:", err)
 		return 1

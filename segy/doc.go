@@ -4,7 +4,7 @@
 // and SEG-Y revision 2.0 (2017) for every byte position and code; IBM
 // System/370 Principles of Operation for the hexadecimal floating-point
 // format. Tests also check against the segyio test files in
-// ../shared/segy-corpus and against Debian's python3-segyio 1.8.3.
+// testdata/segy-corpus and against Debian's python3-segyio 1.8.3.
 //
 // Reading. Open maps the file read-only (falling back to ReadAt when mmap
 // is refused), parses the textual header (EBCDIC or ASCII, detected),
@@ -56,8 +56,10 @@
 //   - Trace numbers in errors are 0-based indices as in ReadTrace; byte
 //     numbers are 1-based file positions as the standards print them.
 //
-// Writing. Create and CreateNew stream a revision 1, big-endian file in
-// IEEE (format 5, default) or IBM (format 1) floats to a temporary file in
-// the destination folder and rename it into place on Commit; Create refuses
-// to overwrite its own input.
+// Writing. NewWriter (with the headers of a source file) and NewWriterSpec
+// (from scratch) stream a revision 1, big-endian file in IEEE (format 5,
+// default) or IBM (format 1) floats to an io.Writer; revision 2.0 when the
+// source's additional trace headers are carried. segy holds no file-system
+// policy: where the bytes go, temporary files and what may be overwritten
+// are the caller's (quadtrace writes through app/outfile).
 package segy

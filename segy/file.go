@@ -1,6 +1,7 @@
 package segy
 
 import (
+	"context"
 	"encoding/binary"
 	"errors"
 	"fmt"
@@ -91,6 +92,9 @@ type Info struct {
 	// then the extended ones, each as 80-character lines (trailing blanks
 	// removed, control characters blanked) joined by '\n'.
 	TextHeaders []string
+	// Stanzas lists the stanza header lines found in the extended textual
+	// headers, e.g. "((SEG: EndText))" (see ParseStanzas).
+	Stanzas []string
 	// Warnings lists what Open tolerated or assumed.
 	Warnings []string
 	// Amplitude summary of finite samples from a bounded sample of at most
@@ -168,6 +172,19 @@ type File struct {
 	// reads in progress and later reads fail with ErrClosed.
 	mu       sync.RWMutex
 	isClosed bool
+	ctx      context.Context // during open only: stops the header scan
+}
+
+// scanCancelled reports, every 1024th trace i of a scan during open,
+// whether the open was cancelled; the error wraps ctx.Err().
+func (f *File) scanCancelled(i int) error {
+	if i%1024 != 0 || f.ctx == nil {
+		return nil
+	}
+	if err := f.ctx.Err(); err != nil {
+		return fmt.Errorf("%s: open stopped at trace %d: %w", f.path, i, err)
+	}
+	return nil
 }
 
 // Open opens a SEG-Y file read-only: it maps the file into memory (falling
@@ -179,6 +196,42 @@ type File struct {
 // Nothing is allocated in proportion to sizes the headers claim, only to the
 // real file size.
 func Open(path string, opt Options) (*File, error) {
+	return OpenContext(context.Background(), path, opt)
+}
+
+// OpenContext is Open that stops when ctx ends: the header scan checks ctx
+// every few thousand traces, and an open stopped that way returns an error
+// wrapping ctx.Err().
+func OpenContext(ctx context.Context, path string, opt Options) (*File, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	fh, err := OpenRegular(path)
+	if err != nil {
+		return nil, err
+	}
+	st, err := fh.Stat()
+	if err != nil {
+		fh.Close()
+		return nil, err
+	}
+	data := mapFile(fh, st.Size())
+	f, err := open(ctx, path, fh, data, st.Size(), opt)
+	if err != nil {
+		unmapFile(data)
+		fh.Close()
+		return nil, err
+	}
+	f.osf = fh
+	return f, nil
+}
+
+// OpenRegular opens path read-only if it is a regular file, and refuses
+// anything else (directory, FIFO, device, socket) with an *Error, without
+// blocking: a FIFO is never opened for reading in a way that waits for a
+// writer. Readers of SEG-Y input that do not use Open (the export job
+// reads through its own window) open their input with it.
+func OpenRegular(path string) (*os.File, error) {
 	st, err := os.Stat(path)
 	if err != nil {
 		return nil, err
@@ -193,24 +246,14 @@ func Open(path string, opt Options) (*File, error) {
 	if err != nil {
 		return nil, err
 	}
-	st, err = fh.Stat()
+	if st, err = fh.Stat(); err == nil {
+		err = refuseNonRegular(path, st.Mode())
+	}
 	if err != nil {
 		fh.Close()
 		return nil, err
 	}
-	if err := refuseNonRegular(path, st.Mode()); err != nil {
-		fh.Close()
-		return nil, err
-	}
-	data := mapFile(fh, st.Size())
-	f, err := open(path, fh, data, st.Size(), opt)
-	if err != nil {
-		unmapFile(data)
-		fh.Close()
-		return nil, err
-	}
-	f.osf = fh
-	return f, nil
+	return fh, nil
 }
 
 // refuseNonRegular fails for anything but a regular file: a directory, a
@@ -239,12 +282,18 @@ func refuseNonRegular(path string, m os.FileMode) error {
 // on a filesystem without mmap, an in-memory buffer); name is used in
 // messages. Close does not close r.
 func OpenReaderAt(r io.ReaderAt, size int64, name string, opt Options) (*File, error) {
-	return open(name, r, nil, size, opt)
+	return open(context.Background(), name, r, nil, size, opt)
+}
+
+// OpenReaderAtContext is OpenReaderAt that stops when ctx ends (see
+// OpenContext).
+func OpenReaderAtContext(ctx context.Context, r io.ReaderAt, size int64, name string, opt Options) (*File, error) {
+	return open(ctx, name, r, nil, size, opt)
 }
 
 // openBytes opens SEG-Y data held in memory, as if it were mapped.
 func openBytes(data []byte, name string, opt Options) (*File, error) {
-	return open(name, nil, data, int64(len(data)), opt)
+	return open(context.Background(), name, nil, data, int64(len(data)), opt)
 }
 
 // Close releases the mapping and the file. It waits for reads in progress
@@ -367,8 +416,9 @@ func (f *File) getBuf() *[]byte {
 	return &b
 }
 
-func open(path string, r io.ReaderAt, data []byte, size int64, opt Options) (*File, error) {
-	f := &File{path: path, r: r, data: data, size: size}
+func open(ctx context.Context, path string, r io.ReaderAt, data []byte, size int64, opt Options) (*File, error) {
+	f := &File{path: path, r: r, data: data, size: size, ctx: ctx}
+	defer func() { f.ctx = nil }() // only the open is cancellable
 	f.info.Warnings = []string{}
 	// The scan reads the mapping: a file cut short meanwhile faults.
 	if err := f.guardFault(-1, 0, func() error { return f.parse(opt) }); err != nil {
@@ -403,6 +453,7 @@ func (f *File) parse(opt Options) error {
 	if err := f.readExtendedText(bin); err != nil {
 		return err
 	}
+	f.noteStanzas()
 	if err := f.rev2Layout(bin); err != nil {
 		return err
 	}
@@ -558,6 +609,9 @@ func (f *File) readExtendedText(bin []byte) error {
 		return nil
 	case n == -1:
 		for i := 0; i < maxExtTextBlocks; i++ {
+			if err := f.scanCancelled(i); err != nil {
+				return err
+			}
 			if f.dataStart+TextHeaderSize > f.size {
 				return f.errf(-1, binExtTextHeaders, "extended textual header count -1: no ((SEG: EndText)) stanza before the end of the file (read %d headers)", i)
 			}

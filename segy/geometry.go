@@ -59,6 +59,9 @@ func (f *File) scanGeometry(bin []byte) error {
 	coordUnits := 0
 	varying, firstVarying, firstNs := 0, -1, 0
 	for i := 0; i < n; i++ {
+		if err := f.scanCancelled(i); err != nil {
+			return err
+		}
 		h, err := f.traceHeaderBytes(i, buf)
 		if err != nil {
 			return err
@@ -94,6 +97,9 @@ func (f *File) scanGeometry(bin []byte) error {
 		ffid := make([]int32, n)
 		chn := make([]int32, n)
 		for i := 0; i < n; i++ {
+			if err := f.scanCancelled(i); err != nil {
+				return err
+			}
 			h, err := f.traceHeaderBytes(i, buf)
 			if err != nil {
 				return err
@@ -557,6 +563,9 @@ func (f *File) sampleAmplitudes() error {
 	var sum2 float64
 	count, bad := 0, 0
 	for j := 0; j < k; j++ {
+		if err := f.scanCancelled(j * 16); err != nil { // every 64 sampled traces
+			return err
+		}
 		i := int(int64(j) * int64(n) / int64(k))
 		var err error
 		buf, err = f.ReadTrace(i, buf)

@@ -1,6 +1,8 @@
 package segy
 
 import (
+	"bytes"
+	"context"
 	"errors"
 	"os"
 	"path/filepath"
@@ -8,6 +10,7 @@ import (
 	"sync"
 	"syscall"
 	"testing"
+	"time"
 
 	"quadtrace/segy/segytest"
 )
@@ -133,5 +136,39 @@ func TestRefusesNonRegularInputs(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), want) || strings.Contains(err.Error(), "\n") {
 			t.Errorf("Open(%s) = %v, want one line containing %q", path, err, want)
 		}
+	}
+}
+
+// slowReader delays every read, so a header scan takes seconds.
+type slowReader struct {
+	data  []byte
+	delay time.Duration
+}
+
+func (r slowReader) ReadAt(p []byte, off int64) (int, error) {
+	time.Sleep(r.delay)
+	return bytes.NewReader(r.data).ReadAt(p, off)
+}
+
+// TestOpenContextStopsTheScan: cancelling the context of an open in
+// progress stops the header scan within a few thousand traces, with an
+// error wrapping context.Canceled (commands answer SIGINT during open).
+func TestOpenContextStopsTheScan(t *testing.T) {
+	s := segytest.File{Format: 5, Samples: 1, Interval: 4000, TraceSamples: segytest.SameAsBinary, TraceInterval: segytest.SameAsBinary,
+		Traces: segytest.Grid3D(segytest.Seq(1, 100, 1), segytest.Seq(1, 100, 1), 1)}
+	data := s.Bytes()
+	ctx, cancel := context.WithCancel(context.Background())
+	time.AfterFunc(50*time.Millisecond, cancel)
+	start := time.Now()
+	_, err := OpenReaderAtContext(ctx, slowReader{data, 200 * time.Microsecond}, int64(len(data)), "slow.sgy", Options{})
+	took := time.Since(start)
+	if !errors.Is(err, context.Canceled) || !strings.Contains(err.Error(), "open stopped at trace") {
+		t.Fatalf("error %v, want one wrapping context.Canceled", err)
+	}
+	if took > 2*time.Second { // the whole scan takes 10000 x 200 us = 2 s at least
+		t.Errorf("took %v to stop", took)
+	}
+	if _, err := OpenContext(ctx, writeTemp(t, data), Options{}); !errors.Is(err, context.Canceled) {
+		t.Errorf("open with a cancelled context: %v", err)
 	}
 }

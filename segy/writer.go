@@ -7,8 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 )
 
 // WriteOptions choose the output sample format and textual header.
@@ -49,11 +47,6 @@ type Writer struct {
 	traces   int
 	buf      []byte
 	done     bool
-
-	// set by Create/CreateNew only (the temporary-file path they keep for
-	// callers not yet on app/outfile)
-	dst, tmp string
-	fh       *os.File
 }
 
 // NewWriter starts a file written to w with the headers of src: its first
@@ -109,31 +102,6 @@ func NewWriter(w io.Writer, name string, src *File, opt WriteOptions) (*Writer, 
 	return newWriter(w, name, text, bin, src.samples, src.info.IntervalUS, delay, timeSc, extra, little, opt)
 }
 
-// Create is NewWriter to a temporary file in dst's folder, renamed over
-// dst by Commit. It refuses a destination that is src's own file (same
-// path, symlink or hard link). Deprecated: commands write through
-// app/outfile and NewWriter; Create remains for callers not yet moved.
-func Create(dst string, src *File, opt WriteOptions) (*Writer, error) {
-	if src == nil {
-		return nil, errors.New("segy.Create: nil source file")
-	}
-	if err := refuseInput(dst, src.path); err != nil {
-		return nil, err
-	}
-	fh, err := os.CreateTemp(filepath.Dir(dst), "."+filepath.Base(dst)+".tmp-*")
-	if err != nil {
-		return nil, fmt.Errorf("segy: write %s: %w", dst, err)
-	}
-	w, err := NewWriter(fh, dst, src, opt)
-	if err != nil {
-		fh.Close()
-		os.Remove(fh.Name())
-		return nil, err
-	}
-	w.dst, w.tmp, w.fh = dst, fh.Name(), fh
-	return w, nil
-}
-
 // NewWriterSpec starts a file from scratch with the given sampling,
 // written to w; name is used in messages.
 func NewWriterSpec(w io.Writer, name string, spec NewSpec, opt WriteOptions) (*Writer, error) {
@@ -159,23 +127,6 @@ func NewWriterSpec(w io.Writer, name string, spec NewSpec, opt WriteOptions) (*W
 		return nil, fmt.Errorf("segy: write %s: %w", name, err)
 	}
 	return newWriter(w, name, text, bin, spec.Samples, spec.IntervalUS, delay, timeSc, 0, false, opt)
-}
-
-// CreateNew is NewWriterSpec to a temporary file in dst's folder, renamed
-// over dst by Commit. Deprecated: see Create.
-func CreateNew(dst string, spec NewSpec, opt WriteOptions) (*Writer, error) {
-	fh, err := os.CreateTemp(filepath.Dir(dst), "."+filepath.Base(dst)+".tmp-*")
-	if err != nil {
-		return nil, fmt.Errorf("segy: write %s: %w", dst, err)
-	}
-	w, err := NewWriterSpec(fh, dst, spec, opt)
-	if err != nil {
-		fh.Close()
-		os.Remove(fh.Name())
-		return nil, fmt.Errorf("segy.CreateNew %s: %w", dst, err)
-	}
-	w.dst, w.tmp, w.fh = dst, fh.Name(), fh
-	return w, nil
 }
 
 // encodeDelay expresses a start time in ms as the int16 delay recording
@@ -250,30 +201,6 @@ func newWriter(out io.Writer, name, text string, bin []byte, samples, interval, 
 		return nil, fmt.Errorf("segy: write %s: %w", name, err)
 	}
 	return w, nil
-}
-
-// refuseInput fails when dst names the input file, directly, through a
-// symlink, or as another hard link to the same inode.
-func refuseInput(dst, input string) error {
-	same := func(a, b string) bool {
-		if aa, err := filepath.Abs(a); err == nil {
-			if bb, err := filepath.Abs(b); err == nil && aa == bb {
-				return true
-			}
-		}
-		if ra, err := filepath.EvalSymlinks(a); err == nil {
-			if rb, err := filepath.EvalSymlinks(b); err == nil && ra == rb {
-				return true
-			}
-		}
-		sa, err1 := os.Stat(a)
-		sb, err2 := os.Stat(b)
-		return err1 == nil && err2 == nil && os.SameFile(sa, sb)
-	}
-	if same(dst, input) {
-		return fmt.Errorf("segy: refusing to write %s: it is the input file %s", dst, input)
-	}
-	return nil
 }
 
 // NewTraceHeader builds a big-endian revision 1 trace header: inline and
@@ -404,50 +331,11 @@ func (w *Writer) Finish() error {
 	return nil
 }
 
-// Commit, for a Writer from Create or CreateNew, flushes, syncs and
-// renames the temporary file into place with mode 0644. For a Writer from
-// NewWriter it is Finish.
-func (w *Writer) Commit() error {
-	if err := w.Finish(); err != nil || w.fh == nil {
-		if err != nil && w.fh != nil {
-			w.fh.Close()
-			os.Remove(w.tmp)
-		}
-		return err
-	}
-	// CreateTemp makes the file 0600; a finished export is an ordinary
-	// readable file.
-	err := w.fh.Chmod(0o644)
-	if err == nil {
-		err = w.fh.Sync()
-	}
-	if cerr := w.fh.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Rename(w.tmp, w.dst)
-	}
-	if err != nil {
-		os.Remove(w.tmp)
-		return fmt.Errorf("segy: write %s: %w", w.dst, err)
-	}
-	return nil
-}
-
-// Abort stops the writer; for a Writer from Create or CreateNew it also
-// discards the temporary file. It is safe to call after Commit or Finish
-// (it then does nothing).
+// Abort stops the writer: later writes fail. What was written stays in
+// the io.Writer; discarding it is the caller's file-system policy (an
+// app/outfile output is discarded by its Abort). Safe to call after
+// Finish and more than once.
 func (w *Writer) Abort() error {
-	if w.done {
-		return nil
-	}
 	w.done = true
-	if w.fh == nil {
-		return nil
-	}
-	w.fh.Close()
-	if err := os.Remove(w.tmp); err != nil && !os.IsNotExist(err) {
-		return err
-	}
 	return nil
 }

@@ -95,15 +95,15 @@ func TestEveryCommandBehavesAlike(t *testing.T) {
 			{"bad id", []string{in, "--attribute", "envlope", "--out", filepath.Join(dir, "e.sgy")}, 2, "", "(did you mean envelope?)"},
 			{"bad parameter", []string{in, "--attribute", "envelope", "--param", "pda=none", "--out", filepath.Join(dir, "e.sgy")}, 2, "", "(did you mean pad?)"},
 			{"missing file", []string{missing, "--attribute", "envelope", "--out", filepath.Join(dir, "e.sgy")}, 1, "", "quadtrace export: " + missing + ": "},
-			{"output is the input", []string{in, "--attribute", "envelope", "--out", in, "--quiet"}, 1, "", "it is an input"},
-			{"output is a link to the input", []string{in, "--attribute", "envelope", "--out", link, "--quiet"}, 1, "", "it is an input"},
+			{"output is the input", []string{in, "--attribute", "envelope", "--out", in, "--quiet"}, 1, "", "is the input file"},
+			{"output is a link to the input", []string{in, "--attribute", "envelope", "--out", link, "--quiet", "--follow-links"}, 1, "", "is the input file"},
 		}},
 		{"join", Join, []call{
 			{"wrong call", []string{part}, 2, "", "--out"},
 			{"bad option", []string{part, "--out", filepath.Join(dir, "j.sgy"), "--inline-bite", "9"}, 2, "", "(did you mean --inline-byte?)"},
 			{"missing part", []string{missing, "--out", filepath.Join(dir, "j.sgy")}, 1, "", "quadtrace join: " + missing + ": "},
-			{"output is a part", []string{in, part, "--out", part}, 1, "", "it is an input"},
-			{"output is a fifo", []string{in, part, "--out", fifo}, 1, "", "not a regular file"},
+			{"output is a part", []string{in, part, "--out", part}, 1, "", "is the input file"},
+			{"output is a fifo", []string{in, part, "--out", fifo}, 1, "", "is a FIFO"},
 		}},
 		{"figure", Figure, []call{
 			{"wrong call", []string{in, "--out", filepath.Join(dir, "f.png")}, 2, "", "exactly one of --inline"},
@@ -113,14 +113,14 @@ func TestEveryCommandBehavesAlike(t *testing.T) {
 			{"time out of range", []string{in, "--time", "999", "--out", filepath.Join(dir, "f.png")}, 1, "", "time 999 ms is outside the traces: 0 to 196 ms"},
 			{"inline out of range", []string{in, "--inline", "9", "--out", filepath.Join(dir, "f.png")}, 1, "", "no inline 9: the inlines are 1 to 5"},
 			{"missing file", []string{missing, "--inline", "2", "--out", filepath.Join(dir, "f.png")}, 1, "", "quadtrace figure: " + missing + ": "},
-			{"output is the input", []string{inPNG, "--inline", "2", "--out", inPNG}, 1, "", "it is an input"},
-			{"output is a fifo", []string{in, "--inline", "2", "--out", fifo}, 1, "", "not a regular file"},
+			{"output is the input", []string{inPNG, "--inline", "2", "--out", inPNG}, 1, "", "is the input file"},
+			{"output is a fifo", []string{in, "--inline", "2", "--out", fifo}, 1, "", "is a FIFO"},
 		}},
 		{"synth", Synth, []call{
 			{"wrong call", []string{}, 2, "", "want one OUT.sgy"},
 			{"bad option", []string{filepath.Join(dir, "s.sgy"), "--sed", "3"}, 2, "", "(did you mean --seed?)"},
-			{"output is a folder", []string{folder, "--inlines", "4", "--crosslines", "4", "--samples", "50"}, 1, "", "it is a folder"},
-			{"output is a fifo", []string{fifo, "--inlines", "4", "--crosslines", "4", "--samples", "50"}, 1, "", "not a regular file"},
+			{"output is a folder", []string{folder, "--inlines", "4", "--crosslines", "4", "--samples", "50"}, 1, "", "is a folder"},
+			{"output is a fifo", []string{fifo, "--inlines", "4", "--crosslines", "4", "--samples", "50"}, 1, "", "is a FIFO"},
 		}},
 	}
 	for _, c := range cmds {

@@ -1,12 +1,16 @@
 package cli
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"io/fs"
+	"os"
+	"os/signal"
 	"strings"
+	"syscall"
 
 	"quadtrace/compute"
 	"quadtrace/segy"
@@ -178,7 +182,18 @@ func (c *command) openOne(args []string) (f *segy.File, code int, done bool) {
 	if err != nil {
 		return nil, c.usage("%v", err), true
 	}
-	if f, err = segy.Open(pos[0], opt); err != nil {
+	// SIGINT and SIGTERM stop the header scan of a large file.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	f, err = segy.OpenContext(ctx, pos[0], opt)
+	if ctx.Err() != nil {
+		if f != nil {
+			f.Close()
+		}
+		fmt.Fprintf(c.stderr, "quadtrace %s: interrupted\n", c.name)
+		return nil, exitInterrupted, true
+	}
+	if err != nil {
 		return nil, c.fail(pos[0], err), true
 	}
 	return f, exitOK, false

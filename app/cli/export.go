@@ -7,7 +7,6 @@ import (
 	"io"
 	"os"
 	"os/signal"
-	"path/filepath"
 	"runtime/debug"
 	"strings"
 	"syscall"
@@ -48,6 +47,7 @@ type exportArgs struct {
 	budget     int64
 	progress   progressMode
 	quiet      bool // --quiet: no progress, no list of written paths
+	follow     bool // --follow-links: write at the target of a symbolic link --out
 	segy       segy.Options
 }
 
@@ -72,6 +72,7 @@ func newExportCommand(a *exportArgs, stdout, stderr io.Writer) (*command, func(p
 	fs.StringVar(&budget, "budget", "", "memory for trace blocks, e.g. 256M or 1G (default 256M)")
 	fs.StringVar(&progress, "progress", "", "progress on stderr: bar, json or none (default bar, shown only on a terminal)")
 	fs.BoolVar(&quiet, "quiet", false, "no progress and no list of written paths (same as --progress none)")
+	fs.BoolVar(&a.follow, "follow-links", false, "write at the target when --out is a symbolic link")
 	c.segyFlags()
 	return c, func(pos []string) error {
 		switch len(pos) {
@@ -163,6 +164,11 @@ func parseFormat(s string) (int, error) {
 // is left at the destinations). The written paths go to stdout, one a
 // line; progress and errors go to stderr.
 func Export(args []string, stdout, stderr io.Writer) int {
+	// Signals are caught from the start, so that one sent while the
+	// arguments are checked or the input is opened still ends the export
+	// with status 130 and nothing written.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
 	a, c, code, done := parseCommand(newExportCommand, args, stdout, stderr)
 	if done {
 		return code
@@ -184,18 +190,16 @@ func Export(args []string, stdout, stderr io.Writer) int {
 			return c.usage("--condition: %v", err)
 		}
 	}
-	if err := prepareExportOutput(a.out, len(a.attributes), a.input); err != nil {
+	if err := prepareExportOutput(a.out, len(a.attributes), a.input, a.follow); err != nil {
 		return c.fail(a.input, err)
 	}
 	job := export.Job{
 		Input: a.input, SegyOptions: a.segy,
 		Attributes: a.attributes, Params: a.params, Conditioning: cond,
 		Output: a.out, Format: a.format, Inlines: a.inlines, Crosslines: a.crosslines,
-		BudgetBytes: a.budget,
+		BudgetBytes: a.budget, FollowLinks: a.follow,
 	}
 
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	defer stop()
 	// The process is the export's own: bound its heap by the budget unless
 	// the user tuned the runtime through the environment.
 	if _, set := os.LookupEnv("GOMEMLIMIT"); !set {
@@ -232,14 +236,11 @@ func Export(args []string, stdout, stderr io.Writer) int {
 
 // prepareExportOutput checks --out before the export starts: a single
 // attribute's file goes through prepareOutput; a folder output (several
-// attributes, or an existing folder) only has its parent folder made, the
-// job naming and checking the files inside it.
-func prepareExportOutput(out string, attributes int, input string) error {
+// attributes, or an existing folder) is checked file by file by the job,
+// which names the files inside it (app/outfile makes the folder).
+func prepareExportOutput(out string, attributes int, input string, follow bool) error {
 	if st, err := os.Stat(out); (err == nil && st.IsDir()) || attributes > 1 {
-		if err := os.MkdirAll(filepath.Dir(filepath.Clean(out)), 0o777); err != nil {
-			return fmt.Errorf("making the output folder: %w", err)
-		}
 		return nil
 	}
-	return prepareOutput(out, input)
+	return prepareOutput(out, follow, input)
 }

@@ -11,6 +11,7 @@ import (
 	"syscall"
 
 	"quadtrace/app/figure"
+	"quadtrace/app/outfile"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
@@ -26,6 +27,11 @@ decides the format: .png (resolution recorded) or .jpg/.jpeg.`
 // with axes, legend and scale bar, and writes it as PNG or JPEG. No window
 // opens.
 func Figure(args []string, stdout, stderr io.Writer) int {
+	// SIGINT and SIGTERM stop every stage: the open and header scan, the
+	// computation, the drawing, and the writing (nothing is left then).
+	// They are caught from the start, before the arguments are checked.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
 	c := newCommand("figure", "(FILE | --demo) (--inline N | --crossline N | --time MS) --attribute ID --out FIG.png [options]", figureAbout, stdout, stderr)
 	fs := c.fs
 	var r figure.Request
@@ -52,6 +58,7 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	fs.BoolVar(&r.Wiggle, "wiggle", false, "draw amplitude wiggles over the section")
 	fs.StringVar(&r.Title, "title", "", "figure title (default: survey, line and attribute)")
 	fs.StringVar(&out, "out", "", "output path: .png, .jpg or .jpeg")
+	followLinks := fs.Bool("follow-links", false, "write at the target when --out is a symbolic link (refused otherwise)")
 	c.segyFlags()
 	pos, code, done := c.parse(args)
 	if done {
@@ -68,9 +75,6 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	}
 	if !demo {
 		file = pos[0]
-	}
-	if _, err := figure.FormatOf(out); err != nil {
-		return c.usage("--out: %v", err)
 	}
 	raw, err := compute.ParseParams(params)
 	if err != nil {
@@ -140,16 +144,31 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	if err != nil {
 		return c.usage("%v", err)
 	}
-	if err := prepareOutput(out, file); err != nil {
+	var inputs []string
+	if !demo {
+		inputs = []string{file}
+	}
+	if err := prepareOutput(out, *followLinks, inputs...); err != nil { // refused before any work
 		return c.fail(out, err)
 	}
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	defer stop()
+	if _, err := figure.FormatOf(out); err != nil {
+		return c.usage("--out: %v", err)
+	}
+	interrupted := func() int {
+		fmt.Fprintln(stderr, "quadtrace figure: interrupted; nothing written")
+		return exitInterrupted
+	}
 	var v *volume.Volume
 	if demo {
 		v, err = volume.Demo(ctx, synth.DefaultConfig(), nil)
 	} else {
-		v, err = volume.Open(file, opt)
+		v, err = volume.OpenContext(ctx, file, opt)
+	}
+	if ctx.Err() != nil {
+		if v != nil {
+			v.Close()
+		}
+		return interrupted()
 	}
 	if err != nil {
 		return c.fail(file, err)
@@ -159,10 +178,16 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 		return c.fail(file, err)
 	}
 	img, err := figure.Draw(ctx, v, r)
+	if ctx.Err() != nil {
+		return interrupted()
+	}
 	if err != nil {
 		return c.fail(file, err)
 	}
-	if err := figure.Write(out, img, r.DPI, file); err != nil {
+	if err := figure.Write(ctx, out, img, r.DPI, outfile.Options{Inputs: inputs, FollowSymlink: *followLinks}); err != nil {
+		if ctx.Err() != nil {
+			return interrupted()
+		}
 		return c.fail(out, err)
 	}
 	fmt.Fprintln(stdout, out)

@@ -23,10 +23,11 @@ and renamed into place when complete.`
 
 // joinArgs is a parsed join command line.
 type joinArgs struct {
-	parts []string
-	out   string
-	quiet bool
-	segy  segy.Options
+	parts  []string
+	out    string
+	quiet  bool
+	follow bool
+	segy   segy.Options
 }
 
 // newJoinCommand declares the join command's options into a.
@@ -34,6 +35,7 @@ func newJoinCommand(a *joinArgs, stdout, stderr io.Writer) (*command, func(pos [
 	c := newCommand("join", "PART... --out FILE [options]", joinAbout, stdout, stderr)
 	c.fs.StringVar(&a.out, "out", "", "the joined volume")
 	c.fs.BoolVar(&a.quiet, "quiet", false, "print nothing on success")
+	c.fs.BoolVar(&a.follow, "follow-links", false, "write at the target when --out is a symbolic link")
 	c.segyFlags()
 	return c, func(pos []string) error {
 		if len(pos) == 0 {
@@ -65,12 +67,12 @@ func Join(args []string, stdout, stderr io.Writer) int {
 	if done {
 		return code
 	}
-	if err := prepareOutput(a.out, a.parts...); err != nil {
+	if err := prepareOutput(a.out, a.follow, a.parts...); err != nil {
 		return c.fail(a.out, err)
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
-	n, err := export.Join(ctx, a.parts, a.out, a.segy)
+	n, err := export.Join(ctx, a.parts, a.out, export.JoinOptions{FollowLinks: a.follow, Segy: a.segy})
 	if err != nil {
 		if ctx.Err() != nil {
 			fmt.Fprintln(stderr, "quadtrace join: interrupted; nothing written")

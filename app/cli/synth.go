@@ -45,7 +45,7 @@ it as a SEG-Y revision 1 file. The same seed gives the same survey.`, stdout, st
 	if err != nil {
 		return c.usage("%v", err)
 	}
-	if err := prepareOutput(out); err != nil {
+	if err := prepareOutput(out, false); err != nil {
 		return c.fail(out, err)
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)

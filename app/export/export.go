@@ -4,11 +4,13 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
 	"time"
 
+	"quadtrace/app/outfile"
 	"quadtrace/compute"
 	"quadtrace/segy"
 )
@@ -40,8 +42,11 @@ type plan struct {
 	inlines    *Range
 	crosslines *Range
 	budget     int64
-	source     Source // when set, read instead of opening input
-	stem       string // names outputs in a folder; "" takes input's stem
+	// followLinks writes at the target of a destination that is a
+	// symbolic link (refused otherwise, see app/outfile)
+	followLinks bool
+	source      Source // when set, read instead of opening input
+	stem        string // names outputs in a folder; "" takes input's stem
 }
 
 // fileSource is a SEG-Y file opened by the export as a Source.
@@ -82,22 +87,23 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	}
 
 	var (
-		src    Source
-		create func(dst string, opt segy.WriteOptions) (*segy.Writer, error)
-		win    *windowReader
+		src       Source
+		newWriter func(w io.Writer, dst string, opt segy.WriteOptions) (*segy.Writer, error)
+		win       *windowReader
+		inputs    []string
 	)
 	if p.source != nil {
 		src, p.input = p.source, p.source.Name()
-		create = func(dst string, opt segy.WriteOptions) (*segy.Writer, error) {
+		newWriter = func(w io.Writer, dst string, opt segy.WriteOptions) (*segy.Writer, error) {
 			in := src.Info()
-			return segy.CreateNew(dst, segy.NewSpec{Samples: in.Samples, IntervalUS: in.IntervalUS, StartMS: in.StartMS}, opt)
+			return segy.NewWriterSpec(w, dst, segy.NewSpec{Samples: in.Samples, IntervalUS: in.IntervalUS, StartMS: in.StartMS}, opt)
 		}
 	} else {
 		// The input is opened read-only and read with ordinary reads
 		// rather than mapped: a mapping of the whole volume would count
 		// in the process's resident memory as it is read, defeating the
 		// budget.
-		fh, err := os.Open(p.input)
+		fh, err := segy.OpenRegular(p.input) // refuses FIFOs, devices, folders without blocking
 		if err != nil {
 			return nil, err
 		}
@@ -106,17 +112,16 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		if err != nil {
 			return nil, err
 		}
-		if st.IsDir() {
-			return nil, fmt.Errorf("%s is a folder, not a SEG-Y file", p.input)
-		}
 		win = &windowReader{r: fh}
-		f, err := segy.OpenReaderAt(win, st.Size(), p.input, p.options)
+		f, err := segy.OpenReaderAtContext(ctx, win, st.Size(), p.input, p.options)
 		if err != nil {
 			return nil, err
 		}
 		defer f.Close()
-		src = fileSource{f}
-		create = func(dst string, opt segy.WriteOptions) (*segy.Writer, error) { return segy.Create(dst, f, opt) }
+		src, inputs = fileSource{f}, []string{p.input}
+		newWriter = func(w io.Writer, dst string, opt segy.WriteOptions) (*segy.Writer, error) {
+			return segy.NewWriter(w, dst, f, opt)
+		}
 	}
 	info := src.Info()
 	if info.Traces == 0 {
@@ -130,15 +135,10 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	if stem == "" {
 		stem = strings.TrimSuffix(filepath.Base(p.input), filepath.Ext(p.input))
 	}
-	dsts, madeDir, err := destinations(p.input, stem, p.output, p.stages)
+	dsts, err := destinations(p.input, stem, p.output, p.stages)
 	if err != nil {
 		return nil, err
 	}
-	defer func() {
-		if err != nil && madeDir != "" {
-			os.Remove(madeDir) // only succeeds when empty: never takes anything else with it
-		}
-	}()
 
 	runs, err := selectRuns(info.Traces, p.inlines, p.crosslines, func(i int) (int, int, error) {
 		h, err := src.TraceHeader(i)
@@ -165,18 +165,23 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, err
 	}
 
-	writers := make([]*segy.Writer, 0, len(p.stages))
+	// The outputs are one outfile.Set: unnamed temporary files until every
+	// one is complete, then all put in place or none (see app/outfile).
+	outs := outfile.NewSet(outfile.Options{Inputs: inputs, FollowSymlink: p.followLinks})
 	defer func() {
 		if err != nil {
-			for _, w := range writers {
-				w.Abort()
-			}
+			outs.Abort()
 		}
 	}()
+	writers := make([]*segy.Writer, 0, len(p.stages))
 	for k, s := range p.stages {
 		text := textHeader(headerFacts{stage: s, cond: p.cond.describe, input: p.input, info: info,
 			inlines: p.inlines, crosslines: p.crosslines, traces: total, format: p.format})
-		w, err := create(dsts[k], segy.WriteOptions{Format: p.format, TextHeader: text})
+		of, err := outs.Create(dsts[k])
+		if err != nil {
+			return nil, err
+		}
+		w, err := newWriter(of, dsts[k], segy.WriteOptions{Format: p.format, TextHeader: text})
 		if err != nil {
 			return nil, err
 		}
@@ -227,20 +232,26 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		}
 		return nil, fmt.Errorf("%s: %w", p.input, err)
 	}
-	for k, w := range writers {
-		if err = w.Commit(); err != nil {
-			return dsts[:k], err
+	for _, w := range writers {
+		if err = w.Finish(); err != nil {
+			return nil, err
 		}
+	}
+	if err = ctx.Err(); err != nil {
+		return nil, err
+	}
+	if err = outs.Commit(); err != nil {
+		return nil, err
 	}
 	return dsts, nil
 }
 
 // destinations returns the output path of each stage: output itself for a
 // single attribute (or output/<stem>-<id>.sgy when output is an existing
-// folder), and output/<stem>-<id>.sgy for several, creating the folder
-// output when it does not exist (madeDir then names it, for removal on
-// failure). It refuses a destination that is the input file.
-func destinations(input, stem, output string, stages []stage) (dsts []string, madeDir string, err error) {
+// folder), and output/<stem>-<id>.sgy for several (app/outfile makes the
+// folder when it does not exist, and removes it again on failure). It
+// refuses a destination that is the input file.
+func destinations(input, stem, output string, stages []stage) (dsts []string, err error) {
 	named := func(dir string) []string {
 		out := make([]string, len(stages))
 		for k, s := range stages {
@@ -253,29 +264,22 @@ func destinations(input, stem, output string, stages []stage) (dsts []string, ma
 	switch {
 	case len(stages) == 1 && !isDir:
 		if strings.HasSuffix(output, string(filepath.Separator)) {
-			return nil, "", fmt.Errorf("output folder %s does not exist", output)
+			return nil, fmt.Errorf("output folder %s does not exist", output)
 		}
 		dsts = []string{output}
 	case isDir:
 		dsts = named(output)
 	case statErr == nil:
-		return nil, "", fmt.Errorf("%d attributes need a folder for --out, and %s is a file", len(stages), output)
+		return nil, fmt.Errorf("%d attributes need a folder for --out, and %s is a file", len(stages), output)
 	default:
-		if err := os.Mkdir(output, 0o777); err != nil {
-			return nil, "", fmt.Errorf("making output folder: %w", err)
-		}
-		madeDir = output
 		dsts = named(output)
 	}
 	for _, d := range dsts {
 		if SameFile(d, input) {
-			if madeDir != "" {
-				os.Remove(madeDir)
-			}
-			return nil, "", fmt.Errorf("refusing to write %s: it is the input file", d)
+			return nil, fmt.Errorf("refusing to write %s: it is the input file", d)
 		}
 	}
-	return dsts, madeDir, nil
+	return dsts, nil
 }
 
 // SameFile reports whether paths a and b name the same file: the same

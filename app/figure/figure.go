@@ -336,18 +336,25 @@ func FormatOf(path string) (Format, error) {
 
 // Write writes img to path in the format its extension names (FormatOf),
 // a PNG with dpi recorded. It is the one figure writer of the window and
-// the figure command, through app/outfile: path must not be one of inputs
-// nor anything but a regular file, missing folders are made, and path is
-// replaced (mode 0644) only when the whole image is written.
-func Write(path string, img image.Image, dpi float64, inputs ...string) error {
+// the figure command, through app/outfile: nothing appears at path until
+// the whole image is written (mode 0644), missing folders are made, and
+// destinations that are devices, FIFOs, folders, inputs (opt.Inputs) or
+// symbolic links (unless opt.FollowSymlink) are refused. When ctx ends
+// before the file is in place, nothing is written and ctx.Err() is
+// returned.
+func Write(ctx context.Context, path string, img image.Image, dpi float64, opt outfile.Options) error {
 	format, err := FormatOf(path)
 	if err != nil {
 		return err
 	}
-	out, err := outfile.Create(path, outfile.Options{Inputs: inputs})
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	out, err := outfile.Create(path, opt)
 	if err != nil {
 		return err
 	}
+	defer out.Abort()
 	w := bufio.NewWriter(out)
 	switch format {
 	case PNG:
@@ -359,8 +366,10 @@ func Write(path string, img image.Image, dpi float64, inputs ...string) error {
 		err = w.Flush()
 	}
 	if err != nil {
-		out.Abort()
 		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	if err := ctx.Err(); err != nil {
+		return err
 	}
 	return out.Commit()
 }

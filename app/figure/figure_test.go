@@ -14,6 +14,7 @@ import (
 	"testing"
 
 	"quadtrace/app/apptest"
+	"quadtrace/app/outfile"
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
@@ -56,7 +57,7 @@ func TestWrite(t *testing.T) {
 	}
 	dir := t.TempDir()
 	pngPath := filepath.Join(dir, "sub", "fig.png")
-	if err := Write(pngPath, img, 150); err != nil {
+	if err := Write(context.Background(), pngPath, img, 150, outfile.Options{}); err != nil {
 		t.Fatal(err)
 	}
 	b, err := os.ReadFile(pngPath)
@@ -74,7 +75,7 @@ func TestWrite(t *testing.T) {
 		t.Errorf("mode %v, want 0644", st.Mode().Perm())
 	}
 	jpgPath := filepath.Join(dir, "fig.jpg")
-	if err := Write(jpgPath, img, 150); err != nil {
+	if err := Write(context.Background(), jpgPath, img, 150, outfile.Options{}); err != nil {
 		t.Fatal(err)
 	}
 	f, err := os.Open(jpgPath)
@@ -90,10 +91,10 @@ func TestWrite(t *testing.T) {
 	if d := absDiff(r>>8, 20) + absDiff(g>>8, 90) + absDiff(bl>>8, 220); d > 24 {
 		t.Errorf("JPEG pixel %d,%d,%d, want about 20,90,220", r>>8, g>>8, bl>>8)
 	}
-	if err := Write(jpgPath, img, 150, jpgPath); err == nil {
+	if err := Write(context.Background(), jpgPath, img, 150, outfile.Options{Inputs: []string{jpgPath}}); err == nil {
 		t.Error("writing over an input: no error")
 	}
-	if err := Write(filepath.Join(dir, "fig.svg"), img, 150); err == nil {
+	if err := Write(context.Background(), filepath.Join(dir, "fig.svg"), img, 150, outfile.Options{}); err == nil {
 		t.Error("SVG: no error")
 	}
 }

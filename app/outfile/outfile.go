@@ -95,6 +95,13 @@ func Create(dst string, opt Options) (*File, error) {
 	return NewSet(opt).Create(dst)
 }
 
+// Check applies the destination rules to dst without creating anything,
+// so that a command can refuse a destination before doing its work.
+func Check(dst string, opt Options) error {
+	_, err := NewSet(opt).check(dst)
+	return err
+}
+
 // Create adds an output to the set.
 func (s *Set) Create(dst string) (*File, error) {
 	if s.done {

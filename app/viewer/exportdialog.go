@@ -144,12 +144,12 @@ func demoStem(info segy.Info) string {
 // export's trace source (export.Source) without writing it to a file
 // first. Outputs are named after stem.
 func (v *viewer) runDemoExport(ej export.Job, folder, stem string) {
-	src, ok := v.vol.(export.Source)
 	cancel := func() { v.jobs.cancel("export") }
 	v.setBusy(v.ui.export, "Exporting", 0, 0, cancel)
-	v.jobs.start("export", func(j *job) {
+	v.startWithSurvey("export", func(j *job, vol survey) {
 		var paths []string
-		err := fmt.Errorf("the survey in the window cannot be exported (%T is no trace source)", v.vol)
+		src, ok := vol.(export.Source)
+		err := fmt.Errorf("the survey in the window cannot be exported (%T is no trace source)", vol)
 		if ok {
 			ej.Source, ej.Stem = src, stem
 			var thr progressThrottle

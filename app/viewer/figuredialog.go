@@ -1,8 +1,15 @@
 package viewer
 
 import (
+	"context"
 	"fmt"
 	"path/filepath"
+	"quadtrace/app/figure"
+	"quadtrace/app/outfile"
+	"quadtrace/app/style"
+	"quadtrace/app/volume"
+	"quadtrace/compute"
+	"quadtrace/render"
 	"strconv"
 	"strings"
 
@@ -10,11 +17,6 @@ import (
 	"fyne.io/fyne/v2/dialog"
 	"fyne.io/fyne/v2/storage"
 	"fyne.io/fyne/v2/widget"
-
-	"quadtrace/app/figure"
-	"quadtrace/app/volume"
-	"quadtrace/compute"
-	"quadtrace/render"
 )
 
 // showFigureDialog asks for the figure's size, resolution and title, then
@@ -61,15 +63,26 @@ func (v *viewer) showFigureDialog() {
 			wc.Close()
 			v.saveFigure(path, title.Text, w, h, d)
 		}, v.win)
-		save.SetFileName(strings.ReplaceAll(strings.ToLower(v.figureTitle()), " ", "-") + ".png")
+		save.SetFileName(figureFileName(v.figureTitle()))
+		// Start in the folder the last figure went to (kept apart from the
+		// folder files are opened from).
+		if dir := v.app.Preferences().String(prefFigureFolder); dir != "" {
+			if l, err := storage.ListerForURI(storage.NewFileURI(dir)); err == nil {
+				save.SetLocation(l)
+			}
+		}
 		save.SetFilter(storage.NewExtensionFileFilter([]string{".png"}))
 		save.Resize(fyne.NewSize(900, 600))
 		save.Show()
 	}, v.win)
 }
 
+// figureTitle is the default title of a figure of the shown view.
 func (v *viewer) figureTitle() string {
 	pl := v.state.plan()
+	if v.data.complete() {
+		pl = v.data.plan
+	}
 	t := v.state.title(v.info) + ": "
 	if pl.Overlay != nil {
 		return t + pl.Overlay.Name + " over " + strings.ToLower(pl.Base.Name)
@@ -84,31 +97,50 @@ func (v *viewer) figureFor(title string, w, h int) (render.Figure, error) {
 		return render.Figure{}, fmt.Errorf("no section is shown")
 	}
 	st := v.state
-	c := figure.Content{
-		Name: filepath.Base(v.vol.Name()), Cond: st.Cond, Clip: st.ClipPercent, Opacity: st.Opacity,
-		OpacityFollows: st.OpacityFollowsValue, Wiggle: st.Wiggle, Width: w, Height: h, Title: title,
+	pl := d.plan
+	f := render.Figure{Title: title, Width: w, Height: h}
+	f.Base, f.Overlay = shownLayers(d, &st, v.ranges)
+	f.Legends = []render.Legend{style.LegendFor(pl.Base, f.Base)}
+	if f.Overlay != nil {
+		f.Legends = append(f.Legends, style.LegendFor(pl.Overlay, *f.Overlay))
 	}
-	for k, a := range []*compute.Attribute{d.plan.Base, d.plan.Overlay} {
-		sec := []*volume.Section{d.base, d.over}[k]
-		if a == nil || sec == nil {
-			continue
+	amp := d.amp
+	if amp.Slice.Orientation == volume.TimeSlice {
+		f.MapAspect = amp.MapAspect
+		if !(f.MapAspect > 0) {
+			f.MapAspect = 1
 		}
-		p, _ := a.Resolve(st.Params[a.ID]) // for the caption; the shown data used these
-		c.Attrs, c.Params, c.Sections = append(c.Attrs, a), append(c.Params, p), append(c.Sections, sec)
-		c.Palettes = append(c.Palettes, st.paletteFor(a, k == 1))
+		f.Horizontal = render.Axis{Title: "Crossline", First: float64(amp.Keys[0]), Last: float64(amp.Keys[len(amp.Keys)-1])}
+		f.Vertical = render.Axis{Title: "Inline", First: float64(amp.InlineKeys[0]), Last: float64(amp.InlineKeys[len(amp.InlineKeys)-1])}
+		f.Scale = render.ScaleBar{MetresPerTrace: v.info.InlineSpacingM}
+		return f, nil
 	}
-	if d.base != d.amp {
-		c.Amplitude = d.amp
+	n, m := len(amp.Traces), len(amp.Traces[0])
+	vp := st.viewport(n, m)
+	f.View = vp
+	i0, i1 := int(vp.Trace0), min(int(vp.Trace1+0.999)-1, n-1)
+	hTitle := "Crossline"
+	if amp.Slice.Orientation == volume.Crossline {
+		hTitle = "Inline"
 	}
-	if d.amp.Slice.Orientation == volume.TimeSlice {
-		c.MetresPerTrace = v.info.InlineSpacingM
-		if loc, ok := v.vol.(figure.Located); ok {
-			c.Geo = figure.MapGeo(loc, d.amp.InlineKeys, d.amp.Keys)
+	// Axis values are at the centres of the first and last trace (sample)
+	// in view.
+	f.Horizontal = render.Axis{Title: hTitle, First: float64(amp.Keys[i0]), Last: float64(amp.Keys[max(i1, i0)])}
+	s0, s1 := int(vp.Sample0), min(int(vp.Sample1+0.999)-1, m-1)
+	f.Vertical = render.Axis{Title: "Time (ms)", First: (amp.T0 + float64(s0)*amp.DT) * 1000, Last: (amp.T0 + float64(max(s1, s0))*amp.DT) * 1000}
+	if st.Wiggle {
+		// The colour must be set: a zero WiggleStyle draws transparent
+		// wiggles.
+		f.Wiggle = &render.WiggleStyle{Color: wiggleColour, Fill: true, Gain: 1}
+		if d.base != d.amp {
+			f.Wiggle.Data = amp.Traces
+			if r, ok := v.ranges[rangeKey(lookup(amplitudeID), nil, compute.Conditioning{}, st.ClipPercent)]; ok {
+				f.Wiggle.Clip = float64(max(-r[0], r[1]))
+			}
 		}
-	} else {
-		c.View = st.viewport(len(d.amp.Traces), len(d.amp.Traces[0]))
 	}
-	return figure.Compose(c)
+	f.Scale = render.ScaleBar{MetresPerTrace: amp.MetresPerTrace}
+	return f, nil
 }
 
 // saveFigure draws and writes the figure in the background.
@@ -122,25 +154,61 @@ func (v *viewer) saveFigure(path, title string, w, h int, dpi float64) {
 		path += ".png"
 	}
 	v.setBusy(v.ui.work, "Saving figure", 0, 0, func() { v.jobs.cancel("figure") })
+	var inputs []string
+	if v.vol != nil && v.vol.Path() != "" {
+		inputs = []string{v.vol.Path()}
+	}
 	v.jobs.start("figure", func(j *job) {
-		err := writeFigure(f, path, dpi)
+		err := writeFigure(j.ctx, f, path, dpi, inputs)
 		v.onUI(j, func() {
 			v.setIdle(v.ui.work)
 			if err != nil {
 				v.showError(err.Error())
 				return
 			}
+			v.app.Preferences().SetString(prefFigureFolder, filepath.Dir(path))
 			v.showStatus("Saved " + path)
 		})
 	})
 }
 
-// writeFigure draws f and writes it through figure.Write (format from the
-// extension, path replaced only when the whole file is written).
-func writeFigure(f render.Figure, path string, dpi float64) error {
+// writeFigure draws f and writes it as PNG at dpi through app/outfile
+// (figure.WritePNG): path is replaced only when the whole file is
+// written, and never when it is a device, FIFO, folder, symbolic link or
+// one of inputs.
+func writeFigure(ctx context.Context, f render.Figure, path string, dpi float64, inputs []string) error {
 	img, err := f.Draw()
 	if err != nil {
 		return fmt.Errorf("figure: %w", err)
 	}
-	return figure.Write(path, img, dpi)
+	return figure.Write(ctx, path, img, dpi, outfile.Options{Inputs: inputs})
+}
+
+// figureFileName is the default file name of a figure titled title: lower
+// case letters, digits and dashes only, so it is valid on every desktop
+// system (no colon, slash or space), e.g. "inline-1074-envelope-over-
+// amplitude.png".
+func figureFileName(title string) string {
+	var b strings.Builder
+	dash := false
+	for _, r := range strings.ToLower(title) {
+		switch {
+		case r >= 'a' && r <= 'z', r >= '0' && r <= '9':
+			b.WriteRune(r)
+			dash = false
+		case r == '.' && b.Len() > 0:
+			b.WriteRune('-')
+			dash = true
+		default:
+			if !dash && b.Len() > 0 {
+				b.WriteRune('-')
+				dash = true
+			}
+		}
+	}
+	name := strings.TrimRight(b.String(), "-")
+	if name == "" {
+		name = "figure"
+	}
+	return name + ".png"
 }

@@ -2,8 +2,10 @@ package viewer
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"image"
+	"image/draw"
 	"os"
 	"strconv"
 	"time"
@@ -11,6 +13,7 @@ import (
 	"fyne.io/fyne/v2"
 
 	"quadtrace/app/figure"
+	"quadtrace/app/outfile"
 )
 
 // The snapshot (quadtrace --snapshot OUT.png) is a picture of the real
@@ -124,8 +127,15 @@ func distinctColours(img *image.RGBA, limit int) int {
 	return len(seen)
 }
 
-// writePNG writes img to path as PNG at 96 dpi through figure.Write (a
-// temporary file renamed into place).
+// writePNG writes img to path through app/outfile (figure.WritePNG).
 func writePNG(path string, img image.Image) error {
-	return figure.Write(path, img, 96)
+	rgba, ok := img.(*image.RGBA)
+	if !ok {
+		rgba = image.NewRGBA(img.Bounds())
+		draw.Draw(rgba, rgba.Bounds(), img, img.Bounds().Min, draw.Src)
+	}
+	if err := figure.Write(context.Background(), path, rgba, 96, outfile.Options{}); err != nil {
+		return fmt.Errorf("snapshot: %w", err)
+	}
+	return nil
 }
