@@ -2,6 +2,7 @@ package viewer
 
 import (
 	"fmt"
+	"maps"
 	"os"
 	"path/filepath"
 	"strings"
@@ -73,9 +74,7 @@ func (v *viewer) showExportDialog() {
 		for _, n := range pick.Selected {
 			a := byName[n]
 			ids = append(ids, a.ID)
-			for k, val := range v.state.Params[a.ID] {
-				params[k] = val
-			}
+			maps.Copy(params, v.state.Params[a.ID])
 		}
 		if len(ids) == 0 {
 			v.showError("export: choose at least one attribute")
