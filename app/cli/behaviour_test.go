@@ -116,6 +116,17 @@ func TestEveryCommandBehavesAlike(t *testing.T) {
 			{"output is the input", []string{inPNG, "--inline", "2", "--out", inPNG}, 1, "", "is the input file"},
 			{"output is a fifo", []string{in, "--inline", "2", "--out", fifo}, 1, "", "is a FIFO"},
 		}},
+		{"track", Track, []call{
+			{"wrong call", []string{in, "--out", filepath.Join(dir, "h.txt")}, 2, "", "--seed"},
+			{"bad option", []string{in, "--sed", "2,21,100", "--out", filepath.Join(dir, "h.txt")}, 2, "", "(did you mean --seed?)"},
+			{"missing file", []string{missing, "--seed", "2,21,100", "--out", filepath.Join(dir, "h.txt")}, 1, "", "quadtrace track: " + missing + ": "},
+			{"output is the input", []string{in, "--seed", "2,21,100", "--out", in}, 1, "", "is the input file"},
+		}},
+		{"map", Map, []call{
+			{"wrong call", []string{in, "--out", filepath.Join(dir, "m.png")}, 2, "", "--horizon"},
+			{"bad id", []string{in, "--horizon", part, "--attribute", "envlope", "--out", filepath.Join(dir, "m.png")}, 2, "", "(did you mean envelope?)"},
+			{"output is the input", []string{inPNG, "--horizon", part, "--attribute", "envelope", "--out", inPNG}, 1, "", "is the input file"},
+		}},
 		{"synth", Synth, []call{
 			{"wrong call", []string{}, 2, "", "want one OUT.sgy"},
 			{"bad option", []string{filepath.Join(dir, "s.sgy"), "--sed", "3"}, 2, "", "(did you mean --seed?)"},

@@ -145,6 +145,9 @@ survey) and writes it as a horizon text file.`, stdout, stderr)
 	if !demo {
 		inputs = []string{pos[0]}
 	}
+	if err := prepareOutput(out, false, inputs...); err != nil { // refused before any work
+		return c.fail(out, err)
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
 	sv, err := openSurvey(ctx, demo, firstOr(pos), segyOpt)
@@ -296,6 +299,9 @@ between two horizons) and writes the map as a text grid or a PNG figure.`, stdou
 	}
 	if !demo {
 		inputs = append(inputs, pos[0])
+	}
+	if err := prepareOutput(out, false, inputs...); err != nil { // refused before any work
+		return c.fail(out, err)
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
