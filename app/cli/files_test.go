@@ -88,15 +88,19 @@ func TestOutputKinds(t *testing.T) {
 	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", folder}, &stdout, &stderr); code != exitFailed || !strings.Contains(stderr.String(), "is a folder") {
 		t.Errorf("figure into a folder: exit %d %q", code, stderr.String())
 	}
-	// --follow-links writes at the target.
+	// --follow-links writes at the target (a figure's name ends in .png:
+	// the extension picks the format).
+	pngTarget, pngLink := filepath.Join(dir, "target.png"), filepath.Join(dir, "link.png")
+	os.WriteFile(pngTarget, []byte("kept"), 0o644)
+	os.Symlink(pngTarget, pngLink)
 	stderr.Reset()
-	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", link, "--follow-links"}, &stdout, &stderr); code != exitOK {
+	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", pngLink, "--follow-links"}, &stdout, &stderr); code != exitOK {
 		t.Fatalf("figure --follow-links: exit %d %q", code, stderr.String())
 	}
-	if b, _ := os.ReadFile(target); !bytes.HasPrefix(b, []byte("\x89PNG")) {
+	if b, _ := os.ReadFile(pngTarget); !bytes.HasPrefix(b, []byte("\x89PNG")) {
 		t.Error("the link's target is not the figure")
 	}
-	if st, _ := os.Lstat(link); st.Mode()&os.ModeSymlink == 0 {
+	if st, _ := os.Lstat(pngLink); st.Mode()&os.ModeSymlink == 0 {
 		t.Error("the link itself was replaced")
 	}
 }
