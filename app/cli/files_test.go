@@ -8,6 +8,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"syscall"
 	"testing"
@@ -211,7 +212,13 @@ func TestSignalsDuringOpen(t *testing.T) {
 			if err := cmd.Start(); err != nil {
 				t.Fatal(err)
 			}
-			time.Sleep(150 * time.Millisecond)
+			// The signal goes once the child has the input open (its
+			// handler is installed before the open): found in
+			// /proc/PID/fd, so the signal lands in the header scan.
+			if !waitOpened(cmd.Process.Pid, in, 20*time.Second) {
+				cmd.Process.Kill()
+				t.Fatalf("the child never opened %s", in)
+			}
 			sent := time.Now()
 			cmd.Process.Signal(c.sig)
 			err := cmd.Wait()
@@ -238,3 +245,16 @@ func TestSignalsDuringOpen(t *testing.T) {
 }
 
 func errorsAs(err error, target any) bool { return errors.As(err, target) }
+
+// waitOpened polls /proc/PID/fd until the process has path open.
+func waitOpened(pid int, path string, limit time.Duration) bool {
+	for end := time.Now().Add(limit); time.Now().Before(end); time.Sleep(2 * time.Millisecond) {
+		fds, _ := os.ReadDir(filepath.Join("/proc", strconv.Itoa(pid), "fd"))
+		for _, fd := range fds {
+			if target, err := os.Readlink(filepath.Join("/proc", strconv.Itoa(pid), "fd", fd.Name())); err == nil && target == path {
+				return true
+			}
+		}
+	}
+	return false
+}
