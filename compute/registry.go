@@ -159,8 +159,14 @@ func saturate(s Section) {
 }
 
 // Parameter specs shared by several attributes.
-func padParam() ParamSpec {
-	return ParamSpec{Name: "pad", Default: PadFast, Choices: PadModes(),
+func padParam() ParamSpec { return padParamDefault(PadFast) }
+
+// padParamDefault is the pad parameter with another default: PadDouble for
+// relative impedance, whose running integral would otherwise wrap the
+// trace's end round onto its start (with pad=fast a spike in the last
+// samples shows as -12 % of its peak at t = 0).
+func padParamDefault(def string) ParamSpec {
+	return ParamSpec{Name: "pad", Default: def, Choices: PadModes(),
 		Description: "end treatment of the FFT: none = plain discrete analytic signal (Marple 1999); fast = zero-pad to the next power of two; double = zero-pad to a power of two at least twice the trace"}
 }
 
@@ -198,7 +204,7 @@ func registry() []*Attribute {
 			Params: analyticParams(), run: sampleAttribute(false, quadratureAt)},
 		{ID: "envelope", Name: "Envelope (reflection strength)", Unit: "amplitude", Kind: Magnitude, Group: GroupAmplitude,
 			Description: "modulus of the analytic trace", Source: srcTaner1979,
-			Params: analyticParams(), run: sampleAttribute(false, envelopeAt)},
+			Params: analyticParams(), run: traceAttribute(false, envelopeTrace)},
 		{ID: "envelope-derivative", Name: "Envelope first derivative", Unit: "amplitude/s", Kind: Signed, Group: GroupAmplitude,
 			Description: "time derivative of the envelope, (x x' + h h')/a", Source: srcTaner1979,
 			Params: analyticParams(), run: sampleAttribute(true, envelopeDerivativeAt)},
@@ -213,7 +219,7 @@ func registry() []*Attribute {
 			Params: []ParamSpec{windowParam("40")}, run: rmsAmplitude},
 		{ID: "relative-impedance", Name: "Relative acoustic impedance", Unit: "amplitude*s", Kind: Signed, Group: GroupAmplitude,
 			Description: "running integral of the trace, low-cut to remove drift", Source: srcTaner2001,
-			Params: []ParamSpec{padParam(), {Name: "low-cut", Unit: "Hz", Default: "6", Min: 0.1, Max: 10000,
+			Params: []ParamSpec{padParamDefault(PadDouble), {Name: "low-cut", Unit: "Hz", Default: "6", Min: 0.1, Max: 10000,
 				Description: "half-amplitude point of the one-octave cosine-squared low-cut ramp"}}, run: relativeImpedance},
 
 		// instantaneous
@@ -233,7 +239,7 @@ func registry() []*Attribute {
 			Description: "sqrt(f^2 + b^2) of instantaneous frequency f and bandwidth b", Source: srcBarnes1993,
 			Params: analyticParams(), run: sampleAttribute(true, dominantAt)},
 		{ID: "thin-bed", Name: "Thin-bed indicator", Unit: "Hz", Kind: Signed, Group: GroupInstantaneous,
-			Description: "instantaneous frequency minus its envelope-weighted average over a window", Source: srcTaner2001,
+			Description: "instantaneous frequency minus its average over a window weighted by envelope squared (Barnes 1993)", Source: srcTaner2001,
 			Params: analyticParams(windowParam("40")), run: windowedAttribute(thinBedAt)},
 
 		// response

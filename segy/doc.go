@@ -4,7 +4,7 @@
 // and SEG-Y revision 2.0 (2017) for every byte position and code; IBM
 // System/370 Principles of Operation for the hexadecimal floating-point
 // format. Tests also check against the segyio test files in
-// ../shared/segy-corpus and against Debian's python3-segyio 1.8.3.
+// testdata/segy-corpus and against Debian's python3-segyio 1.8.3.
 //
 // Reading. Open maps the file read-only (falling back to ReadAt when mmap
 // is refused), parses the textual header (EBCDIC or ASCII, detected),

@@ -12,16 +12,13 @@ import (
 )
 
 // Native fuzz targets (go test -fuzz=FuzzX -fuzztime=20s ./segy/). Seeds:
-// every file of ../shared/segy-corpus plus the generated malformed files;
+// every file of testdata/segy-corpus plus the generated malformed files;
 // crashers found are kept by Go under testdata/fuzz/ as regression seeds.
 
 func addCorpusSeeds(f *testing.F) {
 	entries, err := os.ReadDir(corpusDir)
 	if err != nil {
-		if os.Getenv("CI") == "true" {
-			f.Fatalf("segy corpus %s missing (CI=true): %v", corpusDir, err)
-		}
-		return
+		f.Fatalf("segy corpus %s missing (it is part of the repository): %v", corpusDir, err)
 	}
 	for _, e := range entries {
 		if filepath.Ext(e.Name()) != ".sgy" {
@@ -159,9 +156,11 @@ func FuzzTraceHeaders(f *testing.F) {
 	s.SampleBytes = func(tr, k int) []byte { return []byte{byte(tr)} }
 	f.Add(s.Bytes()[3600:])
 	for _, name := range []string{"small-ps.sgy", "shot-gather.sgy"} {
-		if b, err := os.ReadFile(filepath.Join(corpusDir, name)); err == nil {
-			f.Add(b[3600:])
+		b, err := os.ReadFile(filepath.Join(corpusDir, name))
+		if err != nil {
+			f.Fatalf("segy corpus file missing (it is part of the repository): %v", err)
 		}
+		f.Add(b[3600:])
 	}
 	hdr := s.Bytes()[:3600]
 	f.Fuzz(func(t *testing.T, traces []byte) {

@@ -9,9 +9,9 @@ import (
 	"quadtrace/segy/segytest"
 )
 
-// corpusDir is ../shared/segy-corpus relative to the project root (see
-// /work/shared/segy-corpus/README.md): open SEG-Y files written by segyio.
-const corpusDir = "../../shared/segy-corpus"
+// corpusDir is the project's copy of the open SEG-Y corpus (files written
+// by segyio; testdata/segy-corpus/README.md), relative to this package.
+const corpusDir = "../" + segytest.CorpusDir
 
 func openT(t testing.TB, path string, opt Options) *File {
 	t.Helper()

@@ -58,7 +58,7 @@ func expected(t *testing.T, in compute.Section, id string, params map[string]str
 // original-recording copies of interval and sample count that the segy
 // writer sets); its textual header records attribute, parameters,
 // conditioning, source and version. The IBM case starts from
-// ../shared/segy-corpus/small.sgy, written by segyio itself.
+// testdata/segy-corpus/small.sgy, written by segyio itself.
 func TestExportReadBackBySegyio(t *testing.T) {
 	segytest.NeedPython(t, "segyio", "numpy")
 	dir := t.TempDir()

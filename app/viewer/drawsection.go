@@ -1,12 +1,10 @@
 package viewer
 
 import (
-	"fmt"
 	"image"
 	"image/color"
 	"math"
 
-	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/palettes"
@@ -20,21 +18,30 @@ import (
 func renderSection(req renderRequest, basePal, ovPal *palettes.Palette) renderResult {
 	st, pl, d := req.state, req.plan, req.data
 	res := renderResult{newRanges: map[string][2]float32{}}
-	rangeOf := func(key string, a *compute.Attribute, data [][]float32) (float32, float32) {
-		k := fmt.Sprintf("%s@%g", key, st.ClipPercent)
+	rangeOf := func(a *compute.Attribute, params map[string]string, cond compute.Conditioning, data [][]float32) (float32, float32) {
+		k := rangeKey(a, params, cond, st.ClipPercent)
 		if r, ok := req.ranges[k]; ok {
 			return r[0], r[1]
 		}
-		lo, hi := style.Range(a, data, st.ClipPercent)
+		if r, ok := res.newRanges[k]; ok {
+			return r[0], r[1]
+		}
+		lo, hi := displayRange(a, data, st.ClipPercent)
 		res.newRanges[k] = [2]float32{lo, hi}
 		return lo, hi
 	}
+	if marksNegative(pl.Base) {
+		basePal = markNegative(basePal)
+	}
 	res.base = render.Layer{Data: d.base.Traces, Palette: basePal, Opacity: 1}
-	res.base.Lo, res.base.Hi = rangeOf(d.baseKey, pl.Base, d.base.Traces)
+	res.base.Lo, res.base.Hi = rangeOf(pl.Base, d.baseParams, d.cond, d.base.Traces)
 	var ov *render.Layer
 	if pl.Overlay != nil && d.over != nil {
+		if marksNegative(pl.Overlay) {
+			ovPal = markNegative(ovPal)
+		}
 		res.ov = render.Layer{Data: d.over.Traces, Palette: ovPal, Opacity: clamp(st.Opacity, 0, 1), OpacityFollowsValue: st.OpacityFollowsValue}
-		res.ov.Lo, res.ov.Hi = rangeOf(d.overKey, pl.Overlay, d.over.Traces)
+		res.ov.Lo, res.ov.Hi = rangeOf(pl.Overlay, d.overParams, d.cond, d.over.Traces)
 		res.hasOv = true
 		ov = &res.ov
 	}
@@ -69,10 +76,10 @@ func renderSection(req renderRequest, basePal, ovPal *palettes.Palette) renderRe
 	res.img = image.NewRGBA(image.Rect(0, 0, req.width, req.height))
 	var wig *render.WiggleStyle
 	if st.Wiggle {
-		wig = &render.WiggleStyle{Color: color.RGBA{20, 20, 20, 255}, Fill: true, Gain: 1}
+		wig = &render.WiggleStyle{Color: wiggleColour, Fill: true, Gain: 1}
 		if pl.Base.ID != amplitudeID || d.base != d.amp {
 			wig.Data = amp.Traces
-			_, hi := rangeOf(d.ampKey, lookup(amplitudeID), amp.Traces)
+			_, hi := rangeOf(lookup(amplitudeID), nil, compute.Conditioning{}, amp.Traces)
 			wig.Clip = float64(hi)
 		}
 	}
@@ -84,6 +91,9 @@ func renderSection(req renderRequest, basePal, ovPal *palettes.Palette) renderRe
 	res.axes = sectionAxes{HTitle: h, VTitle: "Time (ms)", HKeys: amp.Keys, T0MS: amp.T0 * 1000, DTMS: amp.DT * 1000}
 	return res
 }
+
+// wiggleColour draws amplitude wiggles, on screen and in figures.
+var wiggleColour = color.RGBA{20, 20, 20, 255}
 
 // fitAspect is the largest w x h inside width x height with w/h = aspect.
 func fitAspect(width, height int, aspect float64) (int, int) {

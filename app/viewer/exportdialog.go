@@ -143,10 +143,9 @@ func demoStem(info segy.Info) string {
 // destination folder (the export job reads files), exports from it as from
 // any file, and removes it whatever happens. Outputs are named after stem.
 func (v *viewer) runDemoExport(ej export.Job, folder, stem string) {
-	vol := v.vol
 	cancel := func() { v.jobs.cancel("export") }
 	v.setBusy(v.ui.export, "Writing the demo survey", 0, 0, cancel)
-	v.jobs.start("export", func(j *job) {
+	v.startWithSurvey("export", func(j *job, vol survey) {
 		// A hidden folder of its own holds stem.sgy, so that the export
 		// names its outputs stem-ID.sgy and records stem.sgy as the source.
 		tmpDir, err := os.MkdirTemp(folder, ".quadtrace-demo-*")

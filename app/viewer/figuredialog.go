@@ -8,6 +8,7 @@ import (
 	"quadtrace/app/outfile"
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
+	"quadtrace/compute"
 	"quadtrace/render"
 	"strconv"
 	"strings"
@@ -62,15 +63,26 @@ func (v *viewer) showFigureDialog() {
 			wc.Close()
 			v.saveFigure(path, title.Text, w, h, d)
 		}, v.win)
-		save.SetFileName(strings.ReplaceAll(strings.ToLower(v.figureTitle()), " ", "-") + ".png")
+		save.SetFileName(figureFileName(v.figureTitle()))
+		// Start in the folder the last figure went to (kept apart from the
+		// folder files are opened from).
+		if dir := v.app.Preferences().String(prefFigureFolder); dir != "" {
+			if l, err := storage.ListerForURI(storage.NewFileURI(dir)); err == nil {
+				save.SetLocation(l)
+			}
+		}
 		save.SetFilter(storage.NewExtensionFileFilter([]string{".png"}))
 		save.Resize(fyne.NewSize(900, 600))
 		save.Show()
 	}, v.win)
 }
 
+// figureTitle is the default title of a figure of the shown view.
 func (v *viewer) figureTitle() string {
 	pl := v.state.plan()
+	if v.data.complete() {
+		pl = v.data.plan
+	}
 	t := v.state.title(v.info) + ": "
 	if pl.Overlay != nil {
 		return t + pl.Overlay.Name + " over " + strings.ToLower(pl.Base.Name)
@@ -86,14 +98,11 @@ func (v *viewer) figureFor(title string, w, h int) (render.Figure, error) {
 	}
 	st := v.state
 	pl := d.plan
-	basePal := st.paletteFor(pl.Base, false)
 	f := render.Figure{Title: title, Width: w, Height: h}
-	f.Base = style.Layer(pl.Base, d.base.Traces, basePal, st.ClipPercent)
+	f.Base, f.Overlay = shownLayers(d, &st, v.ranges)
 	f.Legends = []render.Legend{style.LegendFor(pl.Base, f.Base)}
-	if pl.Overlay != nil && d.over != nil {
-		ov := style.Overlay(pl.Overlay, d.over.Traces, st.paletteFor(pl.Overlay, true), st.ClipPercent, st.Opacity, st.OpacityFollowsValue)
-		f.Overlay = &ov
-		f.Legends = []render.Legend{f.Legends[0], style.LegendFor(pl.Overlay, ov)}
+	if f.Overlay != nil {
+		f.Legends = append(f.Legends, style.LegendFor(pl.Overlay, *f.Overlay))
 	}
 	amp := d.amp
 	if amp.Slice.Orientation == volume.TimeSlice {
@@ -120,9 +129,14 @@ func (v *viewer) figureFor(title string, w, h int) (render.Figure, error) {
 	s0, s1 := int(vp.Sample0), min(int(vp.Sample1+0.999)-1, m-1)
 	f.Vertical = render.Axis{Title: "Time (ms)", First: (amp.T0 + float64(s0)*amp.DT) * 1000, Last: (amp.T0 + float64(max(s1, s0))*amp.DT) * 1000}
 	if st.Wiggle {
-		f.Wiggle = &render.WiggleStyle{Fill: true, Gain: 1}
+		// The colour must be set: a zero WiggleStyle draws transparent
+		// wiggles.
+		f.Wiggle = &render.WiggleStyle{Color: wiggleColour, Fill: true, Gain: 1}
 		if d.base != d.amp {
 			f.Wiggle.Data = amp.Traces
+			if r, ok := v.ranges[rangeKey(lookup(amplitudeID), nil, compute.Conditioning{}, st.ClipPercent)]; ok {
+				f.Wiggle.Clip = float64(max(-r[0], r[1]))
+			}
 		}
 	}
 	f.Scale = render.ScaleBar{MetresPerTrace: amp.MetresPerTrace}
@@ -152,6 +166,7 @@ func (v *viewer) saveFigure(path, title string, w, h int, dpi float64) {
 				v.showError(err.Error())
 				return
 			}
+			v.app.Preferences().SetString(prefFigureFolder, filepath.Dir(path))
 			v.showStatus("Saved " + path)
 		})
 	})
@@ -167,4 +182,33 @@ func writeFigure(ctx context.Context, f render.Figure, path string, dpi float64,
 		return fmt.Errorf("figure: %w", err)
 	}
 	return figure.WritePNG(ctx, path, img, dpi, outfile.Options{Inputs: inputs})
+}
+
+// figureFileName is the default file name of a figure titled title: lower
+// case letters, digits and dashes only, so it is valid on every desktop
+// system (no colon, slash or space), e.g. "inline-1074-envelope-over-
+// amplitude.png".
+func figureFileName(title string) string {
+	var b strings.Builder
+	dash := false
+	for _, r := range strings.ToLower(title) {
+		switch {
+		case r >= 'a' && r <= 'z', r >= '0' && r <= '9':
+			b.WriteRune(r)
+			dash = false
+		case r == '.' && b.Len() > 0:
+			b.WriteRune('-')
+			dash = true
+		default:
+			if !dash && b.Len() > 0 {
+				b.WriteRune('-')
+				dash = true
+			}
+		}
+	}
+	name := strings.TrimRight(b.String(), "-")
+	if name == "" {
+		name = "figure"
+	}
+	return name + ".png"
 }

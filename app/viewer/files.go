@@ -19,6 +19,7 @@ const (
 	prefWidth        = "windowWidth"
 	prefHeight       = "windowHeight"
 	prefPalettes     = "paletteChoices"
+	prefFigureFolder = "figureFolder"
 	maxRecent        = 8
 	defaultWinWidth  = 1440
 	defaultWinHeight = 900

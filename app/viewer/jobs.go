@@ -105,6 +105,16 @@ func (js *jobs) start(lane string, run func(j *job)) {
 	}()
 }
 
+// background runs f in a goroutine outside every lane: it is never
+// cancelled, and wait waits for it like for a job.
+func (js *jobs) background(f func()) {
+	js.running.Add(1)
+	go func() {
+		defer js.running.Add(-1)
+		f()
+	}()
+}
+
 // cancel stops the lane's running job, if any.
 func (js *jobs) cancel(lane string) {
 	js.mu.Lock()

@@ -115,14 +115,14 @@ func (v *viewer) requestData() {
 		v.requestRender()
 		return
 	}
-	have, vol, cached := v.data, v.vol, v.cache.snapshot()
+	have, cached := v.data, v.cache.snapshot()
 	cancel := func() {
 		v.jobs.cancel("data")
 		v.setIdle(v.ui.work)
 		v.backToShown()
 	}
 	v.setBusy(v.ui.work, "Reading "+strings.ToLower(v.state.title(v.info)), 0, 0, cancel)
-	v.jobs.start("data", func(j *job) {
+	v.startWithSurvey("data", func(j *job, vol survey) {
 		var thr progressThrottle
 		progress := func(label string) func(done, total int) {
 			return func(done, total int) {
@@ -234,11 +234,10 @@ func (v *viewer) requestRender() {
 	v.jobs.start("render", func(j *job) {
 		res := renderSection(req, basePal, ovPal)
 		v.onUI(j, func() {
-			if len(v.ranges) > 256 { // keep the ranges of recent sections only
-				v.ranges = map[string][2]float32{}
-			}
 			for k, r := range res.newRanges {
-				v.ranges[k] = r
+				if _, ok := v.ranges[k]; !ok { // the first range found is kept
+					v.ranges[k] = r
+				}
 			}
 			v.lastSection = res.img
 			v.ui.section.setImage(res.img, res.vp, res.axes, res.aspect)

@@ -60,20 +60,16 @@ func (v *viewer) requestTrace() {
 	}
 	st := v.state
 	pl := d.plan // the layers of the shown data, not those requested
-	vol := v.vol
 	tw, th := v.ui.trace.plotPixels()
 	sw, sh := v.ui.spectrum.plotPixels()
 	fg := toRGBA(theme.Color(theme.ColorNameForeground))
 	grid := toRGBA(theme.Color(theme.ColorNameSeparator))
 	ranges := copyRanges(v.ranges)
-	ampRange := ranges[fmt.Sprintf("%s@%g", d.ampKey, st.ClipPercent)]
-	if pl.Base.ID == amplitudeID && d.base == d.amp {
-		ampRange = ranges[fmt.Sprintf("%s@%g", d.baseKey, st.ClipPercent)]
-	}
+	ampRange := ranges[rangeKey(lookup(amplitudeID), nil, compute.Conditioning{}, st.ClipPercent)]
 	baseParams, overParams, cond := d.baseParams, d.overParams, d.cond
 	nx, ny := v.dims()
 	vp := st.viewport(nx, ny)
-	v.jobs.start("trace", func(j *job) {
+	v.startWithSurvey("trace", func(j *job, vol survey) {
 		pic := tracePicture{fg: fg, grid: grid, markSample: math.NaN()}
 		pic.fill = fg
 		pic.fill.A = 150
@@ -139,7 +135,7 @@ func (v *viewer) requestTrace() {
 		pic.tracks = append(pic.tracks, traceTrack{Name: "Amplitude", Values: amp, Lo: -hi, Hi: hi, Wiggle: true, Colour: fg})
 		for k, at := range attrs {
 			lo, hi := finiteRange(curves[k])
-			if r, ok := ranges[fmt.Sprintf("%s@%g", at.key, st.ClipPercent)]; ok && d.amp.Slice.Orientation != volume.TimeSlice {
+			if r, ok := ranges[rangeKey(at.a, at.params, cond, st.ClipPercent)]; ok {
 				lo, hi = float64(r[0]), float64(r[1])
 			}
 			pic.tracks = append(pic.tracks, traceTrack{Name: at.a.Name, Values: curves[k], Lo: lo, Hi: hi, Colour: trackColours[k%len(trackColours)]})

@@ -14,6 +14,7 @@ import (
 	"fmt"
 	"image"
 	"path/filepath"
+	"time"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/app"
@@ -34,6 +35,9 @@ type Options struct {
 	Snapshot string
 	// SegyOptions override the header byte locations and byte order.
 	SegyOptions segy.Options
+	// Demo, when not nil, is the size of the demo survey to generate
+	// instead of synth.DefaultConfig (tests use a small one).
+	Demo *synth.Config
 }
 
 // Run opens the viewer window and returns when it is closed. With
@@ -45,9 +49,7 @@ func Run(opt Options) error {
 	v.start()
 	v.win.ShowAndRun()
 	v.jobs.close()
-	if v.vol != nil {
-		v.vol.Close()
-	}
+	v.closeSurveyNow(5 * time.Second)
 	return v.exitErr
 }
 
@@ -106,7 +108,7 @@ type viewer struct {
 	// of what the picture shows; a cancelled request goes back to them.
 	shownState viewState
 	cache      *sectionCache
-	ranges     map[string][2]float32 // display ranges by section key and clip
+	ranges     map[string][2]float32 // colour ranges by rangeKey (see ranges.go)
 
 	// What the window currently shows, kept for tests and the snapshot.
 	lastSection   *image.RGBA
@@ -116,9 +118,11 @@ type viewer struct {
 
 	ui *widgets
 
+	holds surveyHolds // the jobs reading each survey
+
 	// wantPick is the trace to pick in the next data shown (set by a change
 	// of view); history and histPos are the Back/Forward history.
-	wantPick *pickKeys
+	wantPick    *pickKeys
 	history     []historyEntry
 	histPos     int
 	histPending int // the entry a Back/Forward is going to; -1: none
@@ -169,7 +173,11 @@ func (v *viewer) openFile(path string) {
 // openDemo generates the built-in demo survey in the background.
 func (v *viewer) openDemo() {
 	v.startOpen("the demo survey", func(ctx context.Context, progress func(int, int)) (survey, error) {
-		vol, err := volume.Demo(ctx, synth.DefaultConfig(), progress)
+		cfg := synth.DefaultConfig()
+		if v.opt.Demo != nil {
+			cfg = *v.opt.Demo
+		}
+		vol, err := volume.Demo(ctx, cfg, progress)
 		if err != nil {
 			return nil, err
 		}
@@ -177,33 +185,38 @@ func (v *viewer) openDemo() {
 	}, "")
 }
 
-// startOpen runs open in the "open" lane, then shows what it opened.
+// startOpen runs open in the "open" lane, then shows what it opened. A
+// cancelled or failed open leaves the survey shown before as it was: its
+// picture comes back and the controls name it again.
 func (v *viewer) startOpen(what string, open func(context.Context, func(int, int)) (survey, error), path string) {
 	v.jobs.cancel("data")
 	v.ui.section.setMessage("Opening " + what + "…")
-	v.setBusy(v.ui.work, "Opening "+what, 0, 0, func() { v.jobs.cancel("open") })
+	cancel := func() {
+		v.jobs.cancel("open")
+		v.setIdle(v.ui.work)
+		v.keepShownSurvey()
+	}
+	v.setBusy(v.ui.work, "Opening "+what, 0, 0, cancel)
 	v.jobs.start("open", func(j *job) {
 		var thr progressThrottle
 		vol, err := open(j.ctx, func(done, total int) {
 			if thr.due(done, total) {
-				v.onUI(j, func() { v.setBusy(v.ui.work, "Opening "+what, done, total, func() { v.jobs.cancel("open") }) })
+				v.onUI(j, func() { v.setBusy(v.ui.work, "Opening "+what, done, total, cancel) })
 			}
 		})
-		if err != nil && vol != nil {
-			vol.Close()
+		if vol != nil && (err != nil || j.ctx.Err() != nil) {
+			vol.Close() // cancelled (its memory goes with it) or failed
 		}
 		if j.ctx.Err() != nil {
-			if vol != nil {
-				vol.Close()
-			}
-			v.jobs.do(func() { v.setIdle(v.ui.work) })
-			return
+			return // the cancel (or the newer open) has seen to the window
 		}
 		v.onUI(j, func() {
 			v.setIdle(v.ui.work)
 			if err != nil {
 				msg := fmt.Sprintf("Could not open %s: %v", what, err)
-				v.ui.section.setMessage(msg)
+				if !v.keepShownSurvey() {
+					v.ui.section.setMessage(msg)
+				}
 				v.showError(msg)
 				v.failSnapshot(err)
 				return
@@ -216,12 +229,22 @@ func (v *viewer) startOpen(what string, open func(context.Context, func(int, int
 	})
 }
 
+// keepShownSurvey goes back to showing the survey that was shown before an
+// open that did not happen, and reports whether there was one.
+func (v *viewer) keepShownSurvey() bool {
+	if v.data.amp == nil {
+		return false
+	}
+	v.ui.section.setMessage("")
+	v.backToShown()
+	v.requestData() // the data lane was cancelled for the open
+	return true
+}
+
 // setSurvey shows a newly opened survey from its middle inline.
 func (v *viewer) setSurvey(vol survey) {
-	if v.vol != nil {
-		v.jobs.cancel("data")
-		v.vol.Close()
-	}
+	v.closeSurvey(v.vol)
+	v.jobs.cancel("render") // a picture of the old survey must not show up
 	v.vol = vol
 	v.info = vol.Info()
 	v.data = shown{}

@@ -65,10 +65,19 @@ func expectedSection(t *testing.T, v *viewer) *image.RGBA {
 	st := v.state
 	pl := st.plan()
 	img := image.NewRGBA(v.lastSection.Bounds())
+	// The colour range is the one kept for the survey and attribute (taken
+	// from the first section shown), when there is one.
+	kept := func(l *render.Layer, a *compute.Attribute, params map[string]string) {
+		if r, ok := v.ranges[rangeKey(a, params, v.data.cond, st.ClipPercent)]; ok {
+			l.Lo, l.Hi = r[0], r[1]
+		}
+	}
 	base := style.Layer(pl.Base, v.data.base.Traces, st.paletteFor(pl.Base, false), st.ClipPercent)
+	kept(&base, pl.Base, v.data.baseParams)
 	var ov *render.Layer
 	if pl.Overlay != nil {
 		o := style.Overlay(pl.Overlay, v.data.over.Traces, st.paletteFor(pl.Overlay, true), st.ClipPercent, st.Opacity, st.OpacityFollowsValue)
+		kept(&o, pl.Overlay, v.data.overParams)
 		ov = &o
 	}
 	n, m := v.dims()

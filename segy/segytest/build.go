@@ -289,7 +289,7 @@ func cards(text string, blank byte, encode func(rune) (byte, bool)) []byte {
 }
 
 // ValueRule is the sample value rule of the open SEG-Y corpus
-// (../shared/segy-corpus README): sample k of inline il, crossline xl is
+// (testdata/segy-corpus/README.md): sample k of inline il, crossline xl is
 // il + xl/100 + k*1e-5.
 func ValueRule(il, xl, k int) float64 {
 	return float64(il) + float64(xl)/100 + float64(k)*1e-5

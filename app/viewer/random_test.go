@@ -1,0 +1,300 @@
+package viewer
+
+import (
+	"fmt"
+	"math"
+	"math/rand"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/driver/desktop"
+	"fyne.io/fyne/v2/test"
+
+	"quadtrace/app/volume"
+	"quadtrace/compute"
+	"quadtrace/compute/synth"
+	"quadtrace/segy/segytest"
+)
+
+// TestRandomInteraction drives the window through random actions, as a
+// hostile user would: every control, key and pointer event, attribute and
+// file switches, cancels, with the results of background jobs arriving in
+// between (sometimes all of them, sometimes a part, sometimes none before
+// the next action). After each action it checks that nothing panicked and
+// that the window is consistent (see checkConsistent).
+//
+// QUADTRACE_RANDOM_SEED picks the seed (default: the time; the seed is
+// printed first, also when a job's panic ends the process);
+// QUADTRACE_RANDOM_STEPS the number of actions (default 1500, a run of
+// about a minute on two cores under the race detector).
+func TestRandomInteraction(t *testing.T) {
+	seed := time.Now().UnixNano()
+	if s := os.Getenv("QUADTRACE_RANDOM_SEED"); s != "" {
+		n, err := strconv.ParseInt(s, 10, 64)
+		if err != nil {
+			t.Fatalf("QUADTRACE_RANDOM_SEED=%q: %v", s, err)
+		}
+		seed = n
+	}
+	steps := 1500
+	if s := os.Getenv("QUADTRACE_RANDOM_STEPS"); s != "" {
+		n, err := strconv.Atoi(s)
+		if err != nil || n < 1 {
+			t.Fatalf("QUADTRACE_RANDOM_STEPS=%q is not a positive number", s)
+		}
+		steps = n
+	}
+	if testing.Short() {
+		steps = min(steps, 200)
+	}
+	fmt.Fprintf(os.Stderr, "TestRandomInteraction: QUADTRACE_RANDOM_SEED=%d QUADTRACE_RANDOM_STEPS=%d\n", seed, steps)
+	rng := rand.New(rand.NewSource(seed))
+
+	files := []string{"", "small.sgy", "small-ps.sgy", "1x1.sgy", "1xN.sgy", "Mx1.sgy", "text.sgy", "tiny.sgy", "shot-gather.sgy"}
+	paths := make([]string, len(files))
+	for i, f := range files {
+		if f != "" {
+			paths[i] = segytest.CorpusFile(t, f)
+		}
+	}
+	a := test.NewTempApp(t)
+	demo := synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3}
+	v := newViewer(a, Options{Demo: &demo}, newQueuedJobs())
+	v.win.Resize(fyne.NewSize(1000, 700))
+	t.Cleanup(func() {
+		v.jobs.close()
+		v.jobs.wait()
+		if v.vol != nil {
+			v.vol.Close()
+		}
+	})
+	v.start()
+	v.jobs.wait()
+
+	attrs := compute.Attributes()
+	var log []string
+	fail := func(format string, args ...any) {
+		t.Helper()
+		tail := log[max(0, len(log)-12):]
+		t.Fatalf("seed %d, step %d: %s\nlast actions:\n  %s", seed, len(log), fmt.Sprintf(format, args...), strings.Join(tail, "\n  "))
+	}
+	actions := []struct {
+		name string
+		do   func()
+	}{
+		{"key", func() {
+			keys := []fyne.KeyName{fyne.KeyRight, fyne.KeyLeft, fyne.KeyPageDown, fyne.KeyPageUp, fyne.KeyPlus, fyne.KeyMinus, fyne.KeyHome, fyne.KeyUp}
+			v.typedKey(&fyne.KeyEvent{Name: keys[rng.Intn(len(keys))]})
+		}},
+		{"shortcut", func() {
+			cmds := v.viewCommands()
+			c := cmds[rng.Intn(len(cmds))]
+			if c.do != nil {
+				c.do()
+			}
+		}},
+		{"orientation", func() { v.ui.orientation.SetSelected(orientationNames[rng.Intn(3)]) }},
+		{"attribute", func() { v.ui.attrTree.Select("attr:" + attrs[rng.Intn(len(attrs))].ID) }},
+		{"overlay box", func() { test.Tap(v.ui.coRenderCheck) }},
+		{"one click", func() { test.Tap(v.ui.oneClick) }},
+		{"base layer", func() {
+			if !v.ui.baseChoice.Disabled() {
+				v.ui.baseChoice.SetSelected(attrs[rng.Intn(len(attrs))].Name)
+			}
+		}},
+		{"clip", func() {
+			f := 90 + rng.Float64()*10
+			v.ui.clipSlider.SetValue(f)
+			v.ui.clipSlider.OnChangeEnded(f)
+		}},
+		{"opacity", func() {
+			f := rng.Float64()
+			v.ui.opacitySlider.SetValue(f)
+			v.ui.opacitySlider.OnChangeEnded(f)
+		}},
+		{"checks", func() {
+			checks := []fyne.Tappable{v.ui.wiggleCheck, v.ui.followCheck, v.ui.followCursor}
+			test.Tap(checks[rng.Intn(len(checks))])
+		}},
+		{"palette", func() {
+			o := v.ui.palettePick.Options
+			v.ui.palettePick.SetSelected(o[rng.Intn(len(o))])
+		}},
+		{"base palette", func() {
+			o := v.ui.basePalettePick.Options
+			if !v.ui.basePalettePick.Disabled() {
+				v.ui.basePalettePick.SetSelected(o[rng.Intn(len(o))])
+			}
+		}},
+		{"click", func() {
+			n, m := v.dims()
+			v.pickAt(rng.Float64()*float64(n+2)-1, rng.Float64()*float64(m+2)-1)
+		}},
+		{"tap", func() {
+			s := v.ui.section.Size()
+			v.ui.section.Tapped(&fyne.PointEvent{Position: fyne.NewPos(rng.Float32()*s.Width, rng.Float32()*s.Height)})
+		}},
+		{"hover", func() {
+			s := v.ui.section.Size()
+			v.ui.section.MouseMoved(&desktop.MouseEvent{PointEvent: fyne.PointEvent{Position: fyne.NewPos(rng.Float32()*s.Width, rng.Float32()*s.Height)}})
+			if rng.Intn(4) == 0 {
+				v.ui.section.MouseOut()
+			}
+		}},
+		{"wheel", func() {
+			s := v.ui.section.Size()
+			v.ui.section.Scrolled(&fyne.ScrollEvent{PointEvent: fyne.PointEvent{Position: fyne.NewPos(rng.Float32()*s.Width, rng.Float32()*s.Height)}, Scrolled: fyne.Delta{DY: float32(rng.Intn(41) - 20)}})
+		}},
+		{"drag", func() {
+			s := v.ui.section.Size()
+			v.ui.section.Dragged(&fyne.DragEvent{PointEvent: fyne.PointEvent{Position: fyne.NewPos(rng.Float32()*s.Width, rng.Float32()*s.Height)}, Dragged: fyne.Delta{DX: float32(rng.Intn(200) - 100), DY: float32(rng.Intn(200) - 100)}})
+			v.ui.section.DragEnd()
+		}},
+		{"cancel", func() {
+			if !v.ui.work.box.Hidden {
+				test.Tap(v.ui.work.cancel)
+			}
+		}},
+		{"open", func() {
+			i := rng.Intn(len(paths))
+			if paths[i] == "" {
+				v.openDemo()
+			} else {
+				v.openFile(paths[i])
+			}
+		}},
+		{"line entry", func() {
+			texts := []string{"abc", "", "-5", "99999999", "3", "100", strconv.Itoa(rng.Intn(300))}
+			s := texts[rng.Intn(len(texts))]
+			v.ui.lineEntry.SetText(s)
+			v.ui.lineEntry.OnSubmitted(s)
+		}},
+		{"slider", func() {
+			sl := v.ui.lineSlider
+			f := sl.Min + rng.Float64()*(sl.Max-sl.Min)
+			sl.SetValue(f)
+			sl.OnChangeEnded(f)
+		}},
+		{"parameter", func() {
+			for name, e := range v.ui.paramEntries {
+				texts := []string{"x", "-1e9", "1e9", "0", "10", "25", "", "NaN"}
+				s := texts[rng.Intn(len(texts))]
+				e.SetText(s)
+				e.OnSubmitted(s)
+				_ = name
+				break
+			}
+		}},
+		{"conditioning", func() {
+			texts := []string{"", "off", "5", "80", "-3", "abc", "1e6", "200"}
+			for _, e := range v.ui.condEntries {
+				e.SetText(texts[rng.Intn(len(texts))])
+			}
+			v.applyConditioning()
+		}},
+		{"offset", func() {
+			if o := v.ui.offsetPick.Options; len(o) > 0 && !v.ui.offsetRow.Hidden {
+				v.ui.offsetPick.SetSelected(o[rng.Intn(len(o))])
+			}
+		}},
+		{"stretch", func() {
+			f := minExaggeration + rng.Float64()*(maxExaggeration-minExaggeration)
+			if !v.ui.stretchSlider.Disabled() {
+				v.ui.stretchSlider.SetValue(f)
+				v.ui.stretchSlider.OnChangeEnded(f)
+			}
+		}},
+		{"resize", func() {
+			v.win.Resize(fyne.NewSize(float32(600+rng.Intn(900)), float32(420+rng.Intn(600))))
+		}},
+		{"history", func() { v.goHistory(rng.Intn(3) - 1) }},
+		{"figure data", func() {
+			if f, err := v.figureFor("t", 400, 300); err == nil {
+				if _, err := f.Draw(); err != nil {
+					fail("figure of the shown view: %v", err)
+				}
+			}
+		}},
+	}
+	for step := 0; step < steps; step++ {
+		act := actions[rng.Intn(len(actions))]
+		log = append(log, act.name)
+		func() {
+			defer func() {
+				if r := recover(); r != nil {
+					fail("panic in %s: %v", act.name, r)
+				}
+			}()
+			act.do()
+			switch r := rng.Intn(10); {
+			case r < 5:
+				v.jobs.wait()
+				checkConsistent(t, v, fail)
+			case r < 8:
+				v.jobs.drain()
+			}
+		}()
+	}
+	v.jobs.wait()
+	checkConsistent(t, v, fail)
+}
+
+// checkConsistent checks, once every job has finished, that what the
+// window shows agrees with itself: the state asks for the shown data (or an
+// error says why not), the pick lies inside them, the navigation bar and
+// title name the state's view, the legends match the shown layers.
+func checkConsistent(t *testing.T, v *viewer, fail func(string, ...any)) {
+	t.Helper()
+	if v.vol == nil || v.info.Traces == 0 {
+		return
+	}
+	d := v.data
+	if d.amp == nil {
+		if v.ui.section.message == "" {
+			fail("no data shown and no message (status %q, work hidden %v, survey %s)", v.ui.message.Text, v.ui.work.box.Hidden, v.vol.Name())
+		}
+		return
+	}
+	if !d.complete() {
+		fail("shown data incomplete: plan %+v, over %v", d.plan, d.over != nil)
+	}
+	req := dataRequestFor(&v.state)
+	if !req.satisfied(d) && v.ui.section.message == "" && v.ui.message.Text == "" {
+		fail("state asks for %s / %s, data hold %s / %s, and nothing says why", req.baseKey, req.overKey, d.baseKey, d.overKey)
+	}
+	n, m := v.dims()
+	limit := n
+	if d.amp.Slice.Orientation == volume.TimeSlice {
+		limit = n * m
+	}
+	if v.state.PickTrace < -1 || v.state.PickTrace >= limit {
+		fail("pick %d outside the %d x %d data", v.state.PickTrace, n, m)
+	}
+	if req.satisfied(d) {
+		if !strings.HasPrefix(v.ui.title.Text, v.state.title(v.info)) {
+			fail("title %q for %s", v.ui.title.Text, v.state.title(v.info))
+		}
+		if v.state.Orientation != volume.TimeSlice && v.ui.lineEntry.Text != strconv.Itoa(v.state.number()) {
+			fail("line entry %q for line %d", v.ui.lineEntry.Text, v.state.number())
+		}
+		if v.sectionDrawn > 0 {
+			want := 1
+			if d.plan.Overlay != nil {
+				want = 2
+			}
+			if got := v.ui.legends.shown(); got != want {
+				fail("legends show %d layers, the data have %d", got, want)
+			}
+		}
+	}
+	vp := v.state.viewport(n, m)
+	for _, x := range []float64{vp.Trace0, vp.Trace1, vp.Sample0, vp.Sample1} {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			fail("viewport %+v", vp)
+		}
+	}
+}
