@@ -420,3 +420,22 @@ func removeStale(dir string) {
 		}
 	}
 }
+
+// Scratch opens a read-write scratch file in the system's temporary folder
+// that no kill can leave behind: on Linux an unnamed file (O_TMPFILE), on
+// other Unix systems a named one unlinked at once; where neither works
+// (Windows) a named file that the caller removes. Name() is then the path;
+// for an unnamed file it names no directory entry and removing it does
+// nothing. For caches the program writes and reads itself, never outputs.
+func Scratch(pattern string) (*os.File, error) {
+	dir := os.TempDir()
+	if fh, err := openUnnamed(dir); err == nil {
+		return fh, nil
+	}
+	fh, err := os.CreateTemp(dir, pattern)
+	if err != nil {
+		return nil, err
+	}
+	unlinkOpen(fh)
+	return fh, nil
+}
