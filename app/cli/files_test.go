@@ -258,3 +258,31 @@ func waitOpened(pid int, path string, limit time.Duration) bool {
 	}
 	return false
 }
+
+// TestExportFullDisk: a three-attribute export to a filesystem that fills
+// up leaves nothing there and says which output failed (issue 18: a full
+// disk on the tenth output left nine finished files). The filesystem is a
+// 1 MiB tmpfs, so the test needs root; otherwise it is skipped.
+func TestExportFullDisk(t *testing.T) {
+	if os.Geteuid() != 0 {
+		t.Skip("needs root to mount a tiny tmpfs")
+	}
+	dir := t.TempDir()
+	in := filepath.Join(dir, "survey.sgy")
+	apptest.WriteVolume(t, in, apptest.VolumeSpec{Inlines: [2]int{1, 10}, Crosslines: [2]int{1, 30}, Samples: 400, IntervalUS: 2000}) // 0.55 MB an output
+	full := filepath.Join(dir, "full")
+	os.Mkdir(full, 0o755)
+	if err := unix.Mount("tmpfs", full, "tmpfs", 0, "size=1m"); err != nil {
+		t.Skipf("root but cannot mount tmpfs: %v", err)
+	}
+	defer unix.Unmount(full, 0)
+	var stdout, stderr bytes.Buffer
+	code := Export([]string{in, "--attribute", "envelope,instantaneous-phase,cosine-phase", "--out", filepath.Join(full, "out"), "--quiet"}, &stdout, &stderr)
+	if code != exitFailed || !strings.Contains(stderr.String(), "no space left on device") {
+		t.Fatalf("exit %d, stderr %q", code, stderr.String())
+	}
+	if es, _ := os.ReadDir(full); len(es) != 0 {
+		t.Errorf("the full filesystem holds %v", es)
+	}
+	t.Logf("stderr: %s", strings.TrimSpace(stderr.String()))
+}
