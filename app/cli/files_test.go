@@ -3,6 +3,7 @@ package cli
 import (
 	"bytes"
 	"errors"
+	"math"
 	"math/rand/v2"
 	"os"
 	"os/exec"
@@ -285,4 +286,46 @@ func TestExportFullDisk(t *testing.T) {
 		t.Errorf("the full filesystem holds %v", es)
 	}
 	t.Logf("stderr: %s", strings.TrimSpace(stderr.String()))
+}
+
+// TestFigureTinyValues: a survey whose amplitudes are denormal (about
+// 1e-40) draws as amplitude and as envelope, with wiggles and an overlay
+// (issue 18: values below about 7.5e-37 panicked in render's colour scale,
+// and the window crashed opening such a file); a constant survey draws too.
+func TestFigureTinyValues(t *testing.T) {
+	dir := t.TempDir()
+	for name, value := range map[string]func(il, xl, k int) float64{
+		"denormal": func(il, xl, k int) float64 { return 1e-40 * math.Sin(float64(k)*0.3+float64(xl)) },
+		"constant": func(il, xl, k int) float64 { return 3 },
+	} {
+		s := segytest.File{Format: 5, Samples: 64, Interval: 4000, TraceSamples: segytest.SameAsBinary, TraceInterval: segytest.SameAsBinary}
+		for il := 1; il <= 3; il++ {
+			for xl := 1; xl <= 20; xl++ {
+				tr := segytest.Trace{Inline: il, Crossline: xl}
+				for k := 0; k < 64; k++ {
+					tr.Values = append(tr.Values, value(il, xl, k))
+				}
+				s.Traces = append(s.Traces, tr)
+			}
+		}
+		in := filepath.Join(dir, name+".sgy")
+		if err := os.WriteFile(in, s.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		for _, args := range [][]string{
+			{"--attribute", "amplitude", "--wiggle"},
+			{"--attribute", "envelope", "--overlay", "instantaneous-phase"},
+			{"--time", "100", "--attribute", "sweetness"},
+		} {
+			out := filepath.Join(dir, name+".png")
+			var stdout, stderr bytes.Buffer
+			full := append([]string{in, "--out", out, "--size", "800x500"}, args...)
+			if !slices.Contains(args, "--time") {
+				full = append(full, "--inline", "2")
+			}
+			if code := Figure(full, &stdout, &stderr); code != exitOK {
+				t.Errorf("%s %v: exit %d %q", name, args, code, stderr.String())
+			}
+		}
+	}
 }
