@@ -12,8 +12,6 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
-
-	"golang.org/x/sys/unix"
 )
 
 // NoTrace in Expect.Trace: the error is about no one trace.
@@ -73,7 +71,7 @@ func (c Case) Create(dir string) (string, error) {
 		return p, os.Mkdir(p, 0o755)
 	}
 	if c.FIFO {
-		return p, unix.Mkfifo(p, 0o644)
+		return p, mkfifo(p)
 	}
 	return p, os.WriteFile(p, c.Bytes, 0o644)
 }
@@ -130,7 +128,7 @@ func Malformed() []Case {
 		random[i] = byte(rng.Uint32())
 	}
 	be := binary.BigEndian
-	return []Case{
+	return append([]Case{
 		// Cut short.
 		{Name: "empty file", Bytes: []byte{},
 			Expect: fails("file is 0 bytes: truncated inside the 3200-byte textual header", NoTrace, 0)},
@@ -300,9 +298,7 @@ func Malformed() []Case {
 			Expect: fails("unknown sample format", NoTrace, 3225)},
 		{Name: "a directory", Dir: true,
 			Expect: fails("is a directory", NoTrace, 0)},
-		{Name: "a FIFO", FIFO: true,
-			Expect: fails("is a FIFO (named pipe), not a SEG-Y file", NoTrace, 0)},
-	}
+	}, fifoCases()...)
 }
 
 // noisePNG is a real PNG (image/png) of 64 x 64 pixels of seeded noise,
