@@ -156,7 +156,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	for _, r := range runs {
 		longest = max(longest, r.Count)
 	}
-	traceBytes := segy.TraceHeaderSize + info.Samples*segy.FormatSize(info.Format)
+	traceBytes := segy.TraceHeaderSize*(1+info.ExtraTraceHeaders) + info.Samples*segy.FormatSize(info.Format)
 	if window := min(readWindow, longest*traceBytes); win != nil && window >= 2*traceBytes {
 		win.enable(window)
 	}
