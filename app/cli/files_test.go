@@ -1,3 +1,8 @@
+//go:build unix
+
+// Unix only: these tests make FIFOs (mkfifo) and send POSIX signals, which
+// Windows lacks.
+
 package cli
 
 import (
