@@ -3,6 +3,7 @@ package app
 import (
 	"bytes"
 	"runtime"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -61,7 +62,20 @@ func TestNoDisplayOneLine(t *testing.T) {
 	if !ok {
 		t.Fatalf("the message names no commands: %q", noDisplayMessage)
 	}
-	for _, word := range strings.Split(list, ", ") {
+	named := strings.Split(list, ", ")
+	// Every command of the usage text is named, so the line stays true
+	// when a command is added.
+	for _, line := range strings.Split(usage, "\n") {
+		word, ok := strings.CutPrefix(line, "  quadtrace ")
+		if !ok {
+			continue
+		}
+		word, _, _ = strings.Cut(word, " ")
+		if word != "" && strings.Trim(word, "abcdefghijklmnopqrstuvwxyz") == "" && !slices.Contains(named, word) {
+			t.Errorf("command %q of the usage is not named in the no-display line", word)
+		}
+	}
+	for _, word := range named {
 		var out, errb bytes.Buffer
 		Main([]string{word, "--help"}, &out, &errb)
 		if strings.Contains(errb.String(), "unknown call") || strings.Contains(errb.String(), "display") {

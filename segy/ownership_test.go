@@ -1,3 +1,8 @@
+//go:build unix
+
+// Unix only: these tests make FIFOs and device nodes (mkfifo, mknod) and
+// set the umask, which Windows lacks.
+
 package segy
 
 import (

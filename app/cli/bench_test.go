@@ -1,5 +1,8 @@
 //go:build linux
 
+// Linux only: the peak-memory benchmark reads ru_maxrss (getrusage(2), in
+// KiB on Linux), a field Windows lacks.
+
 package cli
 
 import (

@@ -1,5 +1,8 @@
 //go:build linux
 
+// Linux only: these tests make FIFOs (mkfifo), send POSIX signals and read
+// /proc/PID/fd, which other systems lack.
+
 package cli
 
 import (
