@@ -114,6 +114,7 @@ type viewer struct {
 	lastSection   *image.RGBA
 	sectionDrawn  int // renders shown so far
 	traceDrawn    int // trace panels shown so far
+	lastTrace     tracePicture
 	snapshotTaken bool
 
 	ui *widgets
