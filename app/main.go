@@ -36,6 +36,13 @@ usage:
                                  write a report figure without a window
   quadtrace synth OUT.sgy [options]
                                  write the demo survey as SEG-Y
+  quadtrace track FILE --seed IL,XL,MS [--seed ...] [--event peak]
+                 [--window MS] [--max-phase-jump DEG] [--min-correlation X]
+                 --out HORIZON.txt
+                                 track a horizon from seed points
+  quadtrace map FILE --horizon HORIZON.txt --attribute ID [--window A:B]
+                 [--stat rms] --out MAP.png|MAP.txt
+                                 map an attribute along a horizon
   quadtrace version              print the version
 
 Run 'quadtrace COMMAND --help' for a command's options.
@@ -67,6 +74,10 @@ func Main(args []string, stdout, stderr io.Writer) int {
 		return cli.Figure(args[1:], stdout, stderr)
 	case "synth":
 		return cli.Synth(args[1:], stdout, stderr)
+	case "track":
+		return cli.Track(args[1:], stdout, stderr)
+	case "map":
+		return cli.Map(args[1:], stdout, stderr)
 	case "--snapshot":
 		if len(args) < 2 || len(args) > 3 {
 			fmt.Fprint(stderr, "quadtrace: --snapshot takes OUT.png and an optional FILE\n")
@@ -86,6 +97,9 @@ func Main(args []string, stdout, stderr io.Writer) int {
 }
 
 func runViewer(opt viewer.Options, stderr io.Writer) int {
+	if code, missing := reportNoDisplay(stderr); missing {
+		return code
+	}
 	if err := viewer.Run(opt); err != nil {
 		fmt.Fprintln(stderr, "quadtrace:", err)
 		return 1

@@ -61,35 +61,106 @@ func (e EndTreatment) transformLength(n int) (int, error) {
 	return 0, fmt.Errorf("end treatment: unknown pad mode %q (want none, fast or double)", e.Pad)
 }
 
-// analytic holds one worker's FFT plan and work buffers for the analytic
-// trace z = x + i h of traces of one length, and the time derivatives
-// computed in the frequency domain. Build it with setup, then per trace call
-// load and the transforms needed.
-type analytic struct {
-	n, m int
+// analyticTrace holds one trace's analytic signal z = x + i h and the time
+// derivatives x', h' (per second) when they were asked for.
+type analyticTrace struct {
+	n    int
 	dt   float64
-	end  EndTreatment
-
-	taper []float64
-	fft   realFFT
-	seq   []float64    // m
-	spec  []complex128 // m/2+1: spectrum of the loaded trace
-	work  []complex128 // m/2+1: filtered spectrum
-
-	x, h   []float64 // trace (gaps zeroed, tapered) and its Hilbert transform
-	dx, dh []float64 // first time derivatives of x and h (per second)
-
-	// hb, dxb, dhb are the m-long transform outputs that h, dx and dh are
-	// the first n samples of, so the inverse FFTs write them in place.
-	hb, dxb, dhb []float64
-	gap          []bool // gap[j]: sample j was NaN or Inf
-	gaps         int    // number of gap samples in the loaded trace
+	x, h []float64 // trace (gaps zeroed, tapered) and its Hilbert transform
+	// dx, dh are the first time derivatives of x and h.
+	dx, dh []float64
+	gap    []bool // gap[j]: sample j was NaN or Inf
+	gaps   int    // number of gap samples in the loaded trace
 }
 
-// setup readies p for traces of n samples at interval dt. It keeps the plan
-// when nothing changed.
-func (p *analytic) setup(n int, dt float64, end EndTreatment) error {
-	if p.fft != nil && p.n == n && p.dt == dt && p.end == end {
+// resize readies t for traces of n samples at interval dt.
+func (t *analyticTrace) resize(n int, dt float64) {
+	t.n, t.dt = n, dt
+	if len(t.x) != n {
+		t.x, t.h, t.dx, t.dh = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+		t.gap = make([]bool, n)
+	}
+}
+
+// load copies a trace into t.x (gaps set to zero and flagged, taper
+// applied).
+func (t *analyticTrace) load(tr []float32, taper []float64) {
+	t.gaps = 0
+	x := t.x[:len(tr)]
+	for j, v := range tr {
+		f := float64(v)
+		// NaN fails every comparison; ±Inf exceeds the largest float32.
+		if !(f >= -math.MaxFloat32 && f <= math.MaxFloat32) {
+			t.gap[j] = true
+			t.gaps++
+			f = 0
+		} else {
+			t.gap[j] = false
+		}
+		x[j] = f
+	}
+	for j, w := range taper {
+		x[j] *= w
+		x[len(x)-1-j] *= w
+	}
+}
+
+// spectralOp is a real linear time-invariant operator given by its
+// frequency response at bins k = 0..m/2 (the positive frequencies; the
+// negative frequency -k takes the conjugate response, so real signals stay
+// real): g[k] when the response is real (zero phase: filters, |ω|, -ω²),
+// i·g[k] when it is imaginary (Hilbert transform, iω, integration). Every
+// operator quadtrace needs is one of the two, which keeps the per-bin work
+// at two multiplications. g[0] and (m even) g[m/2] must be 0 for an
+// imaginary response. The 1/m of the inverse transform is folded into g.
+type spectralOp struct {
+	g         []float64
+	imaginary bool
+}
+
+// analyticPair computes analytic traces two at a time: the real traces a
+// and b are transformed together as a + ib with one complex FFT of length m
+// (the padded length), and every real operator (Hilbert transform, time
+// derivatives, filters) is applied to both at once: op(a) + i op(b) is the
+// inverse transform of the operator's response times the spectrum of
+// a + ib. A trace pair thus takes one forward and, for z and z', three
+// inverse complex transforms: per trace half a forward transform and one
+// and a half inverse ones (Press et al., Numerical Recipes, 3rd ed.,
+// section 12.3.1, "transforms of two real functions simultaneously").
+// A lone trace (b nil) takes the same path with b = 0.
+type analyticPair struct {
+	n, m  int
+	dt    float64
+	end   EndTreatment
+	taper []float64
+	plan  *fftPlan // shared by all workers
+	work  *fftWork
+	spec  []complex128 // m: spectrum of a + ib (unnormalised)
+	z     []complex128 // m: inverse-transform buffer
+
+	// Operators, built once per setup: the Hilbert transform -i sgn(ω)
+	// with zero at DC and Nyquist (Marple 1999), the derivatives iω of x
+	// and |ω| of h (the Nyquist bin of an even length has no defined
+	// derivative and is dropped), and the second derivatives -ω² and
+	// iω|ω|.
+	hilbert, dx, dh, ddx, ddh spectralOp
+}
+
+// analyticPlan returns the transform plan for traces of n samples with the
+// given end treatment, to be shared by every worker.
+func analyticPlan(n int, end EndTreatment) (*fftPlan, error) {
+	m, err := end.transformLength(max(n, 1))
+	if err != nil {
+		return nil, err
+	}
+	return newFFTPlan(m), nil
+}
+
+// setup readies p for traces of n samples at interval dt, with plan (may
+// be nil: one is made) for the padded length. It keeps its state when
+// nothing changed.
+func (p *analyticPair) setup(n int, dt float64, end EndTreatment, plan *fftPlan) error {
+	if p.plan != nil && p.n == n && p.dt == dt && p.end == end {
 		return nil
 	}
 	m, err := end.transformLength(n)
@@ -99,17 +170,12 @@ func (p *analytic) setup(n int, dt float64, end EndTreatment) error {
 	if end.TaperMS < 0 || math.IsNaN(end.TaperMS) {
 		return fmt.Errorf("end treatment: taper %v ms is negative", end.TaperMS)
 	}
-	p.n, p.m, p.dt, p.end = n, m, dt, end
-	if p.fft == nil || p.fft.Len() != m {
-		p.fft = newRealFFT(m)
+	if plan == nil || plan.n != m {
+		plan = newFFTPlan(m)
 	}
-	p.seq = make([]float64, m)
-	p.spec = make([]complex128, m/2+1)
-	p.work = make([]complex128, m/2+1)
-	p.x = make([]float64, n)
-	p.hb, p.dxb, p.dhb = make([]float64, m), make([]float64, m), make([]float64, m)
-	p.h, p.dx, p.dh = p.hb[:n], p.dxb[:n], p.dhb[:n]
-	p.gap = make([]bool, n)
+	p.n, p.m, p.dt, p.end, p.plan = n, m, dt, end, plan
+	p.work = plan.newWork()
+	p.spec, p.z = make([]complex128, m), make([]complex128, m)
 	L := int(math.Round(end.TaperMS / 1000 / dt))
 	if L > n/2 {
 		L = n / 2
@@ -119,114 +185,109 @@ func (p *analytic) setup(n int, dt float64, end EndTreatment) error {
 		s := math.Sin(math.Pi * (float64(j) + 0.5) / float64(2*L))
 		p.taper[j] = s * s
 	}
+	p.hilbert = p.makeOp(true, func(om float64) float64 { return -1 })
+	p.dx = p.makeOp(true, func(om float64) float64 { return om })
+	p.dh = p.makeOp(false, func(om float64) float64 { return om })
+	p.ddx = p.makeOp(false, func(om float64) float64 { return -om * om })
+	p.ddh = p.makeOp(true, func(om float64) float64 { return om * om })
 	return nil
 }
 
-// load copies a trace into p.x (gaps set to zero and flagged, taper
-// applied) and computes its spectrum, divided by m so that inverse
-// transforms come out normalised.
-func (p *analytic) load(tr []float32) {
-	p.gaps = 0
-	for j, v := range tr {
-		f := float64(v)
-		// NaN fails every comparison; ±Inf exceeds the largest float32.
-		if !(f >= -math.MaxFloat32 && f <= math.MaxFloat32) {
-			p.gap[j] = true
-			p.gaps++
-			f = 0
-		} else {
-			p.gap[j] = false
+// makeOp builds the spectralOp with response resp(ω) (times i when
+// imaginary) at the positive angular frequencies ω of bins 1..(m-1)/2,
+// zero at DC and Nyquist.
+func (p *analyticPair) makeOp(imaginary bool, resp func(om float64) float64) spectralOp {
+	op := spectralOp{g: make([]float64, p.m/2+1), imaginary: imaginary}
+	dw := 2 * math.Pi / (float64(p.m) * p.dt)
+	for k := 1; k <= (p.m-1)/2; k++ {
+		op.g[k] = resp(dw*float64(k)) / float64(p.m)
+	}
+	return op
+}
+
+// forward transforms the loaded traces a and b (b may be nil) together.
+func (p *analyticPair) forward(a, b *analyticTrace) {
+	z := p.spec
+	if b == nil {
+		for j, v := range a.x[:p.n] {
+			z[j] = complex(v, 0)
 		}
-		p.x[j] = f
+	} else {
+		bx := b.x[:p.n]
+		for j, v := range a.x[:p.n] {
+			z[j] = complex(v, bx[j])
+		}
 	}
-	for j, w := range p.taper {
-		p.x[j] *= w
-		p.x[p.n-1-j] *= w
+	clear(z[p.n:])
+	p.plan.transform(z, z, p.work)
+}
+
+// apply stores op(a) in ra and op(b) in rb (nil for a lone trace), each the
+// first n samples of the inverse transform.
+func (p *analyticPair) apply(op spectralOp, ra, rb []float64) {
+	m, s, z := p.m, p.spec, p.z
+	// z = conj(op·spec), so that a forward transform and a final conjugate
+	// make the inverse: ifft(Y) = conj(fft(conj(Y))). At bin k, with
+	// u = spec_k: real g: conj(g u) = g conj(u); imaginary: conj(i g u) =
+	// g (-imag u - i real u). At bin m-k (response conjugated), with
+	// v = spec_{m-k}: real: g conj(v); imaginary: conj(-i g v) =
+	// g (imag v + i real v).
+	pos := (m - 1) / 2
+	g := op.g[:pos+1]
+	if op.imaginary {
+		z[0] = 0
+		for k := 1; k <= pos; k++ {
+			c, u, v := g[k], s[k], s[m-k]
+			z[k] = complex(-c*imag(u), -c*real(u))
+			z[m-k] = complex(c*imag(v), c*real(v))
+		}
+		if m%2 == 0 {
+			z[m/2] = 0
+		}
+	} else {
+		z[0] = complex(g[0]*real(s[0]), -g[0]*imag(s[0]))
+		for k := 1; k <= pos; k++ {
+			c, u, v := g[k], s[k], s[m-k]
+			z[k] = complex(c*real(u), -c*imag(u))
+			z[m-k] = complex(c*real(v), -c*imag(v))
+		}
+		if m%2 == 0 {
+			v, c := s[m/2], op.g[m/2]
+			z[m/2] = complex(c*real(v), -c*imag(v))
+		}
 	}
-	copy(p.seq, p.x)
-	clear(p.seq[p.n:])
-	p.fft.Coefficients(p.spec, p.seq)
-	s := complex(1/float64(p.m), 0)
-	for k := range p.spec {
-		p.spec[k] *= s
+	p.plan.transform(z, z, p.work)
+	if rb == nil {
+		for j, v := range z[:len(ra)] {
+			ra[j] = real(v)
+		}
+		return
+	}
+	rb = rb[:len(ra)]
+	for j, v := range z[:len(ra)] {
+		ra[j], rb[j] = real(v), -imag(v)
 	}
 }
 
-// inverse transforms p.work back to the time domain and stores the first n
-// samples in dst.
-func (p *analytic) inverse(dst []float64) {
-	p.fft.Sequence(p.seq, p.work)
-	copy(dst, p.seq[:len(dst)])
-}
-
-// nyquist reports whether the last spectrum bin is the Nyquist bin (m even).
-func (p *analytic) nyquist() bool { return p.m%2 == 0 }
-
-// quadrature computes p.h, the imaginary part of Marple's discrete analytic
-// signal of the (padded) trace: spectrum multiplied by -i for positive
-// frequencies, zero at DC and Nyquist.
-func (p *analytic) quadrature() {
-	w := p.work
-	w[0] = 0
-	for k := 1; k < len(w); k++ {
-		c := p.spec[k]
-		w[k] = complex(imag(c), -real(c))
+// analyze loads traces ta and tb (tb may be nil) into a and b and computes
+// their Hilbert transforms, and with deriv their time derivatives.
+func (p *analyticPair) analyze(a, b *analyticTrace, ta, tb []float32, deriv bool) {
+	a.resize(p.n, p.dt)
+	a.load(ta, p.taper)
+	var bh, bdx, bdh []float64
+	if tb != nil {
+		b.resize(p.n, p.dt)
+		b.load(tb, p.taper)
+		bh, bdx, bdh = b.h, b.dx, b.dh
+	} else {
+		b = nil
 	}
-	if p.nyquist() {
-		w[len(w)-1] = 0
+	p.forward(a, b)
+	p.apply(p.hilbert, a.h, bh)
+	if deriv {
+		p.apply(p.dx, a.dx, bdx)
+		p.apply(p.dh, a.dh, bdh)
 	}
-	p.fft.Sequence(p.hb, w)
-}
-
-// derivatives computes p.dx and p.dh, the time derivatives of x and h,
-// by multiplying the spectrum by iω (x) and |ω| (h); the Nyquist bin of an
-// even length has no defined derivative and is dropped. Together they are
-// the derivative of the analytic signal, z' = ifft(iω Z).
-func (p *analytic) derivatives() {
-	w, dw, last := p.derivativeBins()
-	for k := 1; k < last; k++ {
-		c := p.spec[k]
-		om := dw * float64(k)
-		w[k] = complex(-om*imag(c), om*real(c))
-	}
-	p.fft.Sequence(p.dxb, w)
-	for k := 1; k < last; k++ {
-		w[k] = p.spec[k] * complex(dw*float64(k), 0)
-	}
-	p.fft.Sequence(p.dhb, w)
-}
-
-// derivativeBins prepares the work spectrum for a time derivative: the
-// zero-frequency bin and, for an even length, the Nyquist bin (which has no
-// defined derivative) are zeroed. It returns the work spectrum, the angular
-// frequency step and the end of the bins left to fill (1 to last-1).
-func (p *analytic) derivativeBins() (w []complex128, dw float64, last int) {
-	w = p.work
-	dw = 2 * math.Pi / (float64(p.m) * p.dt)
-	last = len(w)
-	if p.nyquist() {
-		last--
-		w[last] = 0
-	}
-	w[0] = 0
-	return w, dw, last
-}
-
-// secondDerivatives stores x” and h” (spectrum times -ω² and iω²) in
-// ddx and ddh.
-func (p *analytic) secondDerivatives(ddx, ddh []float64) {
-	w, dw, last := p.derivativeBins()
-	for k := 1; k < last; k++ {
-		om := dw * float64(k)
-		w[k] = p.spec[k] * complex(-om*om, 0)
-	}
-	p.inverse(ddx)
-	for k := 1; k < last; k++ {
-		om := dw * float64(k)
-		c := p.spec[k]
-		w[k] = complex(-om*om*imag(c), om*om*real(c))
-	}
-	p.inverse(ddh)
 }
 
 // AnalyticTrace returns the analytic trace x + i h of one trace sampled at
@@ -240,18 +301,18 @@ func AnalyticTrace(trace []float32, dt float64, end EndTreatment) ([]complex128,
 	if len(trace) == 0 {
 		return out, nil
 	}
-	var p analytic
-	if err := p.setup(len(trace), dt, end); err != nil {
+	var p analyticPair
+	if err := p.setup(len(trace), dt, end, nil); err != nil {
 		return nil, fmt.Errorf("analytic trace: %w", err)
 	}
-	p.load(trace)
-	p.quadrature()
+	var a analyticTrace
+	p.analyze(&a, nil, trace, nil, false)
 	for j := range out {
-		if p.gap[j] {
+		if a.gap[j] {
 			out[j] = complex(math.NaN(), math.NaN())
 			continue
 		}
-		out[j] = complex(p.x[j], p.h[j])
+		out[j] = complex(a.x[j], a.h[j])
 	}
 	return out, nil
 }

@@ -8,7 +8,6 @@ import (
 	"math/rand/v2"
 	"path/filepath"
 
-	"gonum.org/v1/gonum/dsp/fourier"
 	"testing"
 )
 
@@ -219,7 +218,7 @@ func TestAgreesWithScipyOnRandomTraces(t *testing.T) {
 	}
 }
 
-// Source: scipy.signal.hilbert on traces of ../shared/segy-corpus files as
+// Source: scipy.signal.hilbert on traces of testdata/segy-corpus files as
 // read by segyio (Debian python3-segyio), without and with padding.
 func TestAgreesWithScipyOnCorpusTraces(t *testing.T) {
 	py := pythonWithScipy(t)
@@ -332,40 +331,6 @@ func TestAnalyticTraceRealPartAndLengths(t *testing.T) {
 	}
 	if _, err := AnalyticTrace(x, 0, EndTreatment{}); err == nil {
 		t.Error("zero sample interval accepted")
-	}
-}
-
-// Source: gonum's FFTPACK port (fourier.FFT) as the reference for the
-// power-of-two real FFT built on gonum's radix-2/4 routines: both
-// directions agree to 1e-12 relative, for radix-4 and radix-2 half lengths.
-func TestPow2FFTMatchesFFTPACK(t *testing.T) {
-	r := rand.New(rand.NewPCG(5, 5))
-	for _, n := range []int{8, 16, 32, 512, 1024, 2048, 4096} {
-		x := make([]float64, n)
-		for j := range x {
-			x[j] = r.NormFloat64()
-		}
-		want := fourier.NewFFT(n).Coefficients(nil, x)
-		f := newPow2FFT(n)
-		got := f.Coefficients(make([]complex128, n/2+1), x)
-		var d, m float64
-		for k := range want {
-			d = max(d, cmplx.Abs(got[k]-want[k]))
-			m = max(m, cmplx.Abs(want[k]))
-		}
-		if d > 1e-12*m {
-			t.Errorf("n=%d: coefficients differ by %.2g relative", n, d/m)
-		}
-		back := f.Sequence(make([]float64, n), got)
-		ref := fourier.NewFFT(n).Sequence(nil, want)
-		d, m = 0, 0
-		for j := range back {
-			d = max(d, math.Abs(back[j]-ref[j]))
-			m = max(m, math.Abs(ref[j]))
-		}
-		if d > 1e-12*m {
-			t.Errorf("n=%d: sequence differs by %.2g relative", n, d/m)
-		}
 	}
 }
 

@@ -5,29 +5,26 @@ import (
 	"math"
 )
 
-// traceWork is one worker's state for the analytic-trace attributes: the
-// FFT plan and analytic trace, plus reused scratch buffers.
+// traceWork is one trace's state for the analytic-trace attributes: its
+// analytic trace plus reused scratch buffers. Workers hold two, for the
+// two traces analyticPair transforms together.
 type traceWork struct {
-	analytic
+	analyticTrace
 	p   Params
-	eps float64 // stabilizer of a², see analytic.stabilizer
+	eps float64 // stabilizer of a², see analyticTrace.stabilizer
 
 	a, f, v  []float64 // envelope, instantaneous frequency, scratch
-	ddx, ddh []float64 // second derivatives (envelope-second-derivative only)
+	ddx, ddh []float64 // second derivatives (when asked for)
 	num, den []float64 // window sums (prefix sums, n+1 long)
 	mom      []float64
 }
 
-func (w *traceWork) prepare(n int, dt float64, end EndTreatment) error {
-	if err := w.setup(n, dt, end); err != nil {
-		return err
-	}
+func (w *traceWork) prepare(n int) {
 	if len(w.a) != n {
 		w.a, w.f, w.v = make([]float64, n), make([]float64, n), make([]float64, n)
-		w.ddx, w.ddh = nil, nil
+		w.ddx, w.ddh = make([]float64, n), make([]float64, n)
 		w.num, w.den, w.mom = make([]float64, n+1), make([]float64, n+1), make([]float64, n+1)
 	}
-	return nil
 }
 
 // endTreatment reads the pad and taper parameters (taper 0 when absent).
@@ -39,44 +36,90 @@ func endTreatment(p Params) EndTreatment {
 	return e
 }
 
-// analyticRun computes an attribute trace by trace: for each it loads the
-// trace, computes the quadrature (and x', h' when deriv is set), then calls
-// fill to write the output trace; gap samples are set to NaN afterwards.
-func analyticRun(ctx context.Context, in Section, p Params, progress func(done, total int), deriv bool, fill func(w *traceWork, out []float32)) (Section, error) {
+// What analyticRun computes before fill: the quadrature h always, and
+// x', h' (withDerivatives), x”, h” (withSecond), or op(x) into v
+// (withOp: an attribute that is a filter of the trace).
+type analyticNeeds struct {
+	derivatives, second bool
+	// op, when set, makes the operator from the pair's setup and its
+	// result goes into traceWork.v.
+	op func(p *analyticPair) spectralOp
+}
+
+// analyticRun computes an attribute trace by trace: it transforms the
+// traces two at a time (analyticPair) for the quadrature and what needs
+// asks for, then calls fill to write each output trace; gap samples are
+// set to NaN afterwards.
+func analyticRun(ctx context.Context, in Section, p Params, progress func(done, total int), needs analyticNeeds, fill func(w *traceWork, out []float32)) (Section, error) {
 	out := newLike(in)
 	n := in.Samples()
 	end := endTreatment(p)
-	if n == 0 {
-		_, err := end.transformLength(1)
+	plan, err := analyticPlan(n, end)
+	if err != nil || n == 0 {
 		return out, err
 	}
-	err := forEachTrace(ctx, len(in.Traces), func() *traceWork { return &traceWork{p: p} }, func(w *traceWork, i int) error {
-		if err := w.prepare(n, in.DT, end); err != nil {
+	type worker struct {
+		p    analyticPair
+		a, b traceWork
+		op   spectralOp
+	}
+	err = forEachPair(ctx, len(in.Traces), func() *worker { return &worker{a: traceWork{p: p}, b: traceWork{p: p}} }, func(w *worker, i int, pair bool) error {
+		if err := w.p.setup(n, in.DT, end, plan); err != nil {
 			return err
 		}
-		w.load(in.Traces[i])
-		w.quadrature()
-		if deriv {
-			w.derivatives()
+		if needs.op != nil && len(w.op.g) != w.p.m/2+1 {
+			w.op = needs.op(&w.p)
 		}
-		w.eps = w.stabilizer()
-		o := out.Traces[i]
-		fill(w, o)
-		w.markGaps(o)
+		var tb []float32
+		var b *traceWork
+		if pair {
+			tb, b = in.Traces[i+1], &w.b
+		}
+		w.p.analyze(&w.a.analyticTrace, &w.b.analyticTrace, in.Traces[i], tb, needs.derivatives)
+		w.a.prepare(n)
+		var bdd, bddh, bv []float64
+		if b != nil {
+			b.prepare(n)
+			bdd, bddh, bv = b.ddx, b.ddh, b.v
+		}
+		if needs.second {
+			w.p.apply(w.p.ddx, w.a.ddx, bdd)
+			w.p.apply(w.p.ddh, w.a.ddh, bddh)
+		}
+		if needs.op != nil {
+			w.p.apply(w.op, w.a.v, bv)
+		}
+		for k, t := range []*traceWork{&w.a, b} {
+			if t == nil {
+				break
+			}
+			t.eps = t.stabilizer()
+			o := out.Traces[i+k]
+			fill(t, o)
+			t.markGaps(o)
+		}
 		return nil
 	}, progress)
 	return out, err
 }
 
 // markGaps writes NaN into out wherever the loaded trace had a gap.
-func (p *analytic) markGaps(out []float32) {
-	if p.gaps == 0 {
+func (t *analyticTrace) markGaps(out []float32) {
+	if t.gaps == 0 {
 		return
 	}
-	for j, g := range p.gap {
+	for j, g := range t.gap {
 		if g {
 			out[j] = float32(math.NaN())
 		}
+	}
+}
+
+// traceAttribute makes a computeFunc from a whole-trace formula of x, h
+// and (when deriv is set) x', h'.
+func traceAttribute(deriv bool, fill func(w *traceWork, out []float32)) computeFunc {
+	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
+		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: deriv}, fill)
 	}
 }
 
@@ -84,7 +127,7 @@ func (p *analytic) markGaps(out []float32) {
 // (when deriv is set) x', h'.
 func sampleAttribute(deriv bool, at func(w *traceWork, j int) float64) computeFunc {
 	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-		return analyticRun(ctx, in, p, progress, deriv, func(w *traceWork, out []float32) {
+		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: deriv}, func(w *traceWork, out []float32) {
 			for j := range out {
 				out[j] = float32(at(w, j))
 			}
@@ -96,7 +139,16 @@ const twoPi = 2 * math.Pi
 
 func quadratureAt(w *traceWork, j int) float64 { return w.h[j] }
 
-func envelopeAt(w *traceWork, j int) float64 { return math.Hypot(w.x[j], w.h[j]) }
+// envelopeTrace writes the envelope sqrt(x² + h²) of a trace (one loop
+// with nothing called per sample: the export's hot path). x and h come from
+// float32 samples, so x² + h² can neither overflow nor lose precision to
+// underflow in float64, and math.Hypot's scaling is not needed.
+func envelopeTrace(w *traceWork, out []float32) {
+	x, h := w.x[:len(out)], w.h[:len(out)]
+	for j, xj := range x {
+		out[j] = float32(math.Sqrt(xj*xj + h[j]*h[j]))
+	}
+}
 
 // phaseAt is atan2(h, x) in degrees, -180..180.
 func phaseAt(w *traceWork, j int) float64 { return fastAtan2(w.h[j], w.x[j]) * (180 / math.Pi) }
@@ -138,11 +190,7 @@ func envelopeDerivativeAt(w *traceWork, j int) float64 {
 // a a” = x'² + h'² + x x” + h h” - a'², with x” and h” taken in the
 // frequency domain (spectrum times -ω²).
 func envelopeSecondDerivative(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-	return analyticRun(ctx, in, p, progress, true, func(w *traceWork, out []float32) {
-		if len(w.ddx) != w.n {
-			w.ddx, w.ddh = make([]float64, w.n), make([]float64, w.n)
-		}
-		w.secondDerivatives(w.ddx, w.ddh)
+	return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: true, second: true}, func(w *traceWork, out []float32) {
 		for j := range out {
 			x, h, dx, dh := w.x[j], w.h[j], w.dx[j], w.dh[j]
 			a := math.Sqrt(x*x + h*h + w.eps)

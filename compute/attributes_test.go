@@ -136,3 +136,41 @@ func TestRelativeImpedanceIsIntegral(t *testing.T) {
 		}
 	}
 }
+
+// Issue 13: the running integral of relative impedance wraps the trace's
+// end round onto its start when the padding leaves too little room (pad=
+// fast: a trace of 1024 samples gets none). A spike in the last samples of the trace
+// then shows at t = 0 as a large fraction of its own peak; with pad=double,
+// the default, the wrap falls on the padding. The threshold 1% is ours.
+func TestRelativeImpedanceDefaultPadDoesNotWrap(t *testing.T) {
+	const n, dt = 1024, 0.002
+	x := make([]float32, n)
+	x[n-3] = 1
+	a, err := Lookup("relative-impedance")
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := a.Resolve(nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := p.String("pad"); got != PadDouble {
+		t.Fatalf("default pad %q, want %q", got, PadDouble)
+	}
+	leak := func(raw map[string]string) float64 {
+		out := compute(t, "relative-impedance", raw, section1(x, dt)).Traces[0]
+		peak := 0.0
+		for _, v := range out {
+			peak = max(peak, math.Abs(float64(v)))
+		}
+		return math.Abs(float64(out[0])) / peak
+	}
+	if l := leak(nil); l > 0.01 {
+		t.Errorf("default pad: value at t=0 is %.3g of the peak, want below 0.01", l)
+	}
+	if l := leak(map[string]string{"pad": "fast"}); l < 0.05 {
+		t.Errorf("pad=fast: value at t=0 is only %.3g of the peak; the wrap this test guards against is not shown", l)
+	} else {
+		t.Logf("pad=fast: value at t=0 is %.3g of the peak (the wrap pad=double avoids)", l)
+	}
+}

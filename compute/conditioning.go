@@ -181,66 +181,53 @@ func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done,
 	}
 	bandpass := c.LowCutHz > 0 || c.HighCutHz > 0
 	half := windowHalf(c.AGCWindowMS, in.DT)
-	type work struct {
-		analytic
+	pad := EndTreatment{Pad: PadDouble}
+	var plan *fftPlan
+	if bandpass {
+		plan = newFFTPlan(NextPow2(2 * n))
+	}
+	type trace struct {
+		analyticTrace
 		sq, cnt, v, k []float64
 	}
-	err := forEachTrace(ctx, len(in.Traces), func() *work {
-		return &work{sq: make([]float64, n+1), cnt: make([]float64, n+1), v: make([]float64, n), k: make([]float64, n)}
-	}, func(w *work, i int) error {
-		tr := in.Traces[i]
-		o := out.Traces[i]
+	type work struct {
+		p    analyticPair
+		op   spectralOp
+		a, b trace
+	}
+	newTrace := func() trace {
+		return trace{sq: make([]float64, n+1), cnt: make([]float64, n+1), v: make([]float64, n), k: make([]float64, n)}
+	}
+	err := forEachPair(ctx, len(in.Traces), func() *work {
+		return &work{a: newTrace(), b: newTrace()}
+	}, func(w *work, i int, pair bool) error {
+		ts := []*trace{&w.a}
+		if pair {
+			ts = append(ts, &w.b)
+		}
 		if bandpass {
-			if err := w.setup(n, in.DT, EndTreatment{Pad: PadDouble}); err != nil {
+			// The two traces go through one complex transform (see
+			// analyticPair); the gain is real, so each comes back real.
+			if err := w.p.setup(n, in.DT, pad, plan); err != nil {
 				return err
 			}
-			w.load(tr)
-			df := 1 / (float64(w.m) * in.DT)
-			for k := range w.spec {
-				f := df * float64(k)
-				w.work[k] = w.spec[k] * complex(lowCutGain(f, c.LowCutHz)*highCutGain(f, c.HighCutHz), 0)
+			if w.op.g == nil {
+				w.op = c.bandpassOp(&w.p)
 			}
-			w.inverse(w.v)
-		} else {
-			for j, s := range tr {
-				w.v[j] = 0
-				if !isGap(s) {
-					w.v[j] = float64(s)
-				}
+			w.a.resize(n, in.DT)
+			w.a.load(in.Traces[i], nil)
+			var b *analyticTrace
+			var bv []float64
+			if pair {
+				w.b.resize(n, in.DT)
+				w.b.load(in.Traces[i+1], nil)
+				b, bv = &w.b.analyticTrace, w.b.v
 			}
+			w.p.forward(&w.a.analyticTrace, b)
+			w.p.apply(w.op, w.a.v, bv)
 		}
-		if c.AGCWindowMS > 0 {
-			total, count := 0.0, 0.0
-			for j, s := range tr {
-				w.k[j] = 0
-				if !isGap(s) {
-					w.k[j] = 1
-					total += w.v[j] * w.v[j]
-					count++
-				}
-			}
-			floor := 1e-7 * math.Sqrt(ratio(total, count))
-			sq := w.sq
-			sq[0] = 0
-			for j, v := range w.v {
-				sq[j+1] = sq[j] + v*v*w.k[j]
-			}
-			prefix(w.cnt, w.k)
-			for j, v := range w.v {
-				rms := math.Sqrt(ratio(windowSum(sq, j, half), windowSum(w.cnt, j, half)))
-				if rms > floor && rms > 0 {
-					w.v[j] = v / rms
-				} else {
-					w.v[j] = 0
-				}
-			}
-		}
-		for j, s := range tr {
-			if isGap(s) {
-				o[j] = float32(math.NaN())
-			} else {
-				o[j] = float32(w.v[j])
-			}
+		for k, t := range ts {
+			c.finish(t.v, t.sq, t.cnt, t.k, in.Traces[i+k], out.Traces[i+k], bandpass, half)
 		}
 		return nil
 	}, progress)
@@ -248,6 +235,65 @@ func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done,
 		return Section{}, fmt.Errorf("conditioning %q: %w", c.String(), err)
 	}
 	return out, nil
+}
+
+// bandpassOp is the band-pass gain as a spectralOp for p's padded length
+// (real, so zero phase; DC and Nyquist included).
+func (c Conditioning) bandpassOp(p *analyticPair) spectralOp {
+	op := spectralOp{g: make([]float64, p.m/2+1)}
+	df := 1 / (float64(p.m) * p.dt)
+	s := 1 / float64(p.m)
+	for k := range op.g {
+		f := df * float64(k)
+		op.g[k] = lowCutGain(f, c.LowCutHz) * highCutGain(f, c.HighCutHz) * s
+	}
+	return op
+}
+
+// finish applies the AGC (when on) to v, the band-passed trace (or tr
+// itself when filtered is false), and writes the result into o, gaps as
+// NaN. sq and cnt (n+1) and k (n) are scratch.
+func (c Conditioning) finish(v, sq, cnt, k []float64, tr, o []float32, filtered bool, half int) {
+	if !filtered {
+		for j, s := range tr {
+			v[j] = 0
+			if !isGap(s) {
+				v[j] = float64(s)
+			}
+		}
+	}
+	if c.AGCWindowMS > 0 {
+		total, count := 0.0, 0.0
+		for j, s := range tr {
+			k[j] = 0
+			if !isGap(s) {
+				k[j] = 1
+				total += v[j] * v[j]
+				count++
+			}
+		}
+		floor := 1e-7 * math.Sqrt(ratio(total, count))
+		sq[0] = 0
+		for j, x := range v {
+			sq[j+1] = sq[j] + x*x*k[j]
+		}
+		prefix(cnt, k)
+		for j, x := range v {
+			rms := math.Sqrt(ratio(windowSum(sq, j, half), windowSum(cnt, j, half)))
+			if rms > floor && rms > 0 {
+				v[j] = x / rms
+			} else {
+				v[j] = 0
+			}
+		}
+	}
+	for j, s := range tr {
+		if isGap(s) {
+			o[j] = float32(math.NaN())
+		} else {
+			o[j] = float32(v[j])
+		}
+	}
 }
 
 func runBandpass(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {

@@ -22,7 +22,13 @@
 //     data;
 //   - NaN and ±Inf samples are gaps: zero inside transforms, left out of
 //     window sums, NaN in the output at the same samples;
-//   - long jobs run on runtime.GOMAXPROCS workers, each with its own FFT
-//     plan and buffers, take a context.Context for cancellation and report
-//     progress as traces done.
+//   - the FFT is the package's own (fft.go, rfft.go; gonum's dsp/fourier
+//     and scipy.fft are the references its tests compare with): a plan per
+//     length, made once per job and shared by all workers, Stockham mixed
+//     radix for lengths of small factors and Bluestein's algorithm for the
+//     rest; analytic traces are computed two traces at a time, packed as
+//     a + ib into one complex transform (analyticPair);
+//   - long jobs run on runtime.GOMAXPROCS workers, each with its own work
+//     buffers, take a context.Context for cancellation and report progress
+//     as traces done.
 package compute

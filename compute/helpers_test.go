@@ -97,13 +97,16 @@ func pythonWithScipy(t *testing.T) string {
 	return ""
 }
 
-// corpusFile returns the path of a file of ../shared/segy-corpus (relative
-// to the project root). A missing file fails the test.
+// corpusFile returns the path of a file of the project's copy of the open
+// SEG-Y corpus, testdata/segy-corpus (its README.md names origin, licence
+// and check values). compute's tests do not import segy/segytest, so this
+// is the one copy of segytest.CorpusFile's lookup here. A missing file
+// fails the test.
 func corpusFile(t *testing.T, name string) string {
 	t.Helper()
-	p := filepath.Join("..", "..", "shared", "segy-corpus", name)
+	p := filepath.Join("..", "testdata", "segy-corpus", name)
 	if _, err := os.Stat(p); err != nil {
-		t.Fatalf("corpus file missing (the tests need ../shared/segy-corpus beside the project): %v", err)
+		t.Fatalf("corpus file missing (the project keeps it under testdata/segy-corpus): %v", err)
 	}
 	return p
 }

@@ -18,8 +18,10 @@ type InstantaneousSet struct {
 }
 
 // Instantaneous computes the InstantaneousSet of a section on all cores:
-// per trace one forward real FFT and three inverse real FFTs (for h, x' and
-// h'), with plans and buffers reused per worker. Cancellation and progress
+// traces go through the transform two at a time (see analyticPair: per
+// trace half a forward and one and a half inverse complex FFTs, for h, x'
+// and h'), with one FFT plan shared by all workers and buffers reused per
+// worker. Cancellation and progress
 // work as for Attribute.Compute.
 func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress func(done, total int)) (InstantaneousSet, error) {
 	var set InstantaneousSet
@@ -34,37 +36,26 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 	if n == 0 {
 		return set, nil
 	}
-	err := forEachTrace(ctx, len(in.Traces), func() *analytic { return new(analytic) }, func(p *analytic, i int) error {
-		if err := p.setup(n, in.DT, end); err != nil {
+	plan, err := analyticPlan(n, end)
+	if err != nil {
+		return InstantaneousSet{}, fmt.Errorf("instantaneous attributes: %w", err)
+	}
+	type worker struct {
+		p    analyticPair
+		a, b analyticTrace
+	}
+	err = forEachPair(ctx, len(in.Traces), func() *worker { return new(worker) }, func(w *worker, i int, pair bool) error {
+		if err := w.p.setup(n, in.DT, end, plan); err != nil {
 			return err
 		}
-		p.load(in.Traces[i])
-		p.quadrature()
-		p.derivatives()
-		a, ph, f, c := set.Envelope.Traces[i], set.Phase.Traces[i], set.Frequency.Traces[i], set.CosPhase.Traces[i]
-		eps := p.stabilizer()
-		const toDeg = 180 / math.Pi
-		const inv2pi = 1 / (2 * math.Pi)
-		x, h, dx, dh := p.x[:n], p.h[:n], p.dx[:n], p.dh[:n]
-		dx, dh = dx[:len(x)], dh[:len(x)]
-		a, ph, f, c = a[:len(x)], ph[:len(x)], f[:len(x)], c[:len(x)]
-		for j, xj := range x {
-			hj := h[j]
-			a2 := xj*xj + hj*hj
-			inv := 1 / (a2 + eps)
-			r := math.Sqrt(a2)
-			a[j] = float32(r)
-			ph[j] = float32(fastAtan2(hj, xj) * toDeg)
-			f[j] = float32((xj*dh[j] - hj*dx[j]) * inv2pi * inv)
-			c[j] = float32(cosPhase(xj, r, inv))
+		var tb []float32
+		if pair {
+			tb = in.Traces[i+1]
 		}
-		if p.gaps > 0 {
-			for j, g := range p.gap {
-				if g {
-					nan := float32(math.NaN())
-					a[j], ph[j], f[j], c[j] = nan, nan, nan, nan
-				}
-			}
+		w.p.analyze(&w.a, &w.b, in.Traces[i], tb, true)
+		set.fill(i, &w.a)
+		if pair {
+			set.fill(i+1, &w.b)
 		}
 		return nil
 	}, progress)
@@ -72,6 +63,36 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 		return InstantaneousSet{}, fmt.Errorf("instantaneous attributes: %w", err)
 	}
 	return set, nil
+}
+
+// fill writes trace i of the set from its analytic trace t.
+func (set *InstantaneousSet) fill(i int, t *analyticTrace) {
+	n := t.n
+	a, ph, f, c := set.Envelope.Traces[i], set.Phase.Traces[i], set.Frequency.Traces[i], set.CosPhase.Traces[i]
+	eps := t.stabilizer()
+	const toDeg = 180 / math.Pi
+	const inv2pi = 1 / (2 * math.Pi)
+	x, h, dx, dh := t.x[:n], t.h[:n], t.dx[:n], t.dh[:n]
+	dx, dh = dx[:len(x)], dh[:len(x)]
+	a, ph, f, c = a[:len(x)], ph[:len(x)], f[:len(x)], c[:len(x)]
+	for j, xj := range x {
+		hj := h[j]
+		a2 := xj*xj + hj*hj
+		inv := 1 / (a2 + eps)
+		r := math.Sqrt(a2)
+		a[j] = float32(r)
+		ph[j] = float32(fastAtan2(hj, xj) * toDeg)
+		f[j] = float32((xj*dh[j] - hj*dx[j]) * inv2pi * inv)
+		c[j] = float32(cosPhase(xj, r, inv))
+	}
+	if t.gaps > 0 {
+		for j, g := range t.gap {
+			if g {
+				nan := float32(math.NaN())
+				a[j], ph[j], f[j], c[j] = nan, nan, nan, nan
+			}
+		}
+	}
 }
 
 // cosPhase returns the cosine of the instantaneous phase as x·a/(a² + ε)
@@ -86,11 +107,12 @@ func cosPhase(x, a, inv float64) float64 {
 // 1e-8 of the trace's mean a², plus the smallest normal float64 so a dead
 // trace gives 0 rather than NaN. It changes values only where the envelope
 // is below about 1e-4 of its RMS, where those quotients are undefined.
-// p.x and p.h must be computed.
-func (p *analytic) stabilizer() float64 {
+// t.x and t.h must be computed.
+func (t *analyticTrace) stabilizer() float64 {
 	var s float64
-	for j := range p.n {
-		s += p.x[j]*p.x[j] + p.h[j]*p.h[j]
+	h := t.h[:len(t.x)]
+	for j, x := range t.x {
+		s += x*x + h[j]*h[j]
 	}
-	return 1e-8*s/float64(p.n) + 0x1p-1022
+	return 1e-8*s/float64(t.n) + 0x1p-1022
 }

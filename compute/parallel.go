@@ -85,3 +85,22 @@ func forEachTrace[W any](ctx context.Context, total int, newWorker func() W, job
 	report(total, true)
 	return nil
 }
+
+// forEachPair is forEachTrace over the traces taken two at a time: job(w,
+// i, pair) handles trace i and, when pair is set, trace i+1 (an odd total
+// leaves the last trace alone). progress counts traces, as forEachTrace's.
+func forEachPair[W any](ctx context.Context, total int, newWorker func() W, job func(w W, i int, pair bool) error, progress func(done, total int)) error {
+	var pp func(done, pairs int)
+	if progress != nil {
+		pp = func(done, _ int) { progress(min(2*done, total), total) }
+	}
+	if total == 0 {
+		if progress != nil {
+			progress(0, 0)
+		}
+		return ctx.Err()
+	}
+	return forEachTrace(ctx, (total+1)/2, newWorker, func(w W, k int) error {
+		return job(w, 2*k, 2*k+1 < total)
+	}, pp)
+}

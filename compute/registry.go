@@ -138,12 +138,35 @@ func (a *Attribute) Compute(ctx context.Context, in Section, p Params, progress 
 	if err != nil {
 		return Section{}, fmt.Errorf("attribute %q: %w", a.ID, err)
 	}
+	saturate(out)
 	return out, nil
 }
 
+// saturate replaces infinite output samples by the largest finite float32
+// of the same sign: values beyond float32 (a derivative of amplitudes near
+// 1e35, found by FuzzAttributes) are "very large", and an Inf would break
+// every range and colour computation downstream. NaN stays NaN (a gap).
+func saturate(s Section) {
+	for _, tr := range s.Traces {
+		for j, v := range tr {
+			if v > math.MaxFloat32 {
+				tr[j] = math.MaxFloat32
+			} else if v < -math.MaxFloat32 {
+				tr[j] = -math.MaxFloat32
+			}
+		}
+	}
+}
+
 // Parameter specs shared by several attributes.
-func padParam() ParamSpec {
-	return ParamSpec{Name: "pad", Default: PadFast, Choices: PadModes(),
+func padParam() ParamSpec { return padParamDefault(PadFast) }
+
+// padParamDefault is the pad parameter with another default: PadDouble for
+// relative impedance, whose running integral would otherwise wrap the
+// trace's end round onto its start (with pad=fast a spike in the last
+// samples shows as -12 % of its peak at t = 0).
+func padParamDefault(def string) ParamSpec {
+	return ParamSpec{Name: "pad", Default: def, Choices: PadModes(),
 		Description: "end treatment of the FFT: none = plain discrete analytic signal (Marple 1999); fast = zero-pad to the next power of two; double = zero-pad to a power of two at least twice the trace"}
 }
 
@@ -181,7 +204,7 @@ func registry() []*Attribute {
 			Params: analyticParams(), run: sampleAttribute(false, quadratureAt)},
 		{ID: "envelope", Name: "Envelope (reflection strength)", Unit: "amplitude", Kind: Magnitude, Group: GroupAmplitude,
 			Description: "modulus of the analytic trace", Source: srcTaner1979,
-			Params: analyticParams(), run: sampleAttribute(false, envelopeAt)},
+			Params: analyticParams(), run: traceAttribute(false, envelopeTrace)},
 		{ID: "envelope-derivative", Name: "Envelope first derivative", Unit: "amplitude/s", Kind: Signed, Group: GroupAmplitude,
 			Description: "time derivative of the envelope, (x x' + h h')/a", Source: srcTaner1979,
 			Params: analyticParams(), run: sampleAttribute(true, envelopeDerivativeAt)},
@@ -196,7 +219,7 @@ func registry() []*Attribute {
 			Params: []ParamSpec{windowParam("40")}, run: rmsAmplitude},
 		{ID: "relative-impedance", Name: "Relative acoustic impedance", Unit: "amplitude*s", Kind: Signed, Group: GroupAmplitude,
 			Description: "running integral of the trace, low-cut to remove drift", Source: srcTaner2001,
-			Params: []ParamSpec{padParam(), {Name: "low-cut", Unit: "Hz", Default: "6", Min: 0.1, Max: 10000,
+			Params: []ParamSpec{padParamDefault(PadDouble), {Name: "low-cut", Unit: "Hz", Default: "6", Min: 0.1, Max: 10000,
 				Description: "half-amplitude point of the one-octave cosine-squared low-cut ramp"}}, run: relativeImpedance},
 
 		// instantaneous
@@ -216,7 +239,7 @@ func registry() []*Attribute {
 			Description: "sqrt(f^2 + b^2) of instantaneous frequency f and bandwidth b", Source: srcBarnes1993,
 			Params: analyticParams(), run: sampleAttribute(true, dominantAt)},
 		{ID: "thin-bed", Name: "Thin-bed indicator", Unit: "Hz", Kind: Signed, Group: GroupInstantaneous,
-			Description: "instantaneous frequency minus its envelope-weighted average over a window", Source: srcTaner2001,
+			Description: "instantaneous frequency minus its average over a window weighted by envelope squared (Barnes 1993)", Source: srcTaner2001,
 			Params: analyticParams(windowParam("40")), run: windowedAttribute(thinBedAt)},
 
 		// response

@@ -42,7 +42,7 @@ func lobePolarity(ap, phi, _ float64) float64 {
 // 2 ms by 11 degrees.
 func lobeAttribute(value lobeValue) computeFunc {
 	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-		return analyticRun(ctx, in, p, progress, true, func(w *traceWork, out []float32) {
+		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: true}, func(w *traceWork, out []float32) {
 			n := w.n
 			a, f := w.a, w.f
 			for j := range n {

@@ -54,15 +54,26 @@ func SectionSpectrum(sec Section, t0, t1 float64) Spectrum {
 }
 
 // spectrumWork accumulates amplitude spectra of equal-length pieces.
+// Each piece is transformed at its own length (no padding) with a
+// realPlan.
 type spectrumWork struct {
-	analytic
+	n, m int // piece length and transform length (equal)
+	dt   float64
+	plan *realPlan
+	rw   *realWork
+	seq  []float64
+	spec []complex128
 	w    []float64 // taper weights, length n
 	wsum float64
 	sum  []float64 // summed amplitudes per bin
 }
 
 func (s *spectrumWork) setup(n int, dt, tukey float64) {
-	_ = s.analytic.setup(n, dt, EndTreatment{Pad: PadNone}) // PadNone cannot fail
+	s.n, s.m, s.dt = n, n, dt
+	s.plan = newRealPlan(n)
+	s.rw = s.plan.newWork()
+	s.seq = make([]float64, n)
+	s.spec = make([]complex128, n/2+1)
 	s.w = make([]float64, n)
 	s.sum = make([]float64, len(s.spec))
 	L := int(math.Round(tukey * float64(n)))
@@ -83,8 +94,7 @@ func (s *spectrumWork) add(tr []float32) {
 			s.seq[j] = float64(v) * s.w[j]
 		}
 	}
-	clear(s.seq[s.n:])
-	s.fft.Coefficients(s.spec, s.seq)
+	s.plan.forward(s.spec, s.seq, s.rw)
 	for k, c := range s.spec {
 		s.sum[k] += cmplx.Abs(c)
 	}
@@ -97,7 +107,7 @@ func (s *spectrumWork) result(count int) Spectrum {
 	peak := 0
 	for k, v := range s.sum {
 		scale := 2 / s.wsum
-		if k == 0 || (s.nyquist() && k == len(s.sum)-1) {
+		if k == 0 || (s.m%2 == 0 && k == len(s.sum)-1) {
 			scale = 1 / s.wsum
 		}
 		a := v * scale / float64(count)

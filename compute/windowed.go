@@ -11,7 +11,7 @@ import (
 func windowedAttribute(fill func(w *traceWork, half int, out []float32)) computeFunc {
 	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
 		half := windowHalf(p.Float("window"), in.DT)
-		return analyticRun(ctx, in, p, progress, true, func(w *traceWork, out []float32) {
+		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: true}, func(w *traceWork, out []float32) {
 			fill(w, half, out)
 		})
 	}
@@ -92,7 +92,9 @@ func weightedBandwidthAt(w *traceWork, half int, out []float32) {
 }
 
 // thinBedAt is the thin-bed indicator after Taner (2001): instantaneous
-// frequency minus the weighted average frequency over the window (from
+// frequency minus the weighted average frequency over the window, whose
+// weights are the envelope squared, a² (Barnes 1993, as
+// weightedFrequencyAt), not the envelope (from
 // memory: Taner takes the difference of the two; we keep its sign, so
 // interference spikes show up and down).
 func thinBedAt(w *traceWork, half int, out []float32) {
@@ -200,21 +202,12 @@ func rmsAmplitude(ctx context.Context, in Section, p Params, progress func(done,
 // Units are amplitude·s.
 func relativeImpedance(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
 	fc := p.Float("low-cut")
-	return analyticRun(ctx, in, p, progress, false, func(w *traceWork, out []float32) {
-		df := 1 / (float64(w.m) * w.dt)
-		last := len(w.work)
-		if w.nyquist() {
-			last--
-			w.work[last] = 0
-		}
-		w.work[0] = 0
-		for k := 1; k < last; k++ {
-			f := df * float64(k)
-			g := lowCutGain(f, fc) / (twoPi * f)
-			c := w.spec[k]
-			w.work[k] = complex(g*imag(c), -g*real(c)) // X g / i
-		}
-		w.inverse(w.v)
+	op := func(p *analyticPair) spectralOp {
+		return p.makeOp(true, func(om float64) float64 {
+			return -lowCutGain(om/twoPi, fc) / om // L(f)/(i2πf)
+		})
+	}
+	return analyticRun(ctx, in, p, progress, analyticNeeds{op: op}, func(w *traceWork, out []float32) {
 		for j := range out {
 			out[j] = float32(w.v[j])
 		}

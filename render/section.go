@@ -197,16 +197,25 @@ func newAxisMap(n int, c0, c1 float64, cells int) axisMap {
 type colourMap struct {
 	table  *[256]color.RGBA
 	lo     float32
-	scale  float32 // 256 / (hi - lo); 0 when hi == lo
+	scale  float32 // 256 / (hi - lo); 0 when hi == lo or not finite
 	offset float32 // lo * scale
+	// split is sqrt(256 / (hi - lo)) when the scale itself overflows
+	// float32 (a range below about 7.5e-37: denormal data); index then
+	// computes (v - lo) * split * split, whose factors stay finite.
+	split  float32
 	cyclic bool
 	absMax float32 // max(|lo|, |hi|), for OpacityFollowsValue
 }
 
 func newColourMap(l *Layer) colourMap {
 	cm := colourMap{table: &l.Palette.Table, lo: l.Lo, cyclic: l.Palette.Family == palettes.Cyclic}
-	if d := float64(l.Hi) - float64(l.Lo); d != 0 && !math.IsNaN(d) && !math.IsInf(d, 0) {
-		cm.scale = float32(256 / d)
+	d := float64(l.Hi) - float64(l.Lo)
+	switch sc := 256 / d; {
+	case d == 0 || math.IsNaN(d) || math.IsInf(d, 0) || math.IsNaN(float64(l.Lo)):
+	case sc > math.MaxFloat32 || float64(l.Lo)*sc > math.MaxFloat32 || float64(l.Lo)*sc < -math.MaxFloat32:
+		cm.split = float32(math.Sqrt(sc))
+	default:
+		cm.scale = float32(sc)
 		cm.offset = l.Lo * cm.scale
 	}
 	cm.absMax = max(float32(math.Abs(float64(l.Lo))), float32(math.Abs(float64(l.Hi))))
@@ -214,24 +223,30 @@ func newColourMap(l *Layer) colourMap {
 }
 
 // index returns the table index of v (v must not be NaN), the same entry
-// Palette.At((v-Lo)/(Hi-Lo)) gives.
+// Palette.At((v-Lo)/(Hi-Lo)) gives. It is in 0..255 for every float32 v,
+// Inf included.
 func (cm *colourMap) index(v float32) int {
-	if cm.scale == 0 {
+	var f float32
+	switch {
+	case cm.scale != 0:
+		f = v*cm.scale - cm.offset
+	case cm.split != 0:
+		f = (v - cm.lo) * cm.split * cm.split
+	default:
 		return 128
 	}
-	f := v*cm.scale - cm.offset
 	if cm.cyclic {
 		if f != f || f > 1e9 || f < -1e9 { // Inf or huge: no meaningful phase
 			return 128
 		}
 		f -= 256 * float32(math.Floor(float64(f)/256))
 		k := int(f)
-		if k > 255 {
+		if k > 255 || k < 0 {
 			k = 0
 		}
 		return k
 	}
-	if f <= 0 {
+	if !(f > 0) { // also NaN (Inf - Inf)
 		return 0
 	}
 	if f >= 255 {
@@ -381,10 +396,12 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 		alpha = float32(math.Min(overlay.Opacity, 1))
 		if overlay.OpacityFollowsValue {
 			follow = true
-			if overCM.absMax == 0 {
+			if overCM.absMax == 0 || overCM.absMax != overCM.absMax {
 				alpha = 0 // every value is zero: nothing of the overlay shows
 			} else {
-				invAbsMax = 1 / overCM.absMax
+				// in float64 and capped: 1/absMax overflows float32 for
+				// denormal ranges, and Inf*0 would be NaN
+				invAbsMax = float32(min(1/float64(overCM.absMax), math.MaxFloat32))
 			}
 		}
 	}
@@ -463,7 +480,7 @@ func drawDensity(dst *image.RGBA, r image.Rectangle, base Layer, overlay *Layer,
 							a *= min(math.Float32frombits(math.Float32bits(v)&0x7fffffff)*invAbsMax, 1)
 						}
 						ai := uint32(int32(a*256 + 0.5)) // via int32: Go's float-to-uint32 conversion is slow
-						if ai == 0 {
+						if ai == 0 || ai > 256 {         // > 256: a NaN weight (Inf values)
 							continue
 						}
 						c := overCM.table[overCM.index(v)]

@@ -85,7 +85,7 @@ func drawWiggles(dst *image.RGBA, r image.Rectangle, base Layer, st WiggleStyle,
 	ys := make([]float32, 0, 1024)
 	for tr := first; tr <= last; tr += stride {
 		trace := traces[tr]
-		x0 := float32((float64(tr) + 0.5 - vp.Trace0) * pxPerTrace)
+		x0 := keepNear((float64(tr)+0.5-vp.Trace0)*pxPerTrace, w)
 		s1 := min(len(trace)-1, int(math.Ceil(vp.Sample1))+1)
 		xs, ys = xs[:0], ys[:0]
 		for s := s0; s <= s1; s += sampleStep {
@@ -93,8 +93,8 @@ func drawWiggles(dst *image.RGBA, r image.Rectangle, base Layer, st WiggleStyle,
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				v = 0 // gaps draw on the baseline
 			}
-			xs = append(xs, x0+float32(v*deflect))
-			ys = append(ys, float32((float64(s)+0.5-vp.Sample0)*pxPerSample))
+			xs = append(xs, keepNear(float64(x0)+v*deflect, w))
+			ys = append(ys, keepNear((float64(s)+0.5-vp.Sample0)*pxPerSample, h))
 		}
 		if len(xs) < 2 {
 			continue
@@ -111,6 +111,25 @@ func drawWiggles(dst *image.RGBA, r image.Rectangle, base Layer, st WiggleStyle,
 		fill.Draw(dst, r, src, image.Point{})
 	}
 	line.Draw(dst, r, src, image.Point{})
+}
+
+// farPixels bounds drawing coordinates to this far outside the plot:
+// x/image/vector's fixed-point rasteriser divides by zero on coordinates
+// of about 1e10 (found by FuzzDrawSection), and nothing that far off shows.
+// A curve cut there keeps the visible part's direction to within a
+// fraction of a pixel.
+const farPixels = 1 << 16
+
+// keepNear clamps a pixel coordinate along an extent of n pixels to
+// [-farPixels, n+farPixels]; NaN becomes 0.
+func keepNear(v float64, n int) float32 {
+	if !(v > -farPixels) {
+		if v != v {
+			return 0
+		}
+		return -farPixels
+	}
+	return float32(min(v, float64(n)+farPixels))
 }
 
 // segment adds a thick line from (ax, ay) to (bx, by) as a quadrilateral.

@@ -25,7 +25,7 @@ func benchVolume(b *testing.B) string {
 		return p
 	}
 	b.Logf("generating %s (%.1f MB)", p, float64(benchSize)/1e6)
-	w, err := CreateNew(p, NewSpec{Samples: benchSamples, IntervalUS: 2000, TextHeader: "C 1 QUADTRACE READ BENCHMARK VOLUME (INVENTED DATA)"}, WriteOptions{Format: 1})
+	w, err := createNewFile(p, NewSpec{Samples: benchSamples, IntervalUS: 2000, TextHeader: "C 1 QUADTRACE READ BENCHMARK VOLUME (INVENTED DATA)"}, WriteOptions{Format: 1})
 	if err != nil {
 		b.Fatal(err)
 	}

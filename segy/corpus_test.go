@@ -9,7 +9,7 @@ import (
 	"quadtrace/segy/segytest"
 )
 
-// Checks against the open files of ../shared/segy-corpus (written by
+// Checks against the open files of testdata/segy-corpus (written by
 // segyio; contents documented in its README.md, quoted as "README").
 
 // valueRule is the README's rule: sample k of (il, xl) = il + xl/100 + k*1e-5.

@@ -4,7 +4,7 @@
 // and SEG-Y revision 2.0 (2017) for every byte position and code; IBM
 // System/370 Principles of Operation for the hexadecimal floating-point
 // format. Tests also check against the segyio test files in
-// ../shared/segy-corpus and against Debian's python3-segyio 1.8.3.
+// testdata/segy-corpus and against Debian's python3-segyio 1.8.3.
 //
 // Reading. Open maps the file read-only (falling back to ReadAt when mmap
 // is refused), parses the textual header (EBCDIC or ASCII, detected),
@@ -35,14 +35,31 @@
 //     duplicates is used. NaN and infinite samples, and traces that are all
 //     zero (every sampled one), are reported; samples are returned as read.
 //   - Nothing is allocated from sizes the headers claim: the trace count
-//     comes from the file size and the grid is built only when it has at
-//     most 4*traces+1024 cells (else the layout is "unstructured" and
-//     lookups use a map).
+//     comes from the file size.
+//   - Geometry (one decision, in buildGrid, that scan, figure, export and
+//     the window all see through Info): the inline/crossline numbering is
+//     used as a grid when the grid has at most 4*traces+1024 cells; else,
+//     when a few traces (at most max(16, traces/100)) carry numbers far
+//     outside the main run of numbers and the rest fit, those traces are
+//     left out of the grid and listed in Info.Outliers (trace, field, value,
+//     byte) with a warning; else the layout is "unstructured" and the
+//     traces are one line in file order (inline 0, crosslines 1..traces).
+//     Info.Inline and Info.Crossline therefore never span more than
+//     4*traces+1024 numbers; Info.HeaderInline/HeaderCrossline report the
+//     numbers as found.
+//   - Reads hold the file: Close waits for reads in progress and later
+//     reads fail with os.ErrClosed. A mapped file that another program
+//     shortens gives errors wrapping ErrChanged (memory faults are caught
+//     with runtime/debug.SetPanicOnFault), never a crash.
+//   - Only regular files are opened: FIFOs, devices and directories are
+//     refused before any read.
 //   - Trace numbers in errors are 0-based indices as in ReadTrace; byte
 //     numbers are 1-based file positions as the standards print them.
 //
-// Writing. Create and CreateNew stream a revision 1, big-endian file in
-// IEEE (format 5, default) or IBM (format 1) floats to a temporary file in
-// the destination folder and rename it into place on Commit; Create refuses
-// to overwrite its own input.
+// Writing. NewWriter (with the headers of a source file) and NewWriterSpec
+// (from scratch) stream a revision 1, big-endian file in IEEE (format 5,
+// default) or IBM (format 1) floats to an io.Writer; revision 2.0 when the
+// source's additional trace headers are carried. segy holds no file-system
+// policy: where the bytes go, temporary files and what may be overwritten
+// are the caller's (quadtrace writes through app/outfile).
 package segy

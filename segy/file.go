@@ -1,13 +1,16 @@
 package segy
 
 import (
+	"context"
 	"encoding/binary"
 	"errors"
 	"fmt"
 	"io"
 	"math"
 	"os"
+	"runtime/debug"
 	"sync"
+	"syscall"
 )
 
 // Options override what Open detects. The zero value detects everything.
@@ -61,6 +64,20 @@ type Info struct {
 	// Offsets lists the distinct offsets, sorted, for pre-stack layouts;
 	// nil for post-stack files (the offset is then ignored by lookups).
 	Offsets []int
+	// HeaderInline and HeaderCrossline are the smallest (Min) and largest
+	// (Max) numbers found in the bytes used for inline and crossline, over
+	// every trace, outliers included; Step and Count are 0. For reports:
+	// Inline and Crossline describe the grid actually used.
+	HeaderInline, HeaderCrossline Range
+	// ExtraTraceHeaders is the number of additional 240-byte trace headers
+	// after each standard trace header (SEG-Y rev 2.0 bytes 3507-3508);
+	// the first is trace header extension 1 (see TraceHeader.Extra).
+	ExtraTraceHeaders int
+	// OutlierTraces counts traces left out of the grid because their
+	// numbers lie far outside the others' (see the geometry decision in
+	// doc.go); Outliers lists the first 100 of them.
+	OutlierTraces int
+	Outliers      []Outlier
 	// MissingTraces counts grid positions (inline x crossline x offset)
 	// with no trace; DuplicateTraces counts traces whose position was
 	// already taken (the first one in the file is used).
@@ -75,12 +92,26 @@ type Info struct {
 	// then the extended ones, each as 80-character lines (trailing blanks
 	// removed, control characters blanked) joined by '\n'.
 	TextHeaders []string
+	// Stanzas lists the stanza header lines found in the extended textual
+	// headers, e.g. "((SEG: EndText))" (see ParseStanzas).
+	Stanzas []string
 	// Warnings lists what Open tolerated or assumed.
 	Warnings []string
 	// Amplitude summary of finite samples from a bounded sample of at most
 	// 1000 traces spread evenly through the file (all traces when fewer);
 	// it is an estimate for display scaling, not a full-volume statistic.
 	AmplitudeMin, AmplitudeMax, AmplitudeRMS float64
+}
+
+// Outlier is a trace left out of the grid: which trace (0-based), which
+// field ("inline" or "crossline") held which value, at which trace-header
+// byte (1-based within the 240) and file byte (1-based).
+type Outlier struct {
+	Trace    int
+	Field    string
+	Value    int
+	Byte     int
+	FileByte int64
 }
 
 // Error is a problem found in a file, with where it was found. Trace is a
@@ -91,7 +122,12 @@ type Error struct {
 	Trace int
 	Byte  int64
 	Msg   string
+	err   error // wrapped cause, for errors.Is (os.ErrClosed, ErrChanged)
 }
+
+// Unwrap returns the cause, if any (os.ErrClosed after Close, ErrChanged
+// for a mapped file that shrank).
+func (e *Error) Unwrap() error { return e.err }
 
 func (e *Error) Error() string {
 	s := e.Path + ": "
@@ -117,16 +153,38 @@ type File struct {
 	samples   int
 	dataStart int64
 	traceSize int64
-	ntraces   int
-	info      Info
+	// extraHeaders is the number of additional 240-byte trace headers
+	// after each standard one (SEG-Y rev 2.0 binary header bytes
+	// 3507-3508); hdrSize is 240 * (1 + extraHeaders).
+	extraHeaders int
+	hdrSize      int64
+	ntraces      int
+	info         Info
 
 	ilByte, xlByte, offByte, cxByte, cyByte int
+	geoBytes                                [2]int // trace-header bytes the inline and crossline numbering came from (0: none)
 
 	optIgnoreTail bool
 	geo           geometry
 	bufPool       sync.Pool
-	closeMu       sync.Mutex
-	isClosed      bool
+	// mu guards the mapping's lifetime: every public read holds it for
+	// reading (see hold), Close takes it for writing, so Close waits for
+	// reads in progress and later reads fail with ErrClosed.
+	mu       sync.RWMutex
+	isClosed bool
+	ctx      context.Context // during open only: stops the header scan
+}
+
+// scanCancelled reports, every 1024th trace i of a scan during open,
+// whether the open was cancelled; the error wraps ctx.Err().
+func (f *File) scanCancelled(i int) error {
+	if i%1024 != 0 || f.ctx == nil {
+		return nil
+	}
+	if err := f.ctx.Err(); err != nil {
+		return fmt.Errorf("%s: open stopped at trace %d: %w", f.path, i, err)
+	}
+	return nil
 }
 
 // Open opens a SEG-Y file read-only: it maps the file into memory (falling
@@ -138,24 +196,27 @@ type File struct {
 // Nothing is allocated in proportion to sizes the headers claim, only to the
 // real file size.
 func Open(path string, opt Options) (*File, error) {
-	st, err := os.Stat(path)
+	return OpenContext(context.Background(), path, opt)
+}
+
+// OpenContext is Open that stops when ctx ends: the header scan checks ctx
+// every few thousand traces, and an open stopped that way returns an error
+// wrapping ctx.Err().
+func OpenContext(ctx context.Context, path string, opt Options) (*File, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	fh, err := OpenRegular(path)
 	if err != nil {
 		return nil, err
 	}
-	if st.IsDir() {
-		return nil, &Error{Path: path, Trace: -1, Msg: "is a directory, not a SEG-Y file"}
-	}
-	fh, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	st, err = fh.Stat()
+	st, err := fh.Stat()
 	if err != nil {
 		fh.Close()
 		return nil, err
 	}
 	data := mapFile(fh, st.Size())
-	f, err := open(path, fh, data, st.Size(), opt)
+	f, err := open(ctx, path, fh, data, st.Size(), opt)
 	if err != nil {
 		unmapFile(data)
 		fh.Close()
@@ -165,22 +226,83 @@ func Open(path string, opt Options) (*File, error) {
 	return f, nil
 }
 
+// OpenRegular opens path read-only if it is a regular file, and refuses
+// anything else (directory, FIFO, device, socket) with an *Error, without
+// blocking: a FIFO is never opened for reading in a way that waits for a
+// writer. Readers of SEG-Y input that do not use Open (the export job
+// reads through its own window) open their input with it.
+func OpenRegular(path string) (*os.File, error) {
+	st, err := os.Stat(path)
+	if err != nil {
+		return nil, err
+	}
+	if err := refuseNonRegular(path, st.Mode()); err != nil {
+		return nil, err
+	}
+	// O_NONBLOCK: should the path have been replaced by a FIFO since the
+	// Stat, opening it does not wait for a writer; the Fstat below then
+	// refuses it. It changes nothing for a regular file.
+	fh, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	if err != nil {
+		return nil, err
+	}
+	if st, err = fh.Stat(); err == nil {
+		err = refuseNonRegular(path, st.Mode())
+	}
+	if err != nil {
+		fh.Close()
+		return nil, err
+	}
+	return fh, nil
+}
+
+// refuseNonRegular fails for anything but a regular file: a directory, a
+// FIFO (reading it would block until a writer comes), a device, a socket.
+func refuseNonRegular(path string, m os.FileMode) error {
+	if m.IsRegular() {
+		return nil
+	}
+	kind := "not a regular file"
+	switch {
+	case m.IsDir():
+		kind = "is a directory"
+	case m&os.ModeNamedPipe != 0:
+		kind = "is a FIFO (named pipe)"
+	case m&os.ModeCharDevice != 0:
+		kind = "is a character device"
+	case m&os.ModeDevice != 0:
+		kind = "is a block device"
+	case m&os.ModeSocket != 0:
+		kind = "is a socket"
+	}
+	return &Error{Path: path, Trace: -1, Msg: kind + ", not a SEG-Y file: only regular files are read"}
+}
+
 // OpenReaderAt opens SEG-Y data of the given size read through r (a file
 // on a filesystem without mmap, an in-memory buffer); name is used in
 // messages. Close does not close r.
 func OpenReaderAt(r io.ReaderAt, size int64, name string, opt Options) (*File, error) {
-	return open(name, r, nil, size, opt)
+	return open(context.Background(), name, r, nil, size, opt)
+}
+
+// OpenReaderAtContext is OpenReaderAt that stops when ctx ends (see
+// OpenContext).
+func OpenReaderAtContext(ctx context.Context, r io.ReaderAt, size int64, name string, opt Options) (*File, error) {
+	return open(ctx, name, r, nil, size, opt)
 }
 
 // openBytes opens SEG-Y data held in memory, as if it were mapped.
 func openBytes(data []byte, name string, opt Options) (*File, error) {
-	return open(name, nil, data, int64(len(data)), opt)
+	return open(context.Background(), name, nil, data, int64(len(data)), opt)
 }
 
-// Close releases the mapping and the file. Further reads fail.
+// Close releases the mapping and the file. It waits for reads in progress
+// (ReadTrace, TraceHeader, TimeSlice, a Create reading the headers) to
+// finish; reads after Close fail with an error wrapping os.ErrClosed.
+// Closing twice is harmless.
 func (f *File) Close() error {
-	f.closeMu.Lock()
-	defer f.closeMu.Unlock()
+	f.mu.Lock()
+	defer f.mu.Unlock()
 	if f.isClosed {
 		return nil
 	}
@@ -191,12 +313,50 @@ func (f *File) Close() error {
 			err = e
 		}
 	}
-	// data is deliberately kept: a concurrent reader after Close would
-	// fault on unmapped memory, so callers must not read after Close.
 	f.data = nil
 	f.r = closedReader{}
 	return err
 }
+
+// hold takes a read hold on the file for one public read; release it with
+// f.mu.RUnlock. It fails once the file is closed. Internal helpers never
+// take the hold themselves (a second RLock could deadlock behind a waiting
+// Close).
+func (f *File) hold(trace int) error {
+	f.mu.RLock()
+	if f.isClosed {
+		f.mu.RUnlock()
+		return &Error{Path: f.path, Trace: trace, Msg: "reading a closed file: " + os.ErrClosed.Error(), err: os.ErrClosed}
+	}
+	return nil
+}
+
+// guardFault runs read with a memory fault (SIGBUS from a mapped file cut
+// short by another program, SIGSEGV) turned into an error instead of a
+// crash, using runtime/debug.SetPanicOnFault for the calling goroutine.
+// Without a mapping it just runs read. Panics that are not memory faults
+// are passed on.
+func (f *File) guardFault(trace int, off int64, read func() error) (err error) {
+	if f.data == nil {
+		return read()
+	}
+	old := debug.SetPanicOnFault(true)
+	defer func() {
+		debug.SetPanicOnFault(old)
+		if r := recover(); r != nil {
+			if _, fault := r.(interface{ Addr() uintptr }); !fault {
+				panic(r)
+			}
+			err = &Error{Path: f.path, Trace: trace, Byte: off + 1, err: ErrChanged,
+				Msg: fmt.Sprintf("%v: memory fault reading the mapped file (%d bytes when opened)", ErrChanged, f.size)}
+		}
+	}()
+	return read()
+}
+
+// ErrChanged is wrapped by errors from reads that found the file shorter
+// than when it was opened (another program truncated or rewrote it).
+var ErrChanged = errors.New("file changed on disk since it was opened")
 
 type closedReader struct{}
 
@@ -256,47 +416,62 @@ func (f *File) getBuf() *[]byte {
 	return &b
 }
 
-func open(path string, r io.ReaderAt, data []byte, size int64, opt Options) (*File, error) {
-	f := &File{path: path, r: r, data: data, size: size}
+func open(ctx context.Context, path string, r io.ReaderAt, data []byte, size int64, opt Options) (*File, error) {
+	f := &File{path: path, r: r, data: data, size: size, ctx: ctx}
+	defer func() { f.ctx = nil }() // only the open is cancellable
 	f.info.Warnings = []string{}
-	if err := f.resolveOptions(opt); err != nil {
+	// The scan reads the mapping: a file cut short meanwhile faults.
+	if err := f.guardFault(-1, 0, func() error { return f.parse(opt) }); err != nil {
 		return nil, err
 	}
+	return f, nil
+}
+
+// parse reads the headers and scans the traces (see Open).
+func (f *File) parse(opt Options) error {
+	size := f.size
+	if err := f.resolveOptions(opt); err != nil {
+		return err
+	}
 	if size < TextHeaderSize {
-		return nil, f.errf(-1, 0, "file is %d bytes: truncated inside the 3200-byte textual header", size)
+		return f.errf(-1, 0, "file is %d bytes: truncated inside the 3200-byte textual header", size)
 	}
 	if size < headersEnd {
-		return nil, f.errf(-1, size+1, "file ends inside the binary header (bytes 3201-3600): %d bytes", size)
+		return f.errf(-1, size+1, "file ends inside the binary header (bytes 3201-3600): %d bytes", size)
 	}
 	hdr, err := f.bytesAt(0, headersEnd, nil)
 	if err != nil {
-		return nil, f.errf(-1, 1, "reading headers: %v", err)
+		return f.errf(-1, 1, "reading headers: %v", err)
 	}
 	hdr = append([]byte(nil), hdr...)
 	text, _ := decodeText(hdr[:TextHeaderSize])
 	f.info.TextHeaders = []string{text}
 	bin := hdr[TextHeaderSize:]
 	if err := f.parseBinary(bin, opt); err != nil {
-		return nil, err
+		return err
 	}
 	if err := f.readExtendedText(bin); err != nil {
-		return nil, err
+		return err
+	}
+	f.noteStanzas()
+	if err := f.rev2Layout(bin); err != nil {
+		return err
 	}
 	if err := f.sizeTraces(bin); err != nil {
-		return nil, err
+		return err
 	}
 	if f.ntraces == 0 {
 		f.info.Layout = LayoutEmpty
 		f.warnf("no traces: the file holds headers only")
-		return f, nil
+		return nil
 	}
 	if err := f.scanGeometry(bin); err != nil {
-		return nil, err
+		return err
 	}
 	if err := f.sampleAmplitudes(); err != nil {
-		return nil, err
+		return err
 	}
-	return f, nil
+	return nil
 }
 
 func (f *File) resolveOptions(opt Options) error {
@@ -434,6 +609,9 @@ func (f *File) readExtendedText(bin []byte) error {
 		return nil
 	case n == -1:
 		for i := 0; i < maxExtTextBlocks; i++ {
+			if err := f.scanCancelled(i); err != nil {
+				return err
+			}
 			if f.dataStart+TextHeaderSize > f.size {
 				return f.errf(-1, binExtTextHeaders, "extended textual header count -1: no ((SEG: EndText)) stanza before the end of the file (read %d headers)", i)
 			}
@@ -488,6 +666,64 @@ func bytesContains(b []byte, s string) bool {
 	return false
 }
 
+// rev2Layout reads the layout fields of a SEG-Y revision 2 binary header
+// (rev 2.0 table 2): the number of additional 240-byte trace headers per
+// trace (bytes 3507-3508; rev 2.0 section 7: fixed-length traces all carry
+// that many), the byte offset of the first trace (3521-3528, 0 = right
+// after the extended textual headers) and the number of 3200-byte data
+// trailer stanzas after the last trace (3529-3532), which are not traces.
+// Earlier revisions have none of them.
+func (f *File) rev2Layout(bin []byte) error {
+	f.hdrSize = TraceHeaderSize
+	if f.revMajor() < 2 {
+		return nil
+	}
+	f.extraHeaders = int(f.order.Uint16(bin[binExtraHeaders-3201:]))
+	f.hdrSize = int64(TraceHeaderSize) * int64(1+f.extraHeaders)
+	if first := f.order.Uint64(bin[binFirstTrace-3201:]); first != 0 {
+		switch {
+		case first < uint64(f.dataStart) || first > uint64(f.size):
+			return f.errf(-1, binFirstTrace, "first trace at byte offset %d: outside %d..%d (after the headers, inside the file)", first, f.dataStart, f.size)
+		case first != uint64(f.dataStart):
+			f.warnf("first trace at byte offset %d (binary header byte %d), %d bytes after the headers", first, binFirstTrace, int64(first)-f.dataStart)
+			f.dataStart = int64(first)
+		}
+	}
+	if n := i32(bin, binTrailers, 3201, f.order); n != 0 {
+		if n < 0 || int64(n)*TextHeaderSize > f.size-f.dataStart {
+			return f.errf(-1, binTrailers, "%d data trailer stanzas of 3200 bytes do not fit in the %d bytes after the headers", n, f.size-f.dataStart)
+		}
+		f.size -= int64(n) * TextHeaderSize
+		f.warnf("%d data trailer stanzas (%d bytes) after the last trace are not read", n, int64(n)*TextHeaderSize)
+	}
+	if f.extraHeaders > 0 {
+		f.info.ExtraTraceHeaders = f.extraHeaders
+	}
+	return nil
+}
+
+// checkTraceOrder refuses a file whose trace headers are in the other byte
+// order than its binary header (a converter that swapped one and not the
+// other): the first trace header's sample count (bytes 115-116) and
+// interval (117-118) then disagree with the binary header as read, and
+// both agree once swapped. Such a file would otherwise be read as
+// byte-swapped garbage.
+func (f *File) checkTraceOrder(th, bin []byte, nsBin int) error {
+	other := binary.ByteOrder(binary.LittleEndian)
+	otherName := "little"
+	if f.order == other {
+		other, otherName = binary.BigEndian, "big"
+	}
+	ns, nsSwap := int(f.order.Uint16(th[thSamples-1:])), int(other.Uint16(th[thSamples-1:]))
+	iv, ivSwap := int(f.order.Uint16(th[thInterval-1:])), int(other.Uint16(th[thInterval-1:]))
+	ivBin := int(f.order.Uint16(bin[binInterval-3201:]))
+	if nsBin > 0 && ns != nsBin && nsSwap == nsBin && iv != ivBin && ivSwap == ivBin {
+		return f.errf(0, f.dataStart+thSamples, "trace headers are %s-endian but the binary header is %s-endian: the first trace's sample count and interval read %d and %d, or %d and %d %s-endian as in the binary header; mixed byte order is not supported",
+			otherName, f.info.ByteOrder, ns, iv, nsSwap, ivSwap, otherName)
+	}
+	return nil
+}
+
 // sizeTraces settles samples per trace, sample interval and start time, and
 // the number of traces.
 //
@@ -506,21 +742,34 @@ func (f *File) sizeTraces(bin []byte) error {
 			nsBin, nsByte = ext, binExtSamples
 		}
 	}
-	var th []byte
-	if remaining >= TraceHeaderSize {
-		b, err := f.bytesAt(f.dataStart, TraceHeaderSize, nil)
+	var th, ext1 []byte
+	if remaining >= f.hdrSize {
+		b, err := f.bytesAt(f.dataStart, int(f.hdrSize), nil)
 		if err != nil {
 			return f.errf(0, f.dataStart+1, "reading trace header: %v", err)
 		}
-		th = append([]byte(nil), b...)
+		th = append([]byte(nil), b[:TraceHeaderSize]...)
+		if f.extraHeaders > 0 {
+			ext1 = append([]byte(nil), b[TraceHeaderSize:2*TraceHeaderSize]...)
+		}
 	}
 	nsTr := 0
+	trByte := f.dataStart + thSamples
 	if th != nil {
 		nsTr = int(f.order.Uint16(th[thSamples-1:]))
+		if err := f.checkTraceOrder(th, bin, nsBin); err != nil {
+			return err
+		}
 	}
-	trByte := f.dataStart + thSamples
+	if ext1 != nil {
+		// rev 2.0 trace header extension 1, bytes 137-140: extended
+		// number of samples in this trace (unsigned)
+		if v := int64(f.order.Uint32(ext1[ext1Samples-1:])); v > 0 && v <= math.MaxInt32 {
+			nsTr, trByte = int(v), f.dataStart+TraceHeaderSize+ext1Samples
+		}
+	}
 	fits := func(ns int) bool {
-		ts := int64(TraceHeaderSize) + int64(ns)*int64(f.sf.size)
+		ts := f.hdrSize + int64(ns)*int64(f.sf.size)
 		return remaining > 0 && remaining%ts == 0
 	}
 	ns := nsBin
@@ -541,7 +790,7 @@ func (f *File) sizeTraces(bin []byte) error {
 	}
 	f.samples = ns
 	f.info.Samples = ns
-	f.traceSize = int64(TraceHeaderSize) + int64(ns)*int64(f.sf.size)
+	f.traceSize = f.hdrSize + int64(ns)*int64(f.sf.size)
 
 	// interval
 	ivBin := i16(bin, binInterval, 3201, f.order)
@@ -553,6 +802,12 @@ func (f *File) sizeTraces(bin []byte) error {
 	ivTr := 0
 	if th != nil {
 		ivTr = i16(th, thInterval, 1, f.order)
+	}
+	if ivTr == 0 && ext1 != nil {
+		// extension 1 bytes 145-152: extended sample interval (IEEE double)
+		if d := math.Float64frombits(f.order.Uint64(ext1[ext1Interval-1:])); d > 0 && d < 1e9 {
+			ivTr = int(math.Round(d))
+		}
 	}
 	switch {
 	case ivBin > 0 && ivTr < 0:
@@ -581,7 +836,7 @@ func (f *File) sizeTraces(bin []byte) error {
 	n := remaining / f.traceSize
 	tail := remaining % f.traceSize
 	if tail != 0 {
-		desc := fmt.Sprintf("a trace is %d bytes (240-byte header + %d samples of %d bytes, format %d)", f.traceSize, ns, f.sf.size, f.sf.code)
+		desc := fmt.Sprintf("a trace is %d bytes (%d-byte header + %d samples of %d bytes, format %d)", f.traceSize, f.hdrSize, ns, f.sf.size, f.sf.code)
 		if n == 0 {
 			return f.errf(0, f.dataStart+1, "file ends %d bytes into the first trace: %s", tail, desc)
 		}

@@ -12,16 +12,13 @@ import (
 )
 
 // Native fuzz targets (go test -fuzz=FuzzX -fuzztime=20s ./segy/). Seeds:
-// every file of ../shared/segy-corpus plus the generated malformed files;
+// every file of testdata/segy-corpus plus the generated malformed files;
 // crashers found are kept by Go under testdata/fuzz/ as regression seeds.
 
 func addCorpusSeeds(f *testing.F) {
 	entries, err := os.ReadDir(corpusDir)
 	if err != nil {
-		if os.Getenv("CI") == "true" {
-			f.Fatalf("segy corpus %s missing (CI=true): %v", corpusDir, err)
-		}
-		return
+		f.Fatalf("segy corpus %s missing (it is part of the repository): %v", corpusDir, err)
 	}
 	for _, e := range entries {
 		if filepath.Ext(e.Name()) != ".sgy" {
@@ -76,6 +73,16 @@ func checkOpened(t *testing.T, f *File, size int) {
 	}
 	if in.MissingTraces < 0 || in.DuplicateTraces < 0 || in.DuplicateTraces > in.Traces {
 		t.Fatalf("missing %d duplicates %d", in.MissingTraces, in.DuplicateTraces)
+	}
+	// The geometry decision: the grid every user builds (lines, slices,
+	// the window's line lists) is bounded by the number of traces, never
+	// by the range of numbers the headers hold.
+	cells := int64(in.Inline.Count) * int64(in.Crossline.Count) * int64(max(1, len(in.Offsets)))
+	if in.Traces > 0 && (in.Inline.Count < 0 || in.Crossline.Count < 0 || cells > int64(gridLimit(in.Traces))) {
+		t.Fatalf("grid %+v x %+v x %d offsets for %d traces", in.Inline, in.Crossline, len(in.Offsets), in.Traces)
+	}
+	if in.OutlierTraces < len(in.Outliers) || 2*in.OutlierTraces >= max(1, in.Traces) && in.OutlierTraces > 0 {
+		t.Fatalf("%d outliers (%d listed) of %d traces", in.OutlierTraces, len(in.Outliers), in.Traces)
 	}
 }
 
@@ -149,9 +156,11 @@ func FuzzTraceHeaders(f *testing.F) {
 	s.SampleBytes = func(tr, k int) []byte { return []byte{byte(tr)} }
 	f.Add(s.Bytes()[3600:])
 	for _, name := range []string{"small-ps.sgy", "shot-gather.sgy"} {
-		if b, err := os.ReadFile(filepath.Join(corpusDir, name)); err == nil {
-			f.Add(b[3600:])
+		b, err := os.ReadFile(filepath.Join(corpusDir, name))
+		if err != nil {
+			f.Fatalf("segy corpus file missing (it is part of the repository): %v", err)
 		}
+		f.Add(b[3600:])
 	}
 	hdr := s.Bytes()[:3600]
 	f.Fuzz(func(t *testing.T, traces []byte) {
@@ -163,16 +172,22 @@ func FuzzTraceHeaders(f *testing.F) {
 		}
 		checkOpened(t, file, len(data))
 		in := file.Info()
-		// Every trace is found by its own numbering unless it is a duplicate.
+		// Every trace is found by its own numbering unless it is a
+		// duplicate or an outlier; in an unstructured file, by its
+		// position (inline 0, crossline 1..traces).
 		found := 0
 		for i := 0; i < in.Traces; i++ {
 			h, _ := file.TraceHeader(i)
-			if j, ok := file.TraceIndex(h.Inline, h.Crossline, h.Offset); ok && j == i {
+			il, xl := h.Inline, h.Crossline
+			if in.Layout == LayoutUnstructured {
+				il, xl = 0, i+1
+			}
+			if j, ok := file.TraceIndex(il, xl, h.Offset); ok && j == i {
 				found++
 			}
 		}
-		if in.Warnings != nil && !hasWarning(in, "fell back") && !hasWarning(in, "by position") && found != in.Traces-in.DuplicateTraces {
-			t.Fatalf("%d of %d traces found by their numbering (%d duplicates, layout %s)", found, in.Traces, in.DuplicateTraces, in.Layout)
+		if in.Warnings != nil && !hasWarning(in, "fell back") && found != in.Traces-in.DuplicateTraces-in.OutlierTraces {
+			t.Fatalf("%d of %d traces found by their numbering (%d duplicates, %d outliers, layout %s)", found, in.Traces, in.DuplicateTraces, in.OutlierTraces, in.Layout)
 		}
 	})
 }
@@ -249,6 +264,42 @@ func FuzzIBM(f *testing.F) {
 			back := IBMToFloat32(Float32ToIBM(v))
 			if back != v {
 				t.Fatalf("%#08x -> %g -> %g", w, v, back)
+			}
+		}
+	})
+}
+
+// FuzzGeometryDecision feeds arbitrary inline and crossline numbers (and
+// offsets) to the geometry decision through files built by segytest: the
+// grid stays bounded by the trace count (checkOpened), outliers are few,
+// and every trace is either on the grid, a duplicate, an outlier, or the
+// file is unstructured in file order.
+func FuzzGeometryDecision(f *testing.F) {
+	f.Add([]byte{0, 0, 0, 1, 0, 0, 0, 10, 0, 0, 0, 1, 0, 0, 0, 11, 0x7f, 0xff, 0xff, 0xff, 0, 0, 0, 12}, false)
+	f.Add([]byte{0x80, 0, 0, 0, 0x80, 0, 0, 0, 0, 0, 0, 2, 0, 0, 0, 3}, true)
+	f.Fuzz(func(t *testing.T, keys []byte, offsets bool) {
+		s := segytest.File{Format: 16, Samples: 1, Interval: 1000, TraceSamples: segytest.SameAsBinary, TraceInterval: segytest.SameAsBinary}
+		for i := 0; i+8 <= len(keys) && i < 8*400; i += 8 {
+			tr := segytest.Trace{Inline: int(int32(binary.BigEndian.Uint32(keys[i:]))), Crossline: int(int32(binary.BigEndian.Uint32(keys[i+4:])))}
+			if offsets {
+				tr.Offset = int(keys[i] % 3)
+			}
+			s.Traces = append(s.Traces, tr)
+		}
+		data := s.Bytes()
+		file, err := openBytes(data, "geo.sgy", Options{})
+		if err != nil {
+			t.Fatalf("well-formed file must open: %v", err)
+		}
+		checkOpened(t, file, len(data))
+		in := file.Info()
+		if in.Layout != LayoutUnstructured && in.OutlierTraces > max(16, in.Traces/100) {
+			t.Fatalf("%d outliers of %d traces", in.OutlierTraces, in.Traces)
+		}
+		for _, o := range in.Outliers {
+			h, _ := file.TraceHeader(o.Trace)
+			if h.Int(o.Byte, 4) != o.Value || o.FileByte != 3600+int64(o.Trace)*241+int64(o.Byte) {
+				t.Fatalf("outlier %+v: header holds %d", o, h.Int(o.Byte, 4))
 			}
 		}
 	})

@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strings"
 )
 
 // geometry is the trace index built by the scan.
@@ -13,7 +14,6 @@ type geometry struct {
 	ilR, xlR    Range
 	offsets     []int // grid offsets; nil for post-stack
 	grid        []int32
-	index       map[[3]int32]int32 // lookups when there is no grid
 }
 
 // gridLimit bounds the grid allocation: a numbering spanning more cells
@@ -21,9 +21,11 @@ type geometry struct {
 // hostile header could otherwise make us allocate for billions of cells).
 func gridLimit(traces int) int { return 4*traces + 1024 }
 
+// traceHeaderBytes returns the standard header of trace i followed by its
+// additional headers (f.hdrSize bytes).
 func (f *File) traceHeaderBytes(i int, buf []byte) ([]byte, error) {
 	off := f.dataStart + int64(i)*f.traceSize
-	h, err := f.bytesAt(off, TraceHeaderSize, buf)
+	h, err := f.bytesAt(off, int(f.hdrSize), buf)
 	if err != nil {
 		return nil, f.errf(i, off+1, "reading trace header: %v", err)
 	}
@@ -51,14 +53,23 @@ func (f *File) scanGeometry(bin []byte) error {
 	cy := make([]float64, n)
 	var buf []byte
 	if f.data == nil {
-		buf = make([]byte, TraceHeaderSize)
+		buf = make([]byte, f.hdrSize)
 	}
 	o := f.order
 	coordUnits := 0
+	varying, firstVarying, firstNs := 0, -1, 0
 	for i := 0; i < n; i++ {
+		if err := f.scanCancelled(i); err != nil {
+			return err
+		}
 		h, err := f.traceHeaderBytes(i, buf)
 		if err != nil {
 			return err
+		}
+		if ns := int(o.Uint16(h[thSamples-1:])); ns != 0 && ns != f.samples && f.extraHeaders == 0 {
+			if varying++; firstVarying < 0 {
+				firstVarying, firstNs = i, ns
+			}
 		}
 		il[i] = int32(o.Uint32(h[f.ilByte-1:]))
 		xl[i] = int32(o.Uint32(h[f.xlByte-1:]))
@@ -66,18 +77,29 @@ func (f *File) scanGeometry(bin []byte) error {
 		sc := i16(h, thCoordScalar, 1, o)
 		cx[i] = applyScalar(float64(int32(o.Uint32(h[f.cxByte-1:]))), sc)
 		cy[i] = applyScalar(float64(int32(o.Uint32(h[f.cyByte-1:]))), sc)
+		if x, y, ok := f.ext1Coords(h[TraceHeaderSize:]); ok {
+			cx[i], cy[i] = x, y
+		}
 		if i == 0 {
 			coordUnits = i16(h, thCoordUnits, 1, o)
 		}
 	}
+	if varying > 0 {
+		f.warnf("%d traces declare a sample count other than the file's %d (first: trace %d, byte %d: %d); every trace is read with %d samples (fixed-length traces)",
+			varying, f.samples, firstVarying, f.dataStart+int64(firstVarying)*f.traceSize+thSamples, firstNs, f.samples)
+	}
 	userBytes := f.ilByte != thInline || f.xlByte != thCrossline
 	fromRecords := false
+	f.geoBytes = [2]int{f.ilByte, f.xlByte}
 	if n > 1 && allSame(il) && allSame(xl) && !userBytes {
 		// Read the fallback numbering.
 		cdp := make([]int32, n)
 		ffid := make([]int32, n)
 		chn := make([]int32, n)
 		for i := 0; i < n; i++ {
+			if err := f.scanCancelled(i); err != nil {
+				return err
+			}
 			h, err := f.traceHeaderBytes(i, buf)
 			if err != nil {
 				return err
@@ -89,24 +111,22 @@ func (f *File) scanGeometry(bin []byte) error {
 		switch {
 		case !allSame(cdp) && allSame(ffid):
 			il, xl = ffid, cdp
+			f.geoBytes = [2]int{thFieldRecord, thCDP}
 			f.warnf("inline/crossline bytes %d/%d hold no numbering: fell back to bytes 9/21 (field record / CDP ensemble number)", f.ilByte, f.xlByte)
 		case !allSame(cdp):
 			il, xl = make([]int32, n), cdp
+			f.geoBytes = [2]int{0, thCDP}
 			f.warnf("inline/crossline bytes %d/%d hold no numbering: fell back to byte 21 (CDP ensemble number) as one line; field records (byte 9) vary", f.ilByte, f.xlByte)
 		case !allSame(ffid) || !allSame(chn):
 			il, xl = ffid, chn
+			f.geoBytes = [2]int{thFieldRecord, thChannel}
 			fromRecords = true
 			f.warnf("inline/crossline bytes %d/%d hold no numbering: fell back to bytes 9/13 (field record / trace number within record); inlines are field records", f.ilByte, f.xlByte)
 		case !allSame(off):
 			// one location with several offsets (a single gather): keep
 		default:
-			for i := range xl {
-				il[i] = 0
-				xl[i] = int32(i + 1)
-			}
-			f.warnf("no inline/crossline numbering in bytes %d/%d, 9, 13 or 21: traces numbered 1..%d by position", f.ilByte, f.xlByte, n)
-			f.buildGrid(il, xl, off)
-			f.info.Layout = LayoutUnstructured
+			f.info.HeaderInline, f.info.HeaderCrossline = extent(il), extent(xl)
+			f.fileOrder(fmt.Sprintf("no inline/crossline numbering in bytes %d/%d, 9, 13 or 21: traces numbered 1..%d by position", f.ilByte, f.xlByte, n))
 			f.finishGeometry(cx, cy, coordUnits, bin)
 			return nil
 		}
@@ -161,19 +181,63 @@ func rangeOf(d []int32) Range {
 	return Range{Min: lo, Max: hi, Step: step, Count: (hi-lo)/step + 1}
 }
 
+// buildGrid makes the geometry decision that every user of the file
+// shares (scan, figure, export, the window), from the numbering of every
+// trace:
+//
+//  1. The inline and crossline numbers form a grid of at most
+//     gridLimit(traces) cells (holes allowed): that grid.
+//  2. Otherwise, when a few traces (at most max(16, traces/100), and
+//     fewer than half) carry numbers far from the others (outside the main
+//     run of numbers, where a gap is more than 16 times the median gap) and
+//     the rest form such a grid: that grid, with those traces left out and
+//     listed in Info.Outliers and a warning (trace, file byte, value).
+//  3. Otherwise the file is unstructured: its traces in file order as one
+//     line (inline 0, crosslines 1..traces), with a warning.
+//
+// Nothing is allocated in proportion to a range of numbers, only to the
+// number of traces.
 func (f *File) buildGrid(il, xl, off []int32) {
 	g := &f.geo
-	g.il, g.xl, g.off = il, xl, off
 	n := len(il)
-	g.ilR = rangeOf(distinctSorted(il))
-	g.xlR = rangeOf(distinctSorted(xl))
-	f.info.Inline, f.info.Crossline = g.ilR, g.xlR
+	f.info.HeaderInline, f.info.HeaderCrossline = extent(il), extent(xl)
 	limit := gridLimit(n)
-	cells := int64(g.ilR.Count) * int64(g.xlR.Count)
-	if g.ilR.Count > limit || g.xlR.Count > limit || cells > int64(limit) { // the first two guard the product against overflow
-		f.unstructured(fmtCells(cells, n))
-		return
+	ilR, xlR := rangeOf(distinctSorted(il)), rangeOf(distinctSorted(xl))
+	if !fitsGrid(ilR, xlR, limit) {
+		keepIl, keepXl := mainRun(il), mainRun(xl)
+		var out []int
+		for i := range il {
+			if !keepIl(il[i]) || !keepXl(xl[i]) {
+				out = append(out, i)
+				if len(out) > max(16, n/100) || 2*len(out) >= n {
+					break
+				}
+			}
+		}
+		ok := len(out) > 0 && len(out) <= max(16, n/100) && 2*len(out) < n
+		if ok {
+			kil, kxl := make([]int32, 0, n-len(out)), make([]int32, 0, n-len(out))
+			for i := range il {
+				if keepIl(il[i]) && keepXl(xl[i]) {
+					kil, kxl = append(kil, il[i]), append(kxl, xl[i])
+				}
+			}
+			ilR, xlR = rangeOf(distinctSorted(kil)), rangeOf(distinctSorted(kxl))
+			ok = fitsGrid(ilR, xlR, limit)
+		}
+		if !ok {
+			why := fmt.Sprintf("inline numbers %d to %d (bytes %s) and crossline numbers %d to %d (bytes %s) span %s grid positions for %d traces: not a regular grid; traces shown in file order",
+				f.info.HeaderInline.Min, f.info.HeaderInline.Max, f.byteName(0), f.info.HeaderCrossline.Min, f.info.HeaderCrossline.Max, f.byteName(1),
+				cellText(ilR, xlR), n)
+			f.fileOrder(why)
+			return
+		}
+		f.noteOutliers(out, il, xl, keepIl)
 	}
+	g.il, g.xl, g.off = il, xl, off
+	g.ilR, g.xlR = ilR, xlR
+	f.info.Inline, f.info.Crossline = g.ilR, g.xlR
+	cells := int64(g.ilR.Count) * int64(g.xlR.Count)
 	// One offset per location, or several (pre-stack)?
 	loc := make([]int32, cells)
 	for i := range loc {
@@ -182,6 +246,9 @@ func (f *File) buildGrid(il, xl, off []int32) {
 	prestack := false
 	for i := 0; i < n; i++ {
 		c := f.cell2(il[i], xl[i])
+		if c < 0 {
+			continue // an outlier
+		}
 		if loc[c] < 0 {
 			loc[c] = int32(i)
 		} else if off[loc[c]] != off[i] {
@@ -199,8 +266,7 @@ func (f *File) buildGrid(il, xl, off []int32) {
 		noff = len(d)
 		f.info.Offsets = g.offsets
 		if cells*int64(noff) > int64(limit) {
-			f.unstructured(fmtCells(cells*int64(noff), n))
-			f.info.Layout = LayoutPrestack
+			f.fileOrder(fmt.Sprintf("%d locations times %d offsets are %d grid positions for %d traces: not a regular pre-stack grid; traces shown in file order", cells, noff, cells*int64(noff), n))
 			return
 		}
 	}
@@ -210,7 +276,11 @@ func (f *File) buildGrid(il, xl, off []int32) {
 	}
 	dup := 0
 	for i := 0; i < n; i++ {
-		c := f.cell2(il[i], xl[i])*noff + f.offIndex(int(off[i]))
+		c := f.cell2(il[i], xl[i])
+		if c < 0 {
+			continue
+		}
+		c = c*noff + f.offIndex(int(off[i]))
 		if g.grid[c] >= 0 {
 			dup++
 			continue
@@ -218,7 +288,7 @@ func (f *File) buildGrid(il, xl, off []int32) {
 		g.grid[c] = int32(i)
 	}
 	f.info.DuplicateTraces = dup
-	f.info.MissingTraces = len(g.grid) - (n - dup)
+	f.info.MissingTraces = len(g.grid) - (n - len(f.info.Outliers) - dup)
 	if dup > 0 {
 		f.warnf("%d duplicate traces (same inline, crossline and offset as an earlier trace): the first one is used", dup)
 	}
@@ -235,32 +305,123 @@ func (f *File) buildGrid(il, xl, off []int32) {
 	}
 }
 
-func fmtCells(cells int64, n int) string {
-	return fmt.Sprintf("numbering spans %d grid positions for %d traces: not a regular grid", cells, n)
+// cellText is the number of cells of a grid over two ranges, or "over 2^62".
+func cellText(a, b Range) string {
+	if a.Count > 1<<31 || b.Count > 1<<31 {
+		return "over 2^62"
+	}
+	return fmt.Sprint(int64(a.Count) * int64(b.Count))
 }
 
-func (f *File) unstructured(why string) {
-	g := &f.geo
-	g.grid = nil
-	g.index = make(map[[3]int32]int32, len(g.il))
-	dup := 0
-	for i := range g.il {
-		k := [3]int32{g.il[i], g.xl[i], 0}
-		if g.offsets != nil {
-			k[2] = g.off[i]
-		}
-		if _, ok := g.index[k]; ok {
-			dup++
-			continue
-		}
-		g.index[k] = int32(i)
+// fitsGrid reports whether a grid over the ranges has at most limit cells
+// (the first two tests guard the product against overflow).
+func fitsGrid(a, b Range, limit int) bool {
+	return a.Count <= limit && b.Count <= limit && int64(a.Count)*int64(b.Count) <= int64(limit)
+}
+
+// extent is the smallest and largest of v, as a Range with Step and Count 0.
+func extent(v []int32) Range {
+	if len(v) == 0 {
+		return Range{}
 	}
-	f.info.DuplicateTraces = dup
+	lo, hi := slices.Min(v), slices.Max(v)
+	return Range{Min: int(lo), Max: int(hi)}
+}
+
+// mainRun returns a test for whether a number belongs to the main run of
+// numbers in v: the distinct values are split where the gap between
+// neighbours exceeds 16 times the median gap (at least 16), and the run
+// holding the most traces is the main one.
+func mainRun(v []int32) func(int32) bool {
+	d := distinctSorted(v)
+	if len(d) < 3 {
+		return func(int32) bool { return true }
+	}
+	gaps := make([]int64, len(d)-1)
+	for i := range gaps {
+		gaps[i] = int64(d[i+1]) - int64(d[i])
+	}
+	med := slices.Clone(gaps)
+	slices.Sort(med)
+	split := max(16, 16*med[len(med)/2])
+	// traces per distinct value
+	count := make(map[int32]int, len(d))
+	for _, x := range v {
+		count[x]++
+	}
+	bestLo, bestHi, best := d[0], d[0], -1
+	lo, sum := d[0], 0
+	for i, x := range d {
+		if i > 0 && gaps[i-1] > split {
+			lo, sum = x, 0
+		}
+		sum += count[x]
+		if sum > best {
+			bestLo, bestHi, best = lo, x, sum
+		}
+	}
+	// (counts are positive, so the best sum ends at the end of its run)
+	return func(x int32) bool { return x >= bestLo && x <= bestHi }
+}
+
+// maxListedOutliers bounds Info.Outliers and the warning's list.
+const maxListedOutliers = 100
+
+// noteOutliers records the traces left out of the grid and warns.
+func (f *File) noteOutliers(out []int, il, xl []int32, keepIl func(int32) bool) {
+	f.info.OutlierTraces = len(out)
+	var list []string
+	for _, i := range out {
+		o := Outlier{Trace: i, Field: "crossline", Value: int(xl[i]), Byte: f.geoBytes[1]}
+		if !keepIl(il[i]) {
+			o.Field, o.Value, o.Byte = "inline", int(il[i]), f.geoBytes[0]
+		}
+		o.FileByte = f.dataStart + int64(i)*f.traceSize + int64(o.Byte)
+		if len(f.info.Outliers) < maxListedOutliers {
+			f.info.Outliers = append(f.info.Outliers, o)
+		}
+		if len(list) < 5 {
+			list = append(list, fmt.Sprintf("trace %d (byte %d: %s %d)", i, o.FileByte, o.Field, o.Value))
+		}
+	}
+	more := ""
+	if len(out) > len(list) {
+		more = fmt.Sprintf(" and %d more", len(out)-len(list))
+	}
+	f.warnf("%d traces have inline or crossline numbers far outside the others and are left out of the grid: %s%s", len(out), strings.Join(list, ", "), more)
+}
+
+// byteName names the trace-header byte used for the inline (k = 0) or
+// crossline (k = 1) numbering.
+func (f *File) byteName(k int) string {
+	b := f.geoBytes[k]
+	if b == 0 {
+		return "none"
+	}
+	return fmt.Sprintf("%d-%d", b, b+3)
+}
+
+// fileOrder makes the file unstructured: its traces in file order as one
+// line, inline 0 with crosslines 1..traces (no offsets), and warns why.
+func (f *File) fileOrder(why string) {
+	g := &f.geo
+	n := f.ntraces
+	g.il, g.xl = make([]int32, n), make([]int32, n)
+	for i := range g.xl {
+		g.xl[i] = int32(i + 1)
+	}
+	g.off = make([]int32, n)
+	g.offsets, f.info.Offsets = nil, nil
+	g.ilR, g.xlR = Range{0, 0, 1, 1}, Range{Min: 1, Max: n, Step: 1, Count: n}
+	f.info.Inline, f.info.Crossline = g.ilR, g.xlR
+	g.grid = make([]int32, n)
+	for i := range g.grid {
+		g.grid[i] = int32(i)
+	}
+	f.info.Outliers, f.info.OutlierTraces = nil, 0
+	f.info.DuplicateTraces, f.info.MissingTraces = 0, 0
 	f.info.Layout = LayoutUnstructured
 	f.warnf("%s", why)
-	if dup > 0 {
-		f.warnf("%d duplicate traces (same inline, crossline and offset as an earlier trace): the first one is used", dup)
-	}
 }
 
 // sortOrder tells inline-sorted from crossline-sorted files by which number
@@ -292,9 +453,16 @@ func (f *File) sortOrder(il, xl []int32) Layout {
 	return Layout3DCrosslineSorted
 }
 
+// cell2 returns the grid cell (without offsets) of a numbering, or -1 when
+// it lies off the grid (an outlier).
 func (f *File) cell2(il, xl int32) int {
 	g := &f.geo
-	return ((int(il)-g.ilR.Min)/g.ilR.Step)*g.xlR.Count + (int(xl)-g.xlR.Min)/g.xlR.Step
+	i, ok1 := rangeIndex(g.ilR, int(il))
+	j, ok2 := rangeIndex(g.xlR, int(xl))
+	if !ok1 || !ok2 {
+		return -1
+	}
+	return i*g.xlR.Count + j
 }
 
 // offIndex returns the grid index of an offset (0 for post-stack), or -1.
@@ -395,6 +563,9 @@ func (f *File) sampleAmplitudes() error {
 	var sum2 float64
 	count, bad := 0, 0
 	for j := 0; j < k; j++ {
+		if err := f.scanCancelled(j * 16); err != nil { // every 64 sampled traces
+			return err
+		}
 		i := int(int64(j) * int64(n) / int64(k))
 		var err error
 		buf, err = f.ReadTrace(i, buf)

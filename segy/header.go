@@ -30,6 +30,20 @@ const (
 	binRevision       = 3501 // rev 1/2: major (3501) and minor (3502) revision bytes
 	binFixedLength    = 3503 // int16 fixed length trace flag
 	binExtTextHeaders = 3505 // int16 number of extended textual headers (-1 = variable)
+	binExtraHeaders   = 3507 // rev 2: uint16 number of additional 240-byte trace headers
+	binFirstTrace     = 3521 // rev 2: uint64 byte offset of the first trace (0 = after the headers)
+	binTrailers       = 3529 // rev 2: int32 number of 3200-byte data trailer stanzas
+
+	// Trace header extension 1 (1-based byte within the second 240-byte
+	// header, SEG-Y rev 2.0 table 4).
+	ext1SeqLine  = 1   // uint64 extended trace sequence number within line
+	ext1SeqFile  = 9   // uint64 extended trace sequence number within file
+	ext1Samples  = 137 // uint32 extended number of samples in this trace
+	ext1Interval = 145 // IEEE double extended sample interval, microseconds
+	ext1Count    = 157 // uint16 number of additional headers of this trace
+	ext1CDPX     = 161 // IEEE double extended CDP X
+	ext1CDPY     = 169 // IEEE double extended CDP Y
+	ext1Name     = 233 // 8 characters "SEG00001"
 
 	// Trace header (1-based byte within the 240-byte header, SEG-Y rev 1
 	// section 6 table 3; rev 2.0 table 3).

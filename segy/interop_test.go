@@ -169,7 +169,7 @@ func TestQuadtraceWritesSegyioReads(t *testing.T) {
 	// From scratch, both output formats.
 	for _, format := range []int{1, 5} {
 		p := filepath.Join(dir, "new-"+strconv.Itoa(format)+".sgy")
-		w, err := CreateNew(p, NewSpec{Samples: 9, IntervalUS: 2000, StartMS: 48, TextHeader: "C 1 INVENTED SURVEY FOR AN INTEROPERABILITY CHECK"}, WriteOptions{Format: format})
+		w, err := createNewFile(p, NewSpec{Samples: 9, IntervalUS: 2000, StartMS: 48, TextHeader: "C 1 INVENTED SURVEY FOR AN INTEROPERABILITY CHECK"}, WriteOptions{Format: format})
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"runtime"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -104,17 +105,42 @@ var malformedChecks = map[string]func(t *testing.T, f *File){
 		}
 	},
 	"sparse numbering": func(t *testing.T, f *File) {
-		if f.Info().Layout != LayoutUnstructured {
-			t.Errorf("layout %s", f.Info().Layout)
+		// one trace far off: left out of the 3 x 4 grid, reported
+		in := f.Info()
+		want := []Outlier{{Trace: 0, Field: "inline", Value: 1000000, Byte: 189, FileByte: 3600 + 189}}
+		if in.Layout != Layout3DInlineSorted || in.Inline != (Range{1, 3, 1, 3}) || !slices.Equal(in.Outliers, want) || in.MissingTraces != 1 {
+			t.Errorf("layout %s inline %+v outliers %+v missing %d", in.Layout, in.Inline, in.Outliers, in.MissingTraces)
 		}
-		if i, ok := f.TraceIndex(1000000, 10, 0); !ok || i != 0 {
-			t.Errorf("TraceIndex = %d %v", i, ok)
+		if _, ok := f.TraceIndex(1000000, 10, 0); ok {
+			t.Error("the outlier is in the grid")
+		}
+		if in.HeaderInline.Max != 1000000 {
+			t.Errorf("header inlines %+v", in.HeaderInline)
 		}
 	},
 	"numbering at the int32 extremes": func(t *testing.T, f *File) {
 		// regression: the grid size product overflowed (found by FuzzTraceHeaders)
-		if f.Info().Layout != LayoutUnstructured || f.Info().Inline.Count != 1<<32 {
-			t.Errorf("layout %s inline %+v", f.Info().Layout, f.Info().Inline)
+		in := f.Info()
+		if in.Layout != Layout3DInlineSorted || in.Inline.Count != 3 || in.OutlierTraces != 2 || in.MissingTraces != 2 {
+			t.Errorf("layout %s inline %+v outliers %+v", in.Layout, in.Inline, in.Outliers)
+		}
+	},
+	"flipped byte in one crossline": func(t *testing.T, f *File) {
+		in := f.Info()
+		if in.Layout != Layout3DInlineSorted || in.Crossline != (Range{10, 13, 1, 4}) || in.OutlierTraces != 1 ||
+			in.Outliers[0].Field != "crossline" || in.Outliers[0].FileByte != 3600+5*segytest.BaseTraceSize+193 {
+			t.Errorf("layout %s crossline %+v outliers %+v", in.Layout, in.Crossline, in.Outliers)
+		}
+	},
+	"garbage numbering everywhere": func(t *testing.T, f *File) {
+		in := f.Info()
+		if in.Layout != LayoutUnstructured || in.Inline != (Range{0, 0, 1, 1}) || in.Crossline.Count != in.Traces {
+			t.Errorf("layout %s inline %+v crossline %+v", in.Layout, in.Inline, in.Crossline)
+		}
+		for i := 0; i < in.Traces; i++ {
+			if j, ok := f.TraceIndex(0, i+1, 0); !ok || j != i {
+				t.Fatalf("position %d: trace %d %v", i+1, j, ok)
+			}
 		}
 	},
 	"headers only": func(t *testing.T, f *File) {

@@ -1,3 +1,5 @@
+//go:build linux
+
 package segy
 
 import (
@@ -23,7 +25,8 @@ const mmapChildEnv = "QUADTRACE_SEGY_MMAP_CHILD"
 // child process (this test binary run again) whose address space is limited
 // with RLIMIT_AS below the size of a 257 MB sparse SEG-Y file, so the
 // kernel answers mmap with ENOMEM, as a filesystem without mmap support
-// answers with ENODEV; Open must treat both the same.
+// answers with ENODEV; Open must treat both the same. Linux only (the
+// build constraint above): the check rests on how Linux enforces RLIMIT_AS.
 func TestMmapRefusedFallsBack(t *testing.T) {
 	if dir := os.Getenv(mmapChildEnv); dir != "" {
 		mmapRefusedChild(t, dir)

@@ -5,9 +5,8 @@ import (
 	"encoding/binary"
 	"errors"
 	"fmt"
+	"io"
 	"math"
-	"os"
-	"path/filepath"
 )
 
 // WriteOptions choose the output sample format and textual header.
@@ -28,44 +27,60 @@ type NewSpec struct {
 	TextHeader          string
 }
 
-// Writer streams traces to a temporary file in the destination folder and
-// renames it into place on Commit. It writes the SEG-Y revision 1 layout,
-// big-endian, no extended textual headers. A Writer is not safe for
-// concurrent use.
+// Writer streams a SEG-Y file to an io.Writer: the revision 1 layout,
+// big-endian, no extended textual headers; revision 2.0 when the source
+// has additional trace headers, which it carries over (SEG-Y rev 2.0
+// section 7: bytes 3507-3508 give their number). The file-system policy
+// (where the bytes go, temporary files, what may be overwritten) is the
+// caller's: quadtrace's commands write through app/outfile. A Writer is
+// not safe for concurrent use.
 type Writer struct {
-	dst, tmp string
-	fh       *os.File
+	name     string // for messages
 	bw       *bufio.Writer
 	format   int
 	samples  int
 	interval int
 	delayMS  int
 	timeSc   int
+	extra    int  // additional 240-byte headers written per trace
+	swapExt1 bool // source extension 1 is little-endian
 	traces   int
 	buf      []byte
 	done     bool
 }
 
-// Create starts a file with the headers of src: its first textual header
-// (re-encoded as EBCDIC) or opt.TextHeader, and bytes 3201-3260 of its
-// binary header converted to big-endian, with the format code updated,
-// revision 1 (bytes 3501-3502 = 0x0100), fixed-length traces and no
-// extended textual headers. It refuses a destination that is src's own
-// file (same path, symlink or hard link to it).
-func Create(dst string, src *File, opt WriteOptions) (*Writer, error) {
+// NewWriter starts a file written to w with the headers of src: its first
+// textual header (re-encoded as EBCDIC) or opt.TextHeader, and bytes
+// 3201-3260 of its binary header converted to big-endian, with the format
+// code updated, revision 1 (bytes 3501-3502 = 0x0100; 2.0 with the
+// byte-order word when additional trace headers are carried), fixed-length
+// traces and no extended textual headers. name is used in messages.
+// Additional trace headers of src are carried: all of them from a
+// big-endian source; from a little-endian one only extension 1, swapped
+// field by field (the layout of other additional headers is not known, so
+// they cannot be converted).
+func NewWriter(w io.Writer, name string, src *File, opt WriteOptions) (*Writer, error) {
 	if src == nil {
-		return nil, errors.New("segy.Create: nil source file")
-	}
-	if err := refuseInput(dst, src.path); err != nil {
-		return nil, err
+		return nil, errors.New("segy.NewWriter: nil source file")
 	}
 	bin := make([]byte, BinaryHeaderSize)
-	b, err := src.bytesAt(TextHeaderSize, BinaryHeaderSize, nil)
-	if err != nil {
-		return nil, src.errf(-1, TextHeaderSize+1, "reading binary header: %v", err)
+	if err := src.hold(-1); err != nil {
+		return nil, err
 	}
-	copy(bin[:60], b[:60])
-	if src.order == binary.ByteOrder(binary.LittleEndian) {
+	err := src.guardFault(-1, TextHeaderSize, func() error {
+		b, err := src.bytesAt(TextHeaderSize, BinaryHeaderSize, nil)
+		if err != nil {
+			return src.errf(-1, TextHeaderSize+1, "reading binary header: %v", err)
+		}
+		copy(bin[:60], b[:60])
+		return nil
+	})
+	src.mu.RUnlock()
+	if err != nil {
+		return nil, err
+	}
+	little := src.order == binary.ByteOrder(binary.LittleEndian)
+	if little {
 		swapWords(bin, binaryHeaderWords, 3201)
 	}
 	text := opt.TextHeader
@@ -75,21 +90,26 @@ func Create(dst string, src *File, opt WriteOptions) (*Writer, error) {
 	delay := 0
 	timeSc := 0
 	if src.ntraces > 0 {
-		if h, err := src.traceHeaderBytes(0, nil); err == nil {
-			delay = i16(h, thDelay, 1, src.order)
-			timeSc = i16(h, thTimeScalar, 1, src.order)
+		if h, err := src.TraceHeader(0); err == nil {
+			delay = i16(h.Raw[:], thDelay, 1, src.order)
+			timeSc = i16(h.Raw[:], thTimeScalar, 1, src.order)
 		}
 	}
-	return newWriter(dst, text, bin, src.samples, src.info.IntervalUS, delay, timeSc, opt)
+	extra := src.extraHeaders
+	if little {
+		extra = min(extra, 1)
+	}
+	return newWriter(w, name, text, bin, src.samples, src.info.IntervalUS, delay, timeSc, extra, little, opt)
 }
 
-// CreateNew starts a file from scratch with the given sampling.
-func CreateNew(dst string, spec NewSpec, opt WriteOptions) (*Writer, error) {
+// NewWriterSpec starts a file from scratch with the given sampling,
+// written to w; name is used in messages.
+func NewWriterSpec(w io.Writer, name string, spec NewSpec, opt WriteOptions) (*Writer, error) {
 	if spec.Samples <= 0 || spec.Samples > math.MaxUint16 {
-		return nil, fmt.Errorf("segy.CreateNew %s: samples per trace %d outside 1..65535", dst, spec.Samples)
+		return nil, fmt.Errorf("segy: write %s: samples per trace %d outside 1..65535", name, spec.Samples)
 	}
 	if spec.IntervalUS <= 0 || spec.IntervalUS > math.MaxInt16 {
-		return nil, fmt.Errorf("segy.CreateNew %s: sample interval %d us outside 1..32767", dst, spec.IntervalUS)
+		return nil, fmt.Errorf("segy: write %s: sample interval %d us outside 1..32767", name, spec.IntervalUS)
 	}
 	text := opt.TextHeader
 	if text == "" {
@@ -104,9 +124,9 @@ func CreateNew(dst string, spec NewSpec, opt WriteOptions) (*Writer, error) {
 	binary.BigEndian.PutUint16(bin[binSorting-3201:], 4) // trace sorting: horizontally stacked
 	delay, timeSc, err := encodeDelay(spec.StartMS)
 	if err != nil {
-		return nil, fmt.Errorf("segy.CreateNew %s: %w", dst, err)
+		return nil, fmt.Errorf("segy: write %s: %w", name, err)
 	}
-	return newWriter(dst, text, bin, spec.Samples, spec.IntervalUS, delay, timeSc, opt)
+	return newWriter(w, name, text, bin, spec.Samples, spec.IntervalUS, delay, timeSc, 0, false, opt)
 }
 
 // encodeDelay expresses a start time in ms as the int16 delay recording
@@ -134,16 +154,16 @@ func encodeDelay(ms float64) (delay, scalar int, err error) {
 	return best, -bestSc, nil
 }
 
-func newWriter(dst, text string, bin []byte, samples, interval, delay, timeSc int, opt WriteOptions) (*Writer, error) {
+func newWriter(out io.Writer, name, text string, bin []byte, samples, interval, delay, timeSc, extra int, swapExt1 bool, opt WriteOptions) (*Writer, error) {
 	format := opt.Format
 	if format == 0 {
 		format = 5
 	}
 	if format != 1 && format != 5 {
-		return nil, fmt.Errorf("segy: write %s: sample format %d not supported for writing (1 = IBM, 5 = IEEE)", dst, format)
+		return nil, fmt.Errorf("segy: write %s: sample format %d not supported for writing (1 = IBM, 5 = IEEE)", name, format)
 	}
 	if samples <= 0 || samples > math.MaxUint16 {
-		return nil, fmt.Errorf("segy: write %s: samples per trace %d outside 1..65535", dst, samples)
+		return nil, fmt.Errorf("segy: write %s: samples per trace %d outside 1..65535", name, samples)
 	}
 	if interval > math.MaxInt16 || interval < 0 {
 		interval = 0
@@ -158,50 +178,29 @@ func newWriter(dst, text string, bin []byte, samples, interval, delay, timeSc in
 		bin[i] = 0
 	}
 	bin[binRevision-3201] = 1 // SEG-Y rev 1: 0x0100
+	if extra > 0 {
+		// SEG-Y rev 2.0: major 2, minor 0, the byte-order word, and the
+		// number of additional trace headers
+		bin[binRevision-3201], bin[binRevision-3200] = 2, 0
+		o.PutUint32(bin[binByteOrder-3201:], byteOrderMagic)
+		o.PutUint16(bin[binExtraHeaders-3201:], uint16(extra))
+	}
 	o.PutUint16(bin[binFixedLength-3201:], 1)
 	o.PutUint16(bin[binExtTextHeaders-3201:], 0)
 
-	dir := filepath.Dir(dst)
-	fh, err := os.CreateTemp(dir, "."+filepath.Base(dst)+".tmp-*")
-	if err != nil {
-		return nil, fmt.Errorf("segy: write %s: %w", dst, err)
-	}
-	w := &Writer{dst: dst, tmp: fh.Name(), fh: fh, bw: bufio.NewWriterSize(fh, 1<<20),
+	w := &Writer{name: name, bw: bufio.NewWriterSize(out, 1<<20),
 		format: format, samples: samples, interval: interval, delayMS: delay, timeSc: timeSc,
-		buf: make([]byte, TraceHeaderSize+4*samples)}
+		extra: extra, swapExt1: swapExt1,
+		buf: make([]byte, TraceHeaderSize*(1+extra)+4*samples)}
 	if _, err := w.bw.Write(encodeText(text)); err != nil {
 		w.Abort()
-		return nil, fmt.Errorf("segy: write %s: %w", dst, err)
+		return nil, fmt.Errorf("segy: write %s: %w", name, err)
 	}
 	if _, err := w.bw.Write(bin); err != nil {
 		w.Abort()
-		return nil, fmt.Errorf("segy: write %s: %w", dst, err)
+		return nil, fmt.Errorf("segy: write %s: %w", name, err)
 	}
 	return w, nil
-}
-
-// refuseInput fails when dst names the input file, directly, through a
-// symlink, or as another hard link to the same inode.
-func refuseInput(dst, input string) error {
-	same := func(a, b string) bool {
-		if aa, err := filepath.Abs(a); err == nil {
-			if bb, err := filepath.Abs(b); err == nil && aa == bb {
-				return true
-			}
-		}
-		if ra, err := filepath.EvalSymlinks(a); err == nil {
-			if rb, err := filepath.EvalSymlinks(b); err == nil && ra == rb {
-				return true
-			}
-		}
-		sa, err1 := os.Stat(a)
-		sb, err2 := os.Stat(b)
-		return err1 == nil && err2 == nil && os.SameFile(sa, sb)
-	}
-	if same(dst, input) {
-		return fmt.Errorf("segy: refusing to write %s: it is the input file %s", dst, input)
-	}
-	return nil
 }
 
 // NewTraceHeader builds a big-endian revision 1 trace header: inline and
@@ -244,13 +243,16 @@ func NewTraceHeader(inline, crossline int, cdpx, cdpy float64) TraceHeader {
 // decoded fields of h are not consulted): it is converted to big-endian and
 // its sample count (bytes 115-116) and interval (117-118) are set to the
 // file's; a zero delay (109-110) with time scalar is filled from the
-// writer's start time. len(samples) must equal the file's sample count.
+// writer's start time. The additional headers of h.Extra follow when the
+// file carries them (zeros where h has fewer), with extension 1's sample
+// count and interval set too. len(samples) must equal the file's sample
+// count.
 func (w *Writer) WriteTrace(h TraceHeader, samples []float32) error {
 	if w.done {
-		return fmt.Errorf("segy: write %s: writer already committed or aborted", w.dst)
+		return fmt.Errorf("segy: write %s: writer already finished or aborted", w.name)
 	}
 	if len(samples) != w.samples {
-		return fmt.Errorf("segy: write %s: trace %d has %d samples, the file has %d", w.dst, w.traces, len(samples), w.samples)
+		return fmt.Errorf("segy: write %s: trace %d has %d samples, the file has %d", w.name, w.traces, len(samples), w.samples)
 	}
 	b := w.buf
 	copy(b[:TraceHeaderSize], h.Raw[:])
@@ -264,7 +266,18 @@ func (w *Writer) WriteTrace(h TraceHeader, samples []float32) error {
 		o.PutUint16(b[thDelay-1:], uint16(int16(w.delayMS)))
 		o.PutUint16(b[thTimeScalar-1:], uint16(int16(w.timeSc)))
 	}
-	d := b[TraceHeaderSize:]
+	hdr := TraceHeaderSize * (1 + w.extra)
+	if w.extra > 0 {
+		x := b[TraceHeaderSize:hdr]
+		clear(x)
+		copy(x, h.Extra)
+		if h.little {
+			swapExt1(x[:TraceHeaderSize])
+		}
+		o.PutUint32(x[ext1Samples-1:], uint32(w.samples))
+		o.PutUint64(x[ext1Interval-1:], math.Float64bits(float64(w.interval)))
+	}
+	d := b[hdr:]
 	if w.format == 1 {
 		for i, v := range samples {
 			o.PutUint32(d[4*i:], Float32ToIBM(v))
@@ -275,51 +288,54 @@ func (w *Writer) WriteTrace(h TraceHeader, samples []float32) error {
 		}
 	}
 	if _, err := w.bw.Write(b); err != nil {
-		return fmt.Errorf("segy: write %s: trace %d: %w", w.dst, w.traces, err)
+		return fmt.Errorf("segy: write %s: trace %d: %w", w.name, w.traces, err)
 	}
 	w.traces++
 	return nil
 }
 
-// Commit flushes, syncs and renames the temporary file into place, with
-// mode 0644.
-func (w *Writer) Commit() error {
+// swapExt1 reverses the byte order of the fields of trace header
+// extension 1 (SEG-Y rev 2.0 table 4): four 8-byte integers (1-32),
+// thirteen doubles (33-136), 4-byte fields at 137-156, 2-byte fields at
+// 157-160, two doubles (161-176); 177-232 are unassigned (left as read)
+// and 233-240 are characters.
+func swapExt1(x []byte) {
+	rev := func(b []byte) {
+		for i, j := 0, len(b)-1; i < j; i, j = i+1, j-1 {
+			b[i], b[j] = b[j], b[i]
+		}
+	}
+	for p := 0; p < 136; p += 8 {
+		rev(x[p : p+8])
+	}
+	rev(x[136:140])
+	rev(x[140:144])
+	rev(x[144:152])
+	rev(x[152:156])
+	rev(x[156:158])
+	rev(x[158:160])
+	rev(x[160:168])
+	rev(x[168:176])
+}
+
+// Finish flushes what is buffered to the io.Writer. It does not close,
+// sync or rename anything: that is the caller's file-system policy.
+func (w *Writer) Finish() error {
 	if w.done {
-		return fmt.Errorf("segy: write %s: writer already committed or aborted", w.dst)
+		return fmt.Errorf("segy: write %s: writer already finished or aborted", w.name)
 	}
 	w.done = true
-	err := w.bw.Flush()
-	if err == nil {
-		// CreateTemp makes the file 0600; a finished export is an
-		// ordinary readable file.
-		err = w.fh.Chmod(0o644)
-	}
-	if err == nil {
-		err = w.fh.Sync()
-	}
-	if cerr := w.fh.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Rename(w.tmp, w.dst)
-	}
-	if err != nil {
-		os.Remove(w.tmp)
-		return fmt.Errorf("segy: write %s: %w", w.dst, err)
+	if err := w.bw.Flush(); err != nil {
+		return fmt.Errorf("segy: write %s: %w", w.name, err)
 	}
 	return nil
 }
 
-// Abort discards the temporary file. It is safe to call after Commit (it
-// then does nothing).
+// Abort stops the writer: later writes fail. What was written stays in
+// the io.Writer; discarding it is the caller's file-system policy (an
+// app/outfile output is discarded by its Abort). Safe to call after
+// Finish and more than once.
 func (w *Writer) Abort() error {
-	if w.done {
-		return nil
-	}
 	w.done = true
-	w.fh.Close()
-	if err := os.Remove(w.tmp); err != nil && !os.IsNotExist(err) {
-		return err
-	}
 	return nil
 }

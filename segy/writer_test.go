@@ -1,6 +1,7 @@
 package segy
 
 import (
+	"bytes"
 	"encoding/binary"
 	"math"
 	"os"
@@ -14,7 +15,7 @@ import (
 // copyVolume writes every trace of src to dst with the given options.
 func copyVolume(t *testing.T, src *File, dst string, opt WriteOptions) {
 	t.Helper()
-	w, err := Create(dst, src, opt)
+	w, err := createFile(dst, src, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -82,71 +83,45 @@ func TestWriterCopiesCorpus(t *testing.T) {
 	}
 }
 
-func TestWriterRefusesItsInput(t *testing.T) {
-	dir := t.TempDir()
-	data := base3D().Bytes()
-	in := filepath.Join(dir, "in.sgy")
-	if err := os.WriteFile(in, data, 0o644); err != nil {
-		t.Fatal(err)
-	}
-	os.Symlink(in, filepath.Join(dir, "link.sgy"))
-	os.Link(in, filepath.Join(dir, "hard.sgy"))
-	src := openT(t, in, Options{})
-	wd, _ := os.Getwd()
-	rel, _ := filepath.Rel(wd, in)
-	for _, dst := range []string{in, filepath.Join(dir, "link.sgy"), filepath.Join(dir, "hard.sgy"), filepath.Join(dir, ".", "in.sgy"), rel} {
-		w, err := Create(dst, src, WriteOptions{})
-		if err == nil {
-			w.Abort()
-			t.Errorf("Create(%s) over its input succeeded", dst)
-		} else if !strings.Contains(err.Error(), "input file") {
-			t.Errorf("error %v", err)
-		}
-	}
-	after, _ := os.ReadFile(in)
-	if string(after) != string(data) {
-		t.Error("input changed")
-	}
-	entries, _ := os.ReadDir(dir)
-	if len(entries) != 3 {
-		t.Errorf("directory holds %d entries, want the 3 we made", len(entries))
-	}
-}
-
-func TestWriterAbortAndAtomicity(t *testing.T) {
-	dir := t.TempDir()
-	dst := filepath.Join(dir, "new.sgy")
-	w, err := CreateNew(dst, NewSpec{Samples: 10, IntervalUS: 2000, StartMS: 100}, WriteOptions{Format: 1})
+// TestWriterRefusals: what the writer itself refuses (traces of the
+// wrong length, sample counts and formats it cannot write). Destinations
+// (the input itself, links, devices) are app/outfile's policy and tested
+// there.
+func TestWriterRefusals(t *testing.T) {
+	var out bytes.Buffer
+	w, err := NewWriterSpec(&out, "new.sgy", NewSpec{Samples: 10, IntervalUS: 2000, StartMS: 100}, WriteOptions{Format: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if err := w.WriteTrace(NewTraceHeader(1, 1, 0, 0), make([]float32, 10)); err != nil {
 		t.Fatal(err)
 	}
-	if _, err := os.Stat(dst); !os.IsNotExist(err) {
-		t.Error("destination exists before Commit")
-	}
 	if err := w.WriteTrace(NewTraceHeader(1, 2, 0, 0), make([]float32, 9)); err == nil {
 		t.Error("short trace accepted")
 	}
-	w.Abort()
-	if entries, _ := os.ReadDir(dir); len(entries) != 0 {
-		t.Errorf("Abort left %v", entries)
+	if err := w.Finish(); err != nil {
+		t.Fatal(err)
 	}
-	if _, err := CreateNew(dst, NewSpec{Samples: 0, IntervalUS: 2000}, WriteOptions{}); err == nil {
+	if out.Len() != 3600+240+40 {
+		t.Errorf("wrote %d bytes, want the headers and one trace (%d)", out.Len(), 3600+240+40)
+	}
+	if err := w.WriteTrace(NewTraceHeader(1, 3, 0, 0), make([]float32, 10)); err == nil {
+		t.Error("trace accepted after Finish")
+	}
+	if _, err := NewWriterSpec(&out, "x.sgy", NewSpec{Samples: 0, IntervalUS: 2000}, WriteOptions{}); err == nil {
 		t.Error("zero samples accepted")
 	}
-	if _, err := CreateNew(dst, NewSpec{Samples: 10, IntervalUS: 2000}, WriteOptions{Format: 3}); err == nil {
+	if _, err := NewWriterSpec(&out, "x.sgy", NewSpec{Samples: 10, IntervalUS: 2000}, WriteOptions{Format: 3}); err == nil {
 		t.Error("format 3 accepted for writing")
 	}
-	if entries, _ := os.ReadDir(dir); len(entries) != 0 {
-		t.Errorf("failed creates left %v", entries)
+	if _, err := NewWriter(&out, "x.sgy", nil, WriteOptions{}); err == nil {
+		t.Error("nil source accepted")
 	}
 }
 
 func TestCreateNewRoundTrip(t *testing.T) {
 	dst := filepath.Join(t.TempDir(), "demo.sgy")
-	w, err := CreateNew(dst, NewSpec{Samples: 6, IntervalUS: 4000, StartMS: 200, TextHeader: "C 1 INVENTED DEMO SURVEY"}, WriteOptions{})
+	w, err := createNewFile(dst, NewSpec{Samples: 6, IntervalUS: 4000, StartMS: 200, TextHeader: "C 1 INVENTED DEMO SURVEY"}, WriteOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}

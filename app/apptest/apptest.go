@@ -20,6 +20,7 @@ import (
 	"testing"
 	"time"
 
+	"quadtrace/app/outfile"
 	"quadtrace/compute"
 	"quadtrace/segy"
 	"quadtrace/segy/segytest"
@@ -62,13 +63,17 @@ func (v VolumeSpec) Bytes() int64 {
 // WriteVolume writes the volume to path through the segy writer.
 func WriteVolume(t testing.TB, path string, v VolumeSpec) {
 	t.Helper()
-	w, err := segy.CreateNew(path, segy.NewSpec{Samples: v.Samples, IntervalUS: v.IntervalUS, StartMS: v.StartMS,
+	of, err := outfile.Create(path, outfile.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer of.Abort()
+	w, err := segy.NewWriterSpec(of, path, segy.NewSpec{Samples: v.Samples, IntervalUS: v.IntervalUS, StartMS: v.StartMS,
 		TextHeader: "C 1 INVENTED TEST VOLUME FOR THE QUADTRACE EXPORT TESTS\nC 2 SURVEY: HARROWMERE TEST BLOCK\nC40 END TEXTUAL HEADER"},
 		segy.WriteOptions{Format: 5})
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer w.Abort()
 	bank := TraceBank(v.Samples, v.IntervalUS, 97)
 	tr := make([]float32, v.Samples)
 	for il := v.Inlines[0]; il <= v.Inlines[1]; il++ {
@@ -84,7 +89,10 @@ func WriteVolume(t testing.TB, path string, v VolumeSpec) {
 			}
 		}
 	}
-	if err := w.Commit(); err != nil {
+	if err := w.Finish(); err != nil {
+		t.Fatal(err)
+	}
+	if err := of.Commit(); err != nil {
 		t.Fatal(err)
 	}
 }
@@ -252,12 +260,18 @@ func BenchVolume(b testing.TB, v VolumeSpec) string {
 	return path
 }
 
-// StrayTemps lists the segy writer's temporary files (".NAME.tmp-*") in dir.
+// StrayTemps lists temporary files of ours in dir: app/outfile's named
+// temporaries (".NAME.quadtrace-tmp-*") and the older writer pattern
+// (".NAME.tmp-*").
 func StrayTemps(t testing.TB, dir string) []string {
 	t.Helper()
-	m, err := filepath.Glob(filepath.Join(dir, ".*.tmp-*"))
-	if err != nil {
-		t.Fatal(err)
+	var all []string
+	for _, pat := range []string{".*.tmp-*", ".*.quadtrace-tmp-*", ".*.tmp"} {
+		m, err := filepath.Glob(filepath.Join(dir, pat))
+		if err != nil {
+			t.Fatal(err)
+		}
+		all = append(all, m...)
 	}
-	return m
+	return all
 }

@@ -61,7 +61,7 @@ func Export(args []string, stdout, stderr io.Writer) int {
 			ByteOrder: a.byteOrder},
 		Attributes: a.attributes, Params: a.params, Conditioning: cond,
 		Output: a.out, Format: a.format, Inlines: a.inlines, Crosslines: a.crosslines,
-		BudgetBytes: a.budget,
+		BudgetBytes: a.budget, FollowLinks: a.followLinks,
 	}
 
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)

@@ -28,6 +28,7 @@ type exportArgs struct {
 	inlineByte    int    // 0: the reader's default
 	crosslineByte int    // 0: the reader's default
 	byteOrder     string // "", "big" or "little"
+	followLinks   bool   // --follow-links: write at the target of a symbolic link --out
 }
 
 // errHelp is returned by the parsers when -h or --help was given.
@@ -45,7 +46,9 @@ options:
   --param NAME=VALUE      set a parameter of every chosen attribute that has it; repeatable
   --condition SPEC        conditioning before the attributes: bandpass=LOW-HIGH (Hz), agc=WINDOW (ms),
                           comma-separated, e.g. bandpass=8-60,agc=500
-  --out PATH              destination file or folder
+  --out PATH              destination file or folder (outputs appear only when all are complete;
+                          devices, FIFOs, the input and symbolic links are refused)
+  --follow-links          write at the target when --out is a symbolic link
   --format ieee|ibm       sample format of the outputs (default ieee, code 5; ibm is code 1)
   --inlines A:B           export only inlines A to B (inclusive)
   --crosslines A:B        export only crosslines A to B (inclusive)
@@ -105,6 +108,7 @@ func parseExportArgs(args []string, stderr io.Writer) (*exportArgs, error) {
 	fs.StringVar(&budget, "budget", "", "")
 	fs.StringVar(&progress, "progress", "", "")
 	fs.BoolVar(&quiet, "quiet", false, "")
+	fs.BoolVar(&a.followLinks, "follow-links", false, "")
 	fs.IntVar(&a.inlineByte, "inline-byte", 0, "")
 	fs.IntVar(&a.crosslineByte, "crossline-byte", 0, "")
 	fs.StringVar(&byteOrder, "byte-order", "", "")

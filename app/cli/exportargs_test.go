@@ -74,12 +74,12 @@ func TestParseExportArgs(t *testing.T) {
 }
 
 func TestParseJoinArgs(t *testing.T) {
-	parts, out, quiet, err := parseJoinArgs(strings.Fields("a.sgy --out all.sgy b.sgy c.sgy --quiet"), io.Discard)
+	parts, out, quiet, _, err := parseJoinArgs(strings.Fields("a.sgy --out all.sgy b.sgy c.sgy --quiet"), io.Discard)
 	if err != nil || !reflect.DeepEqual(parts, []string{"a.sgy", "b.sgy", "c.sgy"}) || out != "all.sgy" || !quiet {
 		t.Errorf("join args: %v %q %v %v", parts, out, quiet, err)
 	}
 	for _, bad := range []string{"--out all.sgy", "a.sgy b.sgy", "a.sgy --out"} {
-		if _, _, _, err := parseJoinArgs(strings.Fields(bad), io.Discard); err == nil {
+		if _, _, _, _, err := parseJoinArgs(strings.Fields(bad), io.Discard); err == nil {
 			t.Errorf("join %q: no error", bad)
 		}
 	}

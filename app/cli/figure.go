@@ -10,8 +10,10 @@ import (
 	"os/signal"
 	"strconv"
 	"strings"
+	"syscall"
 
 	"quadtrace/app/figure"
+	"quadtrace/app/outfile"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
@@ -57,6 +59,8 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	fs.BoolVar(&r.Wiggle, "wiggle", false, "draw amplitude wiggles over the section")
 	fs.StringVar(&r.Title, "title", "", "figure title (default: survey, line and attribute)")
 	fs.StringVar(&out, "out", "", "output PNG path")
+	var followLinks bool
+	fs.BoolVar(&followLinks, "follow-links", false, "write at the target when --out is a symbolic link (refused otherwise)")
 	options := segyFlags(fs)
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: quadtrace figure (FILE | --demo) (--inline N | --crossline N | --time MS) --attribute ID [--param NAME=VALUE] [--overlay ID --opacity X] [--palette NAME] [--clip PCT] [--size WxH] [--dpi N] --out FIG.png")
@@ -121,23 +125,49 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	if err != nil {
 		return fail(2, err)
 	}
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	// SIGINT and SIGTERM stop every stage: the open and header scan, the
+	// computation, the drawing, and the writing (nothing is left then).
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
+	interrupted := func() int {
+		fmt.Fprintln(stderr, "quadtrace figure: interrupted; nothing written")
+		return exitInterrupted
+	}
 	var v *volume.Volume
+	var inputs []string
+	if !demo {
+		inputs = []string{file}
+	}
+	outOpt := outfile.Options{Inputs: inputs, FollowSymlink: followLinks}
+	if err := outfile.Check(out, outOpt); err != nil { // refused before any work
+		return fail(1, err)
+	}
 	if demo {
 		v, err = volume.Demo(ctx, synth.DefaultConfig(), nil)
 	} else {
-		v, err = volume.Open(file, opt)
+		v, err = volume.OpenContext(ctx, file, opt)
+	}
+	if ctx.Err() != nil {
+		if v != nil {
+			v.Close()
+		}
+		return interrupted()
 	}
 	if err != nil {
 		return fail(1, err)
 	}
 	defer v.Close()
 	img, err := figure.Draw(ctx, v, r)
+	if ctx.Err() != nil {
+		return interrupted()
+	}
 	if err != nil {
 		return fail(1, err)
 	}
-	if err := figure.WritePNG(out, img, r.DPI); err != nil {
+	if err := figure.WritePNG(ctx, out, img, r.DPI, outOpt); err != nil {
+		if ctx.Err() != nil {
+			return interrupted()
+		}
 		return fail(1, err)
 	}
 	fmt.Fprintln(stdout, out)

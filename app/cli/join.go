@@ -18,7 +18,7 @@ import (
 // command line, 130 interrupted). It checks the parts and concatenates their
 // traces in the order given through the segy writer: see export.Join.
 func Join(args []string, stdout, stderr io.Writer) int {
-	parts, out, quiet, err := parseJoinArgs(args, stderr)
+	parts, out, quiet, follow, err := parseJoinArgs(args, stderr)
 	if errors.Is(err, errHelp) {
 		return exitOK
 	}
@@ -28,7 +28,7 @@ func Join(args []string, stdout, stderr io.Writer) int {
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
-	n, err := export.Join(ctx, parts, out)
+	n, err := export.Join(ctx, parts, out, export.JoinOptions{FollowLinks: follow})
 	if err != nil {
 		if ctx.Err() != nil {
 			fmt.Fprintln(stderr, "quadtrace join: interrupted; nothing written")
@@ -45,26 +45,27 @@ func Join(args []string, stdout, stderr io.Writer) int {
 }
 
 // parseJoinArgs reads `join PART... --out FILE`.
-func parseJoinArgs(args []string, stderr io.Writer) (parts []string, out string, quiet bool, err error) {
+func parseJoinArgs(args []string, stderr io.Writer) (parts []string, out string, quiet, follow bool, err error) {
 	fs := flag.NewFlagSet("join", flag.ContinueOnError)
 	fs.SetOutput(io.Discard)
 	fs.StringVar(&out, "out", "", "")
 	fs.BoolVar(&quiet, "quiet", false, "")
+	fs.BoolVar(&follow, "follow-links", false, "")
 	parts, err = parseInterspersed(fs, args)
 	if err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			fmt.Fprint(stderr, joinUsage)
-			return nil, "", false, errHelp
+			return nil, "", false, false, errHelp
 		}
-		return nil, "", false, err
+		return nil, "", false, false, err
 	}
 	if len(parts) == 0 {
-		return nil, "", false, errors.New("no PART given")
+		return nil, "", false, false, errors.New("no PART given")
 	}
 	if out == "" {
-		return nil, "", false, errors.New("--out: no destination given")
+		return nil, "", false, false, errors.New("--out: no destination given")
 	}
-	return parts, out, quiet, nil
+	return parts, out, quiet, follow, nil
 }
 
 const joinUsage = `usage: quadtrace join PART... --out FILE
@@ -77,6 +78,8 @@ cut from, their traces must add up to it, otherwise they must fill a regular
 grid.
 
 options:
-  --out FILE   the joined volume (written to a temporary file, renamed when complete)
-  --quiet      print nothing on success
+  --out FILE       the joined volume (appears only when complete; a device,
+                   FIFO, folder, symbolic link or one of the parts is refused)
+  --follow-links   write at the target when --out is a symbolic link
+  --quiet          print nothing on success
 `

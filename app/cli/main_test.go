@@ -17,6 +17,10 @@ func TestMain(m *testing.M) {
 		os.Exit(Export(os.Args[1:], os.Stdout, os.Stderr))
 	case "join":
 		os.Exit(Join(os.Args[1:], os.Stdout, os.Stderr))
+	case "scan":
+		os.Exit(Scan(os.Args[1:], os.Stdout, os.Stderr))
+	case "figure":
+		os.Exit(Figure(os.Args[1:], os.Stdout, os.Stderr))
 	}
 	os.Exit(m.Run())
 }

@@ -5,11 +5,15 @@
 package cli
 
 import (
+	"context"
 	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
+	"os"
+	"os/signal"
 	"strings"
+	"syscall"
 
 	"quadtrace/segy"
 )
@@ -149,7 +153,17 @@ func Scan(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "quadtrace scan:", err)
 		return 2
 	}
-	f, err := segy.Open(pos[0], opt)
+	// SIGINT and SIGTERM stop the header scan of a large file.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	f, err := segy.OpenContext(ctx, pos[0], opt)
+	if ctx.Err() != nil {
+		if f != nil {
+			f.Close()
+		}
+		fmt.Fprintln(stderr, "quadtrace scan: interrupted")
+		return exitInterrupted
+	}
 	if err != nil {
 		fmt.Fprintln(stderr, "quadtrace scan:", err)
 		return 1

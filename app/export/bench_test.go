@@ -1,3 +1,9 @@
+//go:build linux
+
+// Linux only: BenchmarkExportPeakMemory reads ru_maxrss, a field of
+// getrusage(2) that Windows lacks, and the speed benchmarks time cp and
+// /usr/bin/python3.
+
 package export
 
 import (

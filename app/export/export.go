@@ -9,6 +9,7 @@ import (
 	"strings"
 	"time"
 
+	"quadtrace/app/outfile"
 	"quadtrace/compute"
 	"quadtrace/segy"
 )
@@ -40,6 +41,9 @@ type plan struct {
 	inlines    *Range
 	crosslines *Range
 	budget     int64
+	// followLinks writes at the target of a destination that is a
+	// symbolic link (refused otherwise, see app/outfile)
+	followLinks bool
 }
 
 // runPlan exports the stages of p; see Run for the contract.
@@ -64,7 +68,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	// The input is opened read-only and read with ordinary reads rather
 	// than mapped: a mapping of the whole volume would count in the
 	// process's resident memory as it is read, defeating the budget.
-	fh, err := os.Open(p.input)
+	fh, err := segy.OpenRegular(p.input) // refuses FIFOs, devices, folders without blocking
 	if err != nil {
 		return nil, fmt.Errorf("export: %w", err)
 	}
@@ -73,11 +77,8 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	if err != nil {
 		return nil, fmt.Errorf("export: %w", err)
 	}
-	if st.IsDir() {
-		return nil, fmt.Errorf("export: %s is a folder, not a SEG-Y file", p.input)
-	}
 	win := &windowReader{r: fh}
-	src, err := segy.OpenReaderAt(win, st.Size(), p.input, p.options)
+	src, err := segy.OpenReaderAtContext(ctx, win, st.Size(), p.input, p.options)
 	if err != nil {
 		return nil, fmt.Errorf("export: %w", err)
 	}
@@ -90,15 +91,10 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, fmt.Errorf("export: %s: sample interval unknown (0 in the binary and trace headers)", p.input)
 	}
 
-	dsts, madeDir, err := destinations(p.input, p.output, p.stages)
+	dsts, err := destinations(p.input, p.output, p.stages)
 	if err != nil {
 		return nil, err
 	}
-	defer func() {
-		if err != nil && madeDir != "" {
-			os.Remove(madeDir) // only succeeds when empty: never takes anything else with it
-		}
-	}()
 
 	runs, err := selectRuns(info.Traces, p.inlines, p.crosslines, func(i int) (int, int, error) {
 		h, err := src.TraceHeader(i)
@@ -125,18 +121,23 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, fmt.Errorf("export: %w", err)
 	}
 
-	writers := make([]*segy.Writer, 0, len(p.stages))
+	// The outputs are one outfile.Set: unnamed temporary files until every
+	// one is complete, then all put in place or none (see app/outfile).
+	outs := outfile.NewSet(outfile.Options{Inputs: []string{p.input}, FollowSymlink: p.followLinks})
 	defer func() {
 		if err != nil {
-			for _, w := range writers {
-				w.Abort()
-			}
+			outs.Abort()
 		}
 	}()
+	writers := make([]*segy.Writer, 0, len(p.stages))
 	for k, s := range p.stages {
 		text := textHeader(headerFacts{stage: s, cond: p.cond.describe, input: p.input, info: info,
 			inlines: p.inlines, crosslines: p.crosslines, traces: total, format: p.format})
-		w, err := segy.Create(dsts[k], src, segy.WriteOptions{Format: p.format, TextHeader: text})
+		of, err := outs.Create(dsts[k])
+		if err != nil {
+			return nil, fmt.Errorf("export: %w", err)
+		}
+		w, err := segy.NewWriter(of, dsts[k], src, segy.WriteOptions{Format: p.format, TextHeader: text})
 		if err != nil {
 			return nil, fmt.Errorf("export: %w", err)
 		}
@@ -187,20 +188,26 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		}
 		return nil, fmt.Errorf("export %s: %w", p.input, err)
 	}
-	for k, w := range writers {
-		if err = w.Commit(); err != nil {
-			return dsts[:k], fmt.Errorf("export: %w", err)
+	for _, w := range writers {
+		if err = w.Finish(); err != nil {
+			return nil, fmt.Errorf("export: %w", err)
 		}
+	}
+	if err = ctx.Err(); err != nil {
+		return nil, err
+	}
+	if err = outs.Commit(); err != nil {
+		return nil, fmt.Errorf("export: %w", err)
 	}
 	return dsts, nil
 }
 
 // destinations returns the output path of each stage: output itself for a
 // single attribute (or output/<stem>-<id>.sgy when output is an existing
-// folder), and output/<stem>-<id>.sgy for several, creating the folder
-// output when it does not exist (madeDir then names it, for removal on
-// failure). It refuses a destination that is the input file.
-func destinations(input, output string, stages []stage) (dsts []string, madeDir string, err error) {
+// folder), and output/<stem>-<id>.sgy for several (app/outfile makes the
+// folder when it does not exist, and removes it again on failure). It
+// refuses a destination that is the input file.
+func destinations(input, output string, stages []stage) (dsts []string, err error) {
 	stem := strings.TrimSuffix(filepath.Base(input), filepath.Ext(input))
 	named := func(dir string) []string {
 		out := make([]string, len(stages))
@@ -214,29 +221,22 @@ func destinations(input, output string, stages []stage) (dsts []string, madeDir 
 	switch {
 	case len(stages) == 1 && !isDir:
 		if strings.HasSuffix(output, string(filepath.Separator)) {
-			return nil, "", fmt.Errorf("export: output folder %s does not exist", output)
+			return nil, fmt.Errorf("export: output folder %s does not exist", output)
 		}
 		dsts = []string{output}
 	case isDir:
 		dsts = named(output)
 	case statErr == nil:
-		return nil, "", fmt.Errorf("export: %d attributes need a folder for --out, and %s is a file", len(stages), output)
+		return nil, fmt.Errorf("export: %d attributes need a folder for --out, and %s is a file", len(stages), output)
 	default:
-		if err := os.Mkdir(output, 0o777); err != nil {
-			return nil, "", fmt.Errorf("export: making output folder: %w", err)
-		}
-		madeDir = output
 		dsts = named(output)
 	}
 	for _, d := range dsts {
 		if sameFile(d, input) {
-			if madeDir != "" {
-				os.Remove(madeDir)
-			}
-			return nil, "", fmt.Errorf("export: refusing to write %s: it is the input file", d)
+			return nil, fmt.Errorf("export: refusing to write %s: it is the input file", d)
 		}
 	}
-	return dsts, madeDir, nil
+	return dsts, nil
 }
 
 // sameFile reports whether paths a and b name the same file: the same

@@ -58,7 +58,7 @@ func expected(t *testing.T, in compute.Section, id string, params map[string]str
 // original-recording copies of interval and sample count that the segy
 // writer sets); its textual header records attribute, parameters,
 // conditioning, source and version. The IBM case starts from
-// ../shared/segy-corpus/small.sgy, written by segyio itself.
+// testdata/segy-corpus/small.sgy, written by segyio itself.
 func TestExportReadBackBySegyio(t *testing.T) {
 	segytest.NeedPython(t, "segyio", "numpy")
 	dir := t.TempDir()
@@ -241,7 +241,7 @@ func TestExportPartsJoinToTheWholeExport(t *testing.T) {
 				parts = append(parts, p)
 			}
 			joined := filepath.Join(dir, "joined.sgy")
-			if _, err := Join(context.Background(), parts, joined); err != nil {
+			if _, err := Join(context.Background(), parts, joined, JoinOptions{}); err != nil {
 				t.Fatalf("format %d %s: join: %v", format, split.name, err)
 			}
 			wh, wd := apptest.TraceSampleBytes(t, whole, v.Samples)
@@ -440,6 +440,20 @@ func TestJoinRefusesBadParts(t *testing.T) {
 		return p
 	}
 	a, b, c := part("a.sgy", &Range{1, 2}, 5), part("b.sgy", &Range{3, 4}, 5), part("c.sgy", &Range{5, 6}, 5)
+	// Parts of another attribute, other parameters, another source file
+	// (a copy of in under another name) for issue 18.5.
+	partOf := func(name, input string, attrs []string, params map[string]string, il *Range) string {
+		p := filepath.Join(dir, name)
+		if _, err := Run(context.Background(), Job{Input: input, Attributes: attrs, Params: params, Output: p, Inlines: il}, nil); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	bPhase := partOf("b-phase.sgy", in, []string{"instantaneous-phase"}, nil, &Range{3, 4})
+	bTaper := partOf("b-taper.sgy", in, []string{"envelope"}, map[string]string{"taper": "20"}, &Range{3, 4})
+	in2 := filepath.Join(dir, "in2.sgy")
+	apptest.WriteVolume(t, in2, apptest.VolumeSpec{Inlines: [2]int{1, 6}, Crosslines: [2]int{1, 5}, Samples: 80, IntervalUS: 4000})
+	bOther := partOf("b-other.sgy", in2, []string{"envelope"}, nil, &Range{3, 4})
 	bIBM := part("b-ibm.sgy", &Range{3, 4}, 1)
 	ab := part("ab.sgy", &Range{1, 4}, 5)
 	out := filepath.Join(dir, "joined.sgy")
@@ -456,10 +470,16 @@ func TestJoinRefusesBadParts(t *testing.T) {
 		{"different format", []string{a, bIBM, c}, out, "sample format 1"},
 		{"destination is a part", []string{a, b, c}, c, "one of the parts"},
 		{"raw parts with a hole", []string{rawA, rawC}, out, "inline 4 crossline 1 is missing"},
+		{"first lines missing", []string{b, c}, out, "the trace at inline 1 crossline 1 is missing"},
+		{"last lines missing", []string{a, b}, out, "the trace at inline 5 crossline 1 is missing"},
+		{"another attribute", []string{a, bPhase, c}, out, "part 2 (" + bPhase + "): attribute instantaneous-phase"},
+		{"other parameters", []string{a, bTaper, c}, out, "part 2 (" + bTaper + "): parameters"},
+		{"another source file", []string{a, bOther, c}, out, "part 2 (" + bOther + "): source file in2.sgy, part 1 has in.sgy"},
+		{"an export part with a raw volume", []string{a, rawB}, out, "part 2 (" + rawB + ") has no export records"},
 	}
 	for _, tc := range cases {
 		before := apptest.FileSum(t, tc.parts[len(tc.parts)-1])
-		_, err := Join(context.Background(), tc.parts, tc.out)
+		_, err := Join(context.Background(), tc.parts, tc.out, JoinOptions{})
 		if err == nil || !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%s: error %v; want one with %q", tc.name, err, tc.want)
 		}
@@ -475,7 +495,7 @@ func TestJoinRefusesBadParts(t *testing.T) {
 		t.Errorf("temporary files left: %v", left)
 	}
 	// Raw parts that fill their grid join.
-	if _, err := Join(context.Background(), []string{rawA, rawB}, out); err != nil {
+	if _, err := Join(context.Background(), []string{rawA, rawB}, out, JoinOptions{}); err != nil {
 		t.Errorf("raw parts filling the grid: %v", err)
 	}
 }

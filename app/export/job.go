@@ -42,21 +42,25 @@ type Job struct {
 	// fixed overhead beyond it: the command allows 64 MiB, and measured a
 	// peak of 293 MiB for a 256 MiB budget (BenchmarkExportPeakMemory).
 	BudgetBytes int64
+
+	// FollowLinks writes at the target of an output that is a symbolic
+	// link; by default such an output is refused (app/outfile).
+	FollowLinks bool
 }
 
 // Run exports the attributes of job.Input, streaming blocks of traces
 // through a reader, the attribute computation (on all cores) and the segy
 // writers, and returns the written paths in the order of job.Attributes.
 //
-// Each output is written to a temporary file beside its destination and
-// renamed into place only when every output is complete, one after the
-// other. On an error or cancellation of ctx (Run then returns ctx.Err())
-// the temporary files are removed and every destination is left as it was:
-// absent, or the previous file untouched. A process killed outright leaves
-// the destinations the same way (a stray temporary file ".NAME.tmp-*" may
-// remain beside them). The only partial outcome is a failed rename of a
-// later output after earlier ones were renamed, which Run reports with the
-// paths already in place.
+// The outputs are written through app/outfile as one set: unnamed
+// temporary files (Linux; hidden locked files elsewhere) put in place only
+// when every output is complete, all or none. On an error or cancellation
+// of ctx (Run then returns ctx.Err()) nothing is left and every
+// destination is as it was: absent, or the previous file untouched. A
+// process killed outright leaves the destinations the same way, and on
+// Linux no temporary file either. Destinations that are devices, FIFOs,
+// folders, the input, or symbolic links (unless FollowLinks) are refused
+// before anything is computed.
 //
 // progress, when not nil, is called from Run's goroutine after each block
 // is written.
@@ -75,7 +79,7 @@ func Run(ctx context.Context, job Job, progress func(Progress)) ([]string, error
 	return runPlan(ctx, plan{
 		input: job.Input, options: job.SegyOptions, stages: stages, cond: c,
 		output: job.Output, format: job.Format, inlines: job.Inlines, crosslines: job.Crosslines,
-		budget: job.BudgetBytes,
+		budget: job.BudgetBytes, followLinks: job.FollowLinks,
 	}, progress)
 }
 

@@ -5,8 +5,10 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"slices"
 	"strings"
 
+	"quadtrace/app/outfile"
 	"quadtrace/segy"
 )
 
@@ -34,7 +36,7 @@ type joinPart struct {
 // Otherwise the parts must fill the regular grid spanned by their inline
 // and crossline numbers (steps from the numbering), and the first hole is
 // reported.
-func Join(ctx context.Context, paths []string, out string) (int, error) {
+func Join(ctx context.Context, paths []string, out string, opt JoinOptions) (int, error) {
 	if len(paths) == 0 {
 		return 0, errors.New("no part given")
 	}
@@ -51,7 +53,10 @@ func Join(ctx context.Context, paths []string, out string) (int, error) {
 		}
 	}()
 	for _, path := range paths {
-		fh, err := os.Open(path)
+		if err := ctx.Err(); err != nil {
+			return 0, err
+		}
+		fh, err := segy.OpenRegular(path) // refuses FIFOs, devices, folders without blocking
 		if err != nil {
 			return 0, err
 		}
@@ -60,7 +65,7 @@ func Join(ctx context.Context, paths []string, out string) (int, error) {
 			fh.Close()
 			return 0, err
 		}
-		f, err := segy.OpenReaderAt(fh, st.Size(), path, segy.Options{})
+		f, err := segy.OpenReaderAtContext(ctx, fh, st.Size(), path, segy.Options{})
 		if err != nil {
 			fh.Close()
 			return 0, err
@@ -72,6 +77,9 @@ func Join(ctx context.Context, paths []string, out string) (int, error) {
 		parts = append(parts, p)
 	}
 	if err := checkJoinSampling(parts); err != nil {
+		return 0, err
+	}
+	if err := checkJoinRecords(parts); err != nil {
 		return 0, err
 	}
 	if err := checkJoinRepeats(ctx, parts); err != nil {
@@ -90,11 +98,16 @@ func Join(ctx context.Context, paths []string, out string) (int, error) {
 			text = rewritePartLine(text, full, total)
 		}
 	}
-	w, err := segy.Create(out, first.f, segy.WriteOptions{Format: first.info.Format, TextHeader: text})
+	inputs := slices.Clone(paths)
+	of, err := outfile.Create(out, outfile.Options{Inputs: inputs, FollowSymlink: opt.FollowLinks})
 	if err != nil {
 		return 0, err
 	}
-	defer w.Abort()
+	defer of.Abort()
+	w, err := segy.NewWriter(of, out, first.f, segy.WriteOptions{Format: first.info.Format, TextHeader: text})
+	if err != nil {
+		return 0, err
+	}
 	buf := make([]float32, first.info.Samples)
 	for _, p := range parts {
 		for i := range p.info.Traces {
@@ -113,10 +126,73 @@ func Join(ctx context.Context, paths []string, out string) (int, error) {
 			}
 		}
 	}
-	if err := w.Commit(); err != nil {
+	if err := w.Finish(); err != nil {
+		return 0, err
+	}
+	if err := ctx.Err(); err != nil {
+		return 0, err
+	}
+	if err := of.Commit(); err != nil {
 		return 0, err
 	}
 	return total, nil
+}
+
+// JoinOptions adjust Join.
+type JoinOptions struct {
+	// FollowLinks writes at the target of an output that is a symbolic
+	// link; by default such an output is refused (app/outfile).
+	FollowLinks bool
+}
+
+// checkJoinRecords requires the export records of the parts to agree: all
+// parts carry them or none does; and those that do name the same
+// attribute, parameters, conditioning and source volume (file, trace
+// count, numbering) as part 1. The error names the part that differs.
+func checkJoinRecords(parts []*joinPart) error {
+	a := parts[0]
+	for k, p := range parts {
+		if p.has != a.has {
+			lacking, lk, having, hk := p, k+1, a, 1
+			if !a.has {
+				lacking, lk, having, hk = a, 1, p, k+1
+			}
+			return fmt.Errorf("part %d (%s) has no export records (lines \"source:\" and \"part:\") in its textual header but part %d (%s) has: they are not parts of one export",
+				lk, lacking.path, hk, having.path)
+		}
+	}
+	if !a.has {
+		return nil
+	}
+	return eachAgainstFirst(parts, func(first, p *joinPart) string {
+		r, q := first.rec, p.rec
+		switch {
+		case q.attribute != r.attribute:
+			return fmt.Sprintf("attribute %s, part 1 has %s", q.attribute, r.attribute)
+		case q.params != r.params:
+			return fmt.Sprintf("parameters %q, part 1 has %q", q.params, r.params)
+		case q.cond != r.cond:
+			return fmt.Sprintf("conditioning %q, part 1 has %q", q.cond, r.cond)
+		case q.sourceFile != r.sourceFile:
+			return fmt.Sprintf("source file %s, part 1 has %s", q.sourceFile, r.sourceFile)
+		case q.sourceTraces != r.sourceTraces || q.sourceInline != r.sourceInline || q.sourceXline != r.sourceXline:
+			return fmt.Sprintf("source of %d traces, inlines %s, crosslines %s; part 1 records %d traces, inlines %s, crosslines %s",
+				q.sourceTraces, rangeRecord(q.sourceInline), rangeRecord(q.sourceXline), r.sourceTraces, rangeRecord(r.sourceInline), rangeRecord(r.sourceXline))
+		}
+		return ""
+	})
+}
+
+// eachAgainstFirst compares every part with part 1 through differ (which
+// says what differs, "" for nothing) and returns the first difference as
+// an error naming the part.
+func eachAgainstFirst(parts []*joinPart, differ func(first, p *joinPart) string) error {
+	for k, p := range parts[1:] {
+		if what := differ(parts[0], p); what != "" {
+			return fmt.Errorf("part %d (%s): %s", k+2, p.path, what)
+		}
+	}
+	return nil
 }
 
 // checkJoinSampling requires every part to share the first one's sampling
@@ -126,24 +202,20 @@ func checkJoinSampling(parts []*joinPart) error {
 	if a.Format != 1 && a.Format != 5 {
 		return fmt.Errorf("part 1 (%s): sample format %d; join writes 1 (IBM) or 5 (IEEE), the formats of the export", parts[0].path, a.Format)
 	}
-	for k, p := range parts[1:] {
-		b := p.info
-		what := ""
+	return eachAgainstFirst(parts, func(first, p *joinPart) string {
+		a, b := first.info, p.info
 		switch {
 		case b.Samples != a.Samples:
-			what = fmt.Sprintf("%d samples per trace, part 1 has %d", b.Samples, a.Samples)
+			return fmt.Sprintf("%d samples per trace, part 1 has %d", b.Samples, a.Samples)
 		case b.IntervalUS != a.IntervalUS:
-			what = fmt.Sprintf("sample interval %d us, part 1 has %d us", b.IntervalUS, a.IntervalUS)
+			return fmt.Sprintf("sample interval %d us, part 1 has %d us", b.IntervalUS, a.IntervalUS)
 		case b.StartMS != a.StartMS:
-			what = fmt.Sprintf("first sample at %g ms, part 1 at %g ms", b.StartMS, a.StartMS)
+			return fmt.Sprintf("first sample at %g ms, part 1 at %g ms", b.StartMS, a.StartMS)
 		case b.Format != a.Format:
-			what = fmt.Sprintf("sample format %d, part 1 has %d", b.Format, a.Format)
+			return fmt.Sprintf("sample format %d, part 1 has %d", b.Format, a.Format)
 		}
-		if what != "" {
-			return fmt.Errorf("part %d (%s): %s", k+2, p.path, what)
-		}
-	}
-	return nil
+		return ""
+	})
 }
 
 // checkJoinRepeats fails on a trace position that occurs twice within a
@@ -204,9 +276,17 @@ func checkJoinComplete(parts []*joinPart) (total int, whole bool, err error) {
 		return total, true, nil
 	}
 
-	// The regular grid spanned by the parts.
+	// The grid to fill: the source's, as recorded in every part (the
+	// parts must cover its first and last lines too); without records, the
+	// regular grid spanned by the parts.
 	var il, xl segy.Range
+	if sameSource {
+		il, xl = a.sourceInline, a.sourceXline
+	}
 	for k, p := range parts {
+		if sameSource {
+			break
+		}
 		if k == 0 {
 			il, xl = p.info.Inline, p.info.Crossline
 			continue
@@ -214,10 +294,12 @@ func checkJoinComplete(parts []*joinPart) (total int, whole bool, err error) {
 		il.Min, il.Max = min(il.Min, p.info.Inline.Min), max(il.Max, p.info.Inline.Max)
 		xl.Min, xl.Max = min(xl.Min, p.info.Crossline.Min), max(xl.Max, p.info.Crossline.Max)
 	}
-	il.Step, xl.Step = 0, 0
-	for _, p := range parts {
-		il.Step = gcd(gcd(il.Step, p.info.Inline.Step), p.info.Inline.Min-il.Min)
-		xl.Step = gcd(gcd(xl.Step, p.info.Crossline.Step), p.info.Crossline.Min-xl.Min)
+	if !sameSource {
+		il.Step, xl.Step = 0, 0
+		for _, p := range parts {
+			il.Step = gcd(gcd(il.Step, p.info.Inline.Step), p.info.Inline.Min-il.Min)
+			xl.Step = gcd(gcd(xl.Step, p.info.Crossline.Step), p.info.Crossline.Min-xl.Min)
+		}
 	}
 	count := func(r segy.Range) int {
 		if r.Step == 0 {

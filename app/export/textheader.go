@@ -129,6 +129,7 @@ func wrapWords(s string, width int) []string {
 // partRecord is what join reads back from lines "source file:", "source:"
 // and "part:" of an exported volume's textual header.
 type partRecord struct {
+	attribute, params, cond   string // "attribute:", "parameters:" (wrapped lines joined), "conditioning:"
 	sourceFile                string
 	sourceTraces              int
 	sourceInline, sourceXline segy.Range
@@ -139,6 +140,9 @@ type partRecord struct {
 var (
 	reSourceFile = regexp.MustCompile(`(?m)^C\s*\d+ source file: (.*?)\s*$`)
 	reSource     = regexp.MustCompile(`(?m)^C\s*\d+ source: (\d+) traces; inlines (-?\d+):(-?\d+):(-?\d+); crosslines (-?\d+):(-?\d+):(-?\d+)\s*$`)
+	reAttribute  = regexp.MustCompile(`(?m)^C\s*\d+ attribute: (.*?)\s*$`)
+	reParams     = regexp.MustCompile(`(?s)\nC\s*\d+ parameters: (.*?)\nC\s*\d+ conditioning: ([^\n]*)`)
+	reCardStart  = regexp.MustCompile(`(?m)^C\s*\d+ `)
 	rePart       = regexp.MustCompile(`(?m)^C\s*\d+ part: inlines (all|-?\d+:-?\d+); crosslines (all|-?\d+:-?\d+); (\d+) traces\s*$`)
 )
 
@@ -167,5 +171,12 @@ func parsePartRecord(text string) (rec partRecord, ok bool) {
 	rec.inlines, ok1 = rng(p[1])
 	rec.crosslines, ok2 = rng(p[2])
 	rec.traces = n(p[3])
+	if a := reAttribute.FindStringSubmatch(text); a != nil {
+		rec.attribute = a[1]
+	}
+	if m := reParams.FindStringSubmatch(text); m != nil {
+		rec.params = strings.Join(strings.Fields(reCardStart.ReplaceAllString(m[1], "")), " ")
+		rec.cond = strings.TrimSpace(m[2])
+	}
 	return rec, ok1 && ok2
 }

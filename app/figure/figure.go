@@ -10,8 +10,8 @@ import (
 	"fmt"
 	"image"
 	"image/color"
-	"os"
 	"path/filepath"
+	"quadtrace/app/outfile"
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
@@ -167,30 +167,34 @@ func Build(ctx context.Context, v *volume.Volume, r Request) (render.Figure, err
 	return fig, nil
 }
 
-// WritePNG writes img to path with its resolution recorded, through a
-// temporary file renamed into place so a failed write leaves nothing.
-func WritePNG(path string, img *image.RGBA, dpi float64) error {
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
+// WritePNG writes img to path with its resolution recorded, through
+// app/outfile: nothing appears at path until the whole PNG is written,
+// and destinations that are devices, FIFOs, folders, inputs (opt.Inputs)
+// or symbolic links (unless opt.FollowSymlink) are refused. When ctx ends
+// before the file is in place, nothing is written and ctx.Err() is
+// returned.
+func WritePNG(ctx context.Context, path string, img *image.RGBA, dpi float64, opt outfile.Options) error {
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	of, err := outfile.Create(path, opt)
 	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fmt.Errorf("writing figure: %w", err)
 	}
-	// os.CreateTemp makes the file private; a figure is for sharing.
-	err = tmp.Chmod(0o644)
-	w := bufio.NewWriter(tmp)
-	if err == nil {
-		err = render.EncodePNG(w, img, dpi)
-	}
+	defer of.Abort()
+	w := bufio.NewWriter(of)
+	err = render.EncodePNG(w, img, dpi)
 	if err == nil {
 		err = w.Flush()
 	}
-	if cerr := tmp.Close(); err == nil {
-		err = cerr
-	}
 	if err == nil {
-		err = os.Rename(tmp.Name(), path)
+		err = ctx.Err()
+		if err != nil {
+			return err
+		}
+		err = of.Commit()
 	}
 	if err != nil {
-		os.Remove(tmp.Name())
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
 	return nil

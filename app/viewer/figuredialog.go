@@ -1,9 +1,11 @@
 package viewer
 
 import (
+	"context"
 	"fmt"
 	"path/filepath"
 	"quadtrace/app/figure"
+	"quadtrace/app/outfile"
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
@@ -152,8 +154,12 @@ func (v *viewer) saveFigure(path, title string, w, h int, dpi float64) {
 		path += ".png"
 	}
 	v.setBusy(v.ui.work, "Saving figure", 0, 0, func() { v.jobs.cancel("figure") })
+	var inputs []string
+	if v.vol != nil && v.vol.Path() != "" {
+		inputs = []string{v.vol.Path()}
+	}
 	v.jobs.start("figure", func(j *job) {
-		err := writeFigure(f, path, dpi)
+		err := writeFigure(j.ctx, f, path, dpi, inputs)
 		v.onUI(j, func() {
 			v.setIdle(v.ui.work)
 			if err != nil {
@@ -166,15 +172,16 @@ func (v *viewer) saveFigure(path, title string, w, h int, dpi float64) {
 	})
 }
 
-// writeFigure draws f and writes it as PNG at dpi through the figure
-// command's writer (mode 0644, replaced only when the whole file is
-// written).
-func writeFigure(f render.Figure, path string, dpi float64) error {
+// writeFigure draws f and writes it as PNG at dpi through app/outfile
+// (figure.WritePNG): path is replaced only when the whole file is
+// written, and never when it is a device, FIFO, folder, symbolic link or
+// one of inputs.
+func writeFigure(ctx context.Context, f render.Figure, path string, dpi float64, inputs []string) error {
 	img, err := f.Draw()
 	if err != nil {
 		return fmt.Errorf("figure: %w", err)
 	}
-	return figure.WritePNG(path, img, dpi)
+	return figure.WritePNG(ctx, path, img, dpi, outfile.Options{Inputs: inputs})
 }
 
 // figureFileName is the default file name of a figure titled title: lower

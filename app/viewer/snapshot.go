@@ -2,16 +2,18 @@ package viewer
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"image"
+	"image/draw"
 	"os"
-	"path/filepath"
 	"strconv"
 	"time"
 
 	"fyne.io/fyne/v2"
 
-	"quadtrace/render"
+	"quadtrace/app/figure"
+	"quadtrace/app/outfile"
 )
 
 // The snapshot (quadtrace --snapshot OUT.png) is a picture of the real
@@ -125,20 +127,15 @@ func distinctColours(img *image.RGBA, limit int) int {
 	return len(seen)
 }
 
-// writePNG writes img to path through a temporary file.
+// writePNG writes img to path through app/outfile (figure.WritePNG).
 func writePNG(path string, img image.Image) error {
-	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
+	rgba, ok := img.(*image.RGBA)
+	if !ok {
+		rgba = image.NewRGBA(img.Bounds())
+		draw.Draw(rgba, rgba.Bounds(), img, img.Bounds().Min, draw.Src)
+	}
+	if err := figure.WritePNG(context.Background(), path, rgba, 96, outfile.Options{}); err != nil {
 		return fmt.Errorf("snapshot: %w", err)
 	}
-	defer os.Remove(tmp.Name())
-	if err := render.EncodePNG(tmp, img, 96); err != nil {
-		tmp.Close()
-		return fmt.Errorf("snapshot %s: %w", path, err)
-	}
-	if err := tmp.Close(); err != nil {
-		return fmt.Errorf("snapshot %s: %w", path, err)
-	}
-	return os.Rename(tmp.Name(), path)
+	return nil
 }

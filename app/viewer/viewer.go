@@ -163,7 +163,7 @@ func (v *viewer) onUI(j *job, f func()) {
 func (v *viewer) openFile(path string) {
 	opt := v.segyOpt
 	v.startOpen(filepath.Base(path), func(ctx context.Context, progress func(int, int)) (survey, error) {
-		vol, err := volume.Open(path, opt)
+		vol, err := volume.OpenContext(ctx, path, opt) // Cancel stops the header scan too
 		if err != nil {
 			return nil, err
 		}

@@ -100,7 +100,13 @@ type Volume struct {
 
 // Open opens a SEG-Y file read-only.
 func Open(path string, opt segy.Options) (*Volume, error) {
-	f, err := segy.Open(path, opt)
+	return OpenContext(context.Background(), path, opt)
+}
+
+// OpenContext is Open that stops when ctx ends, also during the header
+// scan (segy.OpenContext).
+func OpenContext(ctx context.Context, path string, opt segy.Options) (*Volume, error) {
+	f, err := segy.OpenContext(ctx, path, opt)
 	if err != nil {
 		return nil, err
 	}

@@ -6,23 +6,28 @@ import (
 	"fmt"
 	"strings"
 
+	"quadtrace/app/outfile"
 	"quadtrace/compute/synth"
 	"quadtrace/segy"
 )
 
 // WriteSurvey writes the demo survey s to path as SEG-Y revision 1 (format
-// from opt), in inline order, through the segy writer; on any error, or
-// when ctx ends, the temporary file is removed and path is left as it was.
+// from opt), in inline order, through the segy writer and app/outfile: on
+// any error, or when ctx ends, nothing is left and path is as it was.
 func WriteSurvey(ctx context.Context, path string, s *synth.Survey, opt segy.WriteOptions) error {
 	opt.TextHeader = surveyText(s)
 	c := s.Config
-	w, err := segy.CreateNew(path, segy.NewSpec{Samples: c.Samples, IntervalUS: c.IntervalUS, TextHeader: opt.TextHeader}, opt)
+	of, err := outfile.Create(path, outfile.Options{})
+	if err != nil {
+		return err
+	}
+	defer of.Abort()
+	w, err := segy.NewWriterSpec(of, path, segy.NewSpec{Samples: c.Samples, IntervalUS: c.IntervalUS, TextHeader: opt.TextHeader}, opt)
 	if err != nil {
 		return err
 	}
 	for i := 0; i < c.Inlines; i++ {
 		if err := ctx.Err(); err != nil {
-			w.Abort()
 			return err
 		}
 		il := s.FirstInline + i
@@ -30,12 +35,14 @@ func WriteSurvey(ctx context.Context, path string, s *synth.Survey, opt segy.Wri
 			xl := s.FirstCrossline + j
 			x, y := s.CDP(il, xl)
 			if err := w.WriteTrace(segy.NewTraceHeader(il, xl, x, y), s.Traces[i*c.Crosslines+j]); err != nil {
-				w.Abort()
 				return err
 			}
 		}
 	}
-	return w.Commit()
+	if err := w.Finish(); err != nil {
+		return err
+	}
+	return of.Commit()
 }
 
 // surveyText is the demo file's textual header, in lines of our own.

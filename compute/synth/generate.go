@@ -65,6 +65,15 @@ func Generate(ctx context.Context, cfg Config, progress func(done, total int)) (
 	for k := range s.Traces {
 		s.Traces[k] = samples[k*ns : (k+1)*ns : (k+1)*ns]
 	}
+	delays := bank.peakDelaysMS()
+	s.Surfaces = make([]Surface, len(m.surfaces))
+	for k, f := range m.surfaces {
+		f.TimesMS, f.PeakMS = make([]float32, ni*nx), make([]float32, ni*nx)
+		for i := range f.TimesMS {
+			f.TimesMS[i], f.PeakMS[i] = float32(math.NaN()), float32(math.NaN())
+		}
+		s.Surfaces[k] = f
+	}
 
 	var mu sync.Mutex // serialises progress and merges features
 	done, total := 0, 2*ni
@@ -98,6 +107,11 @@ func Generate(ctx context.Context, cfg Config, progress func(done, total int)) (
 				local.note(il, xl, info)
 				tr := s.Traces[il*nx+xl]
 				for _, r := range refl {
+					if r.surface > 0 {
+						f := &s.Surfaces[r.surface-1]
+						f.TimesMS[il*nx+xl] = float32(r.tMS)
+						f.PeakMS[il*nx+xl] = float32(r.tMS + delays[bank.entry(r.tqMS)])
+					}
 					if r.tMS < -bankHalfMS || r.tMS > recordMS+bankHalfMS {
 						continue
 					}

@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 )
@@ -36,6 +37,51 @@ type model struct {
 	thinBeds                           []thinBed
 	clinoR                             []float64 // reflection coefficient of each clinoform
 	gwcMS                              float64   // the flat gas-water contact, after structure
+
+	// surfaces names the interfaces whose times Survey.Surfaces keeps, in
+	// that order; ids holds their positions.
+	surfaces []Surface
+	ids      surfaceIDs
+}
+
+// surfaceIDs are positions in model.surfaces (plus one, so that zero in
+// reflector.surface means an unnamed interface); the layer groups take
+// consecutive ids from their first.
+type surfaceIDs struct {
+	seafloor, shallow, thinTop, channel, topsets, clinoTop, clinoBase, bottomsets,
+	quietTop, wedgeTop, wedgeBase, quietBase, resTop, gwc, resBase, deep int16
+}
+
+// nameSurfaces lists the interfaces kept in Survey.Surfaces, with their
+// nominal reflection coefficients, and sets m.ids.
+func (m *model) nameSurfaces() {
+	add := func(name string, r float64) int16 {
+		m.surfaces = append(m.surfaces, Surface{Name: name, R: r})
+		return int16(len(m.surfaces))
+	}
+	group := func(prefix string, layers []surface) int16 {
+		first := int16(len(m.surfaces) + 1)
+		for k, l := range layers {
+			add(fmt.Sprintf("%s-%d", prefix, k+1), l.r)
+		}
+		return first
+	}
+	m.ids.seafloor = add(SurfaceSeafloor, 0.18)
+	m.ids.shallow = group("shallow", m.shallow)
+	m.ids.thinTop = add("thin-beds-top", m.thinBeds[0].r)
+	m.ids.channel = add(SurfaceChannel, 0.03)
+	m.ids.topsets = group("topset", m.topsets)
+	m.ids.clinoTop = add("clinoform-top", 0.07)
+	m.ids.clinoBase = add("clinoform-base", 0.08)
+	m.ids.bottomsets = group("bottomset", m.bottomsets)
+	m.ids.quietTop = add("quiet-top", 0.03)
+	m.ids.wedgeTop = add(SurfaceWedgeTop, -wedgeR)
+	m.ids.wedgeBase = add(SurfaceWedgeBase, wedgeR)
+	m.ids.quietBase = add("quiet-base", 0.04)
+	m.ids.resTop = add(SurfaceReservoirTop, waterTopR)
+	m.ids.gwc = add("gas-water-contact", flatSpotR)
+	m.ids.resBase = add("reservoir-base", sandBaseR)
+	m.ids.deep = group("deep", m.deep)
 }
 
 // surface is a background interface:
@@ -157,6 +203,7 @@ func newModel(cfg Config) *model {
 	// reservoir after doming and faulting.
 	crestTop, _ := place(reservoirMS, domeU, domeV, faultCrossMS(domeU, domeV))
 	m.gwcMS = crestTop + gasColumnFrac*domeHeightMS
+	m.nameSurfaces()
 	return m
 }
 
@@ -214,6 +261,9 @@ type reflector struct {
 	r     float64 // reflection coefficient
 	tqMS  float64 // attenuation time: two-way time plus any extra from gas
 	scale float64 // amplitude loss from extra attenuation (1 outside shadows)
+	// surface is the interface's position in model.surfaces plus one, 0
+	// when it is not one of the kept surfaces.
+	surface int16
 }
 
 // Bits of traceInfo.present.
@@ -265,27 +315,43 @@ func (m *model) trace(il, xl int, buf []reflector, bank *waveletBank) ([]reflect
 			m.emit(&out, t, r, resBase, pullDown, extraTq, bank)
 		}
 	}
+	// named marks the interfaces appended since out had n of them as
+	// surface id.
+	named := func(id int16, n int) {
+		for k := n; k < len(out); k++ {
+			out[k].surface = id
+		}
+	}
+	addNamed := func(id int16, tMS, r float64) {
+		n := len(out)
+		add(tMS, r)
+		named(id, n)
+	}
 
 	// Seafloor and shallow layers.
 	sf := seafloorMS + 25*u + 8*math.Sin(2*math.Pi*(0.7*v+0.2))
-	add(sf, 0.18)
-	for _, s := range m.shallow {
-		add(s.at(u, v), s.coefAt(u, v))
+	addNamed(m.ids.seafloor, sf, 0.18)
+	for k, s := range m.shallow {
+		addNamed(m.ids.shallow+int16(k), s.at(u, v), s.coefAt(u, v))
 	}
 
 	// Thin beds.
 	t := thinTopMS + 20*u + 3*math.Sin(2*math.Pi*(0.4*u+0.6*v))
 	info.present |= hasThinBeds
 	info.thinBeds[0] = t
-	for _, b := range m.thinBeds {
-		add(t, b.r)
+	for k, b := range m.thinBeds {
+		if k == 0 {
+			addNamed(m.ids.thinTop, t, b.r)
+		} else {
+			add(t, b.r)
+		}
 		t += b.thick * (1 + b.vary*math.Sin(2*math.Pi*(b.ku*u+b.kv*v)+b.phase))
 	}
 	info.thinBeds[1] = t
 
 	// Channel: a meandering U-shaped cut below the channel surface.
 	chTop := channelMS + 18*u + 2*math.Sin(2*math.Pi*(0.8*u+0.3*v))
-	add(chTop, 0.03)
+	addNamed(m.ids.channel, chTop, 0.03)
 	if d := m.channelDistance(u, v); d < channelHW {
 		depth := channelDep * (1 - (d/channelHW)*(d/channelHW))
 		add(chTop+0.5, -0.13) // sand fill below the mud drape
@@ -295,13 +361,13 @@ func (m *model) trace(il, xl int, buf []reflector, bank *waveletBank) ([]reflect
 	}
 
 	// Topsets, then the clinoform unit.
-	for _, s := range m.topsets {
-		add(s.at(u, v), s.coefAt(u, v))
+	for k, s := range m.topsets {
+		addNamed(m.ids.topsets+int16(k), s.at(u, v), s.coefAt(u, v))
 	}
 	cTop := clinoTopMS + 15*u + 2*math.Sin(2*math.Pi*(0.5*v+0.1))
 	cBase := clinoBaseMS + 10*u
-	add(cTop, 0.07)
-	add(cBase, 0.08)
+	addNamed(m.ids.clinoTop, cTop, 0.07)
+	addNamed(m.ids.clinoBase, cBase, 0.08)
 	front0 := clinoFirst + 0.04*math.Sin(2*math.Pi*v+1)
 	visible := false
 	for k, r := range m.clinoR {
@@ -322,42 +388,50 @@ func (m *model) trace(il, xl int, buf []reflector, bank *waveletBank) ([]reflect
 		info.present |= hasClinoforms
 		info.clinoforms = [2]float64{cTop, cBase}
 	}
-	for _, s := range m.bottomsets {
-		add(s.at(u, v), s.coefAt(u, v))
+	for k, s := range m.bottomsets {
+		addNamed(m.ids.bottomsets+int16(k), s.at(u, v), s.coefAt(u, v))
 	}
 
 	// Quiet shale with the wedge.
-	add(quietTopMS, 0.03)
-	add(quietBaseMS, 0.04)
+	addNamed(m.ids.quietTop, quietTopMS, 0.03)
+	addNamed(m.ids.quietBase, quietBaseMS, 0.04)
 	if th := wedgeThickness(u, v); th > 0 {
 		top := wedgeTopMS + 5*u
-		add(top, -wedgeR)
-		add(top+th, wedgeR)
+		addNamed(m.ids.wedgeTop, top, -wedgeR)
+		addNamed(m.ids.wedgeBase, top+th, wedgeR)
 		info.present |= hasWedge
 		info.wedge = [2]float64{top, top + th}
 	}
 
 	// Reservoir: the sand, gas above the flat contact.
 	if gasColumn > 0 {
+		n := len(out)
 		m.emit(&out, resTop, gasTopR, resBase, 0, 0, bank)
+		named(m.ids.resTop, n)
 		info.present |= hasGas
 		info.gas = [2]float64{resTop, math.Min(m.gwcMS, resBase)}
 		if m.gwcMS < resBase {
+			n = len(out)
 			m.emit(&out, m.gwcMS, flatSpotR, resBase, 0, 0, bank)
+			named(m.ids.gwc, n)
+			n = len(out)
 			m.emit(&out, resBase, sandBaseR, resBase, pullDown, extraTq, bank)
+			named(m.ids.resBase, n)
 			info.present |= hasFlatSpot
 			info.flatSpot = [2]float64{m.gwcMS, m.gwcMS}
 		} else {
+			n = len(out)
 			m.emit(&out, resBase, -gasTopR/2, resBase, pullDown, extraTq, bank)
+			named(m.ids.resBase, n)
 		}
 		info.shadow = [2]float64{resBase, math.Min(resBase+300, m.recordMS)}
 	} else {
-		add(reservoirMS, waterTopR)
-		add(reservoirMS+reservoirThickMS, sandBaseR)
+		addNamed(m.ids.resTop, reservoirMS, waterTopR)
+		addNamed(m.ids.resBase, reservoirMS+reservoirThickMS, sandBaseR)
 	}
 
-	for _, s := range m.deep {
-		add(s.at(u, v), s.coefAt(u, v))
+	for k, s := range m.deep {
+		addNamed(m.ids.deep+int16(k), s.at(u, v), s.coefAt(u, v))
 	}
 
 	// The fault crosses this trace between its tip and the record's end

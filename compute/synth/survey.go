@@ -52,6 +52,50 @@ type Survey struct {
 	Features []Feature
 	// Wells are invented wells, for the demo's flavour.
 	Wells []Well
+	// Surfaces are the model's main interfaces with their true two-way
+	// times on every trace, so that tracked horizons can be checked
+	// against them.
+	Surfaces []Surface
+}
+
+// Names of some of the modelled surfaces in Survey.Surfaces. The others
+// are named by their unit and number from the top: shallow-1..10,
+// topset-1..3, bottomset-1..2, deep-1..10, and thin-beds-top,
+// clinoform-top, clinoform-base, quiet-top, quiet-base,
+// gas-water-contact, reservoir-base.
+const (
+	SurfaceSeafloor = "seafloor"
+	// SurfaceChannel is the surface the channel is cut down from: maps
+	// along it over a window below show the channel sand.
+	SurfaceChannel = "channel-surface"
+	// SurfaceWedgeTop and SurfaceWedgeBase bound the sand wedge; they
+	// exist only where the wedge has thickness.
+	SurfaceWedgeTop  = "wedge-top"
+	SurfaceWedgeBase = "wedge-base"
+	// SurfaceReservoirTop is the top of the domed reservoir sand: maps
+	// along it show the gas sand's bright spot.
+	SurfaceReservoirTop = "reservoir-top"
+)
+
+// Surface is one modelled interface and its true two-way time on every
+// trace: the time the model put its reflection at (after doming, the
+// fault and the pull-down below the gas), where the wavelet is centred.
+type Surface struct {
+	Name string
+	// R is the interface's nominal reflection coefficient (away from the
+	// gas, before its lateral variation of up to a quarter); its sign is
+	// the polarity of its reflection: positive gives a peak.
+	R float64
+	// TimesMS holds the time in ms on each trace, inline-major like
+	// Survey.Traces; NaN where the surface is absent (cut out by the
+	// fault, or the wedge where it has no thickness).
+	TimesMS []float32
+	// PeakMS holds the time in ms of the largest lobe of the surface's
+	// reflection wavelet on each trace, NaN where the surface is absent:
+	// TimesMS plus the delay that the constant-Q phase dispersion gives
+	// the wavelet's peak (about 2 ms at 1 s; more below the gas). It is
+	// where a peak or trough pick on an isolated reflection belongs.
+	PeakMS []float32
 }
 
 // Feature is a box in the survey that holds one geological feature of the
@@ -111,4 +155,15 @@ func (s *Survey) Feature(name string) (Feature, bool) {
 		}
 	}
 	return Feature{}, false
+}
+
+// Surface returns the modelled surface with the given name and whether
+// there is one.
+func (s *Survey) Surface(name string) (Surface, bool) {
+	for _, f := range s.Surfaces {
+		if f.Name == name {
+			return f, true
+		}
+	}
+	return Surface{}, false
 }

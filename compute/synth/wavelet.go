@@ -7,7 +7,7 @@ import (
 	"sync"
 	"sync/atomic"
 
-	"gonum.org/v1/gonum/dsp/fourier"
+	"quadtrace/compute"
 )
 
 // Parameters of the wavelet model.
@@ -112,11 +112,11 @@ func newWaveletBank(dtMS, maxMS float64) *waveletBank {
 
 	var next atomic.Int64
 	var wg sync.WaitGroup
+	fft := compute.NewRealFFT(n) // one plan, shared by the workers
 	for range min(runtime.GOMAXPROCS(0), entries) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			fft := fourier.NewFFT(n)
 			att, coeff := make([]complex128, nf), make([]complex128, nf)
 			seq := make([]float64, n)
 			raw := make([]float64, bankPhases*(2*b.half+1))
@@ -140,7 +140,7 @@ func newWaveletBank(dtMS, maxMS float64) *waveletBank {
 // buildEntry fills entry j of the bank; fft, att, coeff, seq and raw are
 // the caller's work buffers.
 func (b *waveletBank) buildEntry(j, n int, dtS float64, source, shift []complex128,
-	fft *fourier.FFT, att, coeff []complex128, seq, raw []float64) {
+	fft *compute.RealFFT, att, coeff []complex128, seq, raw []float64) {
 	nf := len(source)
 	taps := 2*b.half + 1
 	tS := float64(j) * b.stepMS / 1000

@@ -49,6 +49,31 @@ type File struct {
 	// encodes Values in Format.
 	SampleBytes func(tr, k int) []byte
 	Tail        []byte // bytes appended after the last trace
+
+	// SEG-Y revision 2.0 layout (table 2). ExtraHeaders is written at
+	// 3507-3508 and that many additional 240-byte trace headers follow
+	// each standard one, the first being trace header extension 1 (table
+	// 4, filled from Trace.Ext1), the others Trace.MoreHeaders or zeros.
+	// FirstTrace (3521-3528) and Trailers (3529-3532) are written as
+	// given; Gap bytes of zeros are written between the headers and the
+	// first trace, and Trailers stanzas of 3200 blanks after the last.
+	ExtraHeaders int
+	FirstTrace   uint64
+	Gap          int
+	Trailers     int
+}
+
+// Ext1 is trace header extension 1 of SEG-Y rev 2.0 (table 4): the fields
+// quadtrace reads, at the byte positions of that table.
+type Ext1 struct {
+	SeqLine, SeqFile uint64  // 1-8, 9-16
+	FieldRecord      int64   // 17-24
+	Ensemble         int64   // 25-32
+	Samples          uint32  // 137-140
+	IntervalUS       float64 // 145-152
+	Count            uint16  // 157-158 additional headers of this trace
+	CDPX, CDPY       float64 // 161-168, 169-176
+	Name             string  // 233-240, e.g. "SEG00001" (ASCII)
 }
 
 // Trace is one trace of a File: the trace-header fields quadtrace reads and
@@ -62,6 +87,8 @@ type Trace struct {
 	CoordScalar          int // 71
 	Delay, TimeScalar    int // 109 / 215
 	Values               []float64
+	Ext1                 Ext1   // written when File.ExtraHeaders > 0
+	MoreHeaders          []byte // additional headers after extension 1 (zeros when short)
 }
 
 // FormatSize is the bytes per sample of the SEG-Y format codes (rev 2.0
@@ -96,10 +123,14 @@ func (s File) Bytes() []byte {
 		o.PutUint32(bin[3297-3201:], 0x01020304)
 	}
 	p16(3505, s.ExtTextCount)
+	p16(3507, s.ExtraHeaders)
+	o.PutUint64(bin[3521-3201:], s.FirstTrace)
+	o.PutUint32(bin[3529-3201:], uint32(int32(s.Trailers)))
 	b.Write(bin)
 	for _, e := range s.ExtText {
 		b.Write(EBCDICText(e))
 	}
+	b.Write(make([]byte, s.Gap))
 	size := FormatSize(s.Format)
 	for i, tr := range s.Traces {
 		h := make([]byte, 240)
@@ -127,6 +158,22 @@ func (s File) Bytes() []byte {
 		q32(193, tr.Crossline)
 		q16(215, tr.TimeScalar)
 		b.Write(h)
+		if s.ExtraHeaders > 0 {
+			x := make([]byte, 240*s.ExtraHeaders)
+			e := tr.Ext1
+			o.PutUint64(x[0:], e.SeqLine)
+			o.PutUint64(x[8:], e.SeqFile)
+			o.PutUint64(x[16:], uint64(e.FieldRecord))
+			o.PutUint64(x[24:], uint64(e.Ensemble))
+			o.PutUint32(x[136:], e.Samples)
+			o.PutUint64(x[144:], math.Float64bits(e.IntervalUS))
+			o.PutUint16(x[156:], e.Count)
+			o.PutUint64(x[160:], math.Float64bits(e.CDPX))
+			o.PutUint64(x[168:], math.Float64bits(e.CDPY))
+			copy(x[232:240], e.Name)
+			copy(x[240:], tr.MoreHeaders)
+			b.Write(x)
+		}
 		n := s.Samples
 		if n == 0 {
 			n = ns
@@ -158,6 +205,9 @@ func (s File) Bytes() []byte {
 		}
 	}
 	b.Write(s.Tail)
+	for i := 0; i < s.Trailers; i++ {
+		b.Write(bytes.Repeat([]byte{' '}, 3200))
+	}
 	return b.Bytes()
 }
 
@@ -236,7 +286,7 @@ func cards(text string, blank byte, encode func(rune) (byte, bool)) []byte {
 }
 
 // ValueRule is the sample value rule of the open SEG-Y corpus
-// (../shared/segy-corpus README): sample k of inline il, crossline xl is
+// (testdata/segy-corpus/README.md): sample k of inline il, crossline xl is
 // il + xl/100 + k*1e-5.
 func ValueRule(il, xl, k int) float64 {
 	return float64(il) + float64(xl)/100 + float64(k)*1e-5

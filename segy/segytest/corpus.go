@@ -6,13 +6,17 @@ import (
 	"testing"
 )
 
-// CorpusFile returns the path of file name in the open SEG-Y corpus that
-// sits beside the project, ../shared/segy-corpus relative to the module
-// root (the folder holding go.mod, found upwards from the test's working
-// directory). The files were written by segyio, an independent SEG-Y
-// implementation, and their contents are documented in that folder's
-// README. A missing corpus fails the test: it is an outside reference, and
-// a check that silently does not run is no check.
+// CorpusDir is the folder of the open SEG-Y corpus inside the project,
+// relative to the module root: files written by segyio, an independent
+// SEG-Y implementation, copied unchanged, with their origin, licence and
+// check values in its README.md.
+const CorpusDir = "testdata/segy-corpus"
+
+// CorpusFile returns the path of file name in the project's copy of the
+// open SEG-Y corpus, CorpusDir under the module root (the folder holding
+// go.mod, found upwards from the test's working directory). A missing file
+// fails the test: it is an outside reference kept in the repository, and a
+// check that silently does not run is no check.
 func CorpusFile(t testing.TB, name string) string {
 	t.Helper()
 	dir, err := os.Getwd()
@@ -29,9 +33,9 @@ func CorpusFile(t testing.TB, name string) string {
 		}
 		dir = parent
 	}
-	p := filepath.Join(dir, "..", "shared", "segy-corpus", name)
+	p := filepath.Join(dir, filepath.FromSlash(CorpusDir), name)
 	if _, err := os.Stat(p); err != nil {
-		t.Fatalf("segy corpus file missing (the tests need ../shared/segy-corpus beside the project): %v", err)
+		t.Fatalf("segy corpus file missing (the project keeps it under %s): %v", CorpusDir, err)
 	}
 	return p
 }

@@ -199,6 +199,34 @@ func Malformed() []Case {
 		{Name: "rev 2 little-endian with byte-order word", Bytes: build(func(s *File) {
 			s.Order, s.ByteOrderWord, s.Revision = binary.LittleEndian, true, [2]byte{2, 0}
 		}), Expect: usable("")},
+		{Name: "trace headers in the other byte order", Bytes: edit(func(b []byte) {
+			// binary header big-endian, every trace header little-endian
+			for i := 0; i < BaseTraces; i++ {
+				h := b[3600+i*ts : 3600+i*ts+240]
+				for _, p := range [][2]int{{1, 4}, {9, 4}, {13, 4}, {21, 4}, {37, 4}, {71, 2}, {109, 2}, {115, 2}, {117, 2}, {181, 4}, {185, 4}, {189, 4}, {193, 4}, {215, 2}} {
+					f := h[p[0]-1 : p[0]-1+p[1]]
+					for x, y := 0, len(f)-1; x < y; x, y = x+1, y-1 {
+						f[x], f[y] = f[y], f[x]
+					}
+				}
+			}
+		}), Expect: fails("trace headers are little-endian but the binary header is big-endian", 0, 3715)},
+		{Name: "sample counts that vary between traces", Bytes: edit(func(b []byte) {
+			be.PutUint16(b[3600+4*ts+114:], 7)
+			be.PutUint16(b[3600+9*ts+114:], 9)
+		}), Expect: usable("2 traces declare a sample count other than the file's 8 (first: trace 4, byte 4803: 7)")},
+		{Name: "rev 2 additional header count 65535 in a short file", Bytes: edit(func(b []byte) {
+			b[3500], b[3501] = 2, 0
+			be.PutUint16(b[3506:], 65535) // rev 2.0: bytes 3507-3508 additional trace headers
+		}), Expect: huge(fails("file ends 3264 bytes into the first trace: a trace is 15728672 bytes", 0, 3601))},
+		{Name: "rev 2 first trace past the end", Bytes: edit(func(b []byte) {
+			b[3500], b[3501] = 2, 0
+			be.PutUint64(b[3520:], 1e12) // rev 2.0: bytes 3521-3528 byte offset of the first trace
+		}), Expect: huge(fails("first trace at byte offset 1000000000000: outside 3600..6864", NoTrace, 3521))},
+		{Name: "rev 2 data trailers larger than the file", Bytes: edit(func(b []byte) {
+			b[3500], b[3501] = 2, 0
+			be.PutUint32(b[3528:], 5) // rev 2.0: bytes 3529-3532 number of data trailer stanzas
+		}), Expect: fails("5 data trailer stanzas of 3200 bytes do not fit in the 3264 bytes", NoTrace, 3529)},
 		{Name: "pairwise byte-swapped word", Bytes: edit(func(b []byte) { copy(b[3296:], []byte{2, 1, 4, 3}) }),
 			Expect: fails("byte-order word 0x02010403 means pairwise byte-swapped data", NoTrace, 3297)},
 
@@ -232,11 +260,22 @@ func Malformed() []Case {
 		{Name: "missing traces", Bytes: build(func(s *File) { s.Traces = append(s.Traces[:5], s.Traces[7:]...) }),
 			Expect: usable("2 grid positions have no trace")},
 		{Name: "sparse numbering", Bytes: build(func(s *File) { s.Traces[0].Inline = 1000000 }),
-			Expect: usable("")},
+			Expect: usable("1 traces have inline or crossline numbers far outside the others and are left out of the grid: trace 0 (byte 3789: inline 1000000)")},
 		{Name: "numbering at the int32 extremes", Bytes: build(func(s *File) {
 			s.Traces[0].Inline, s.Traces[0].Crossline = math.MinInt32, math.MinInt32
 			s.Traces[1].Inline, s.Traces[1].Crossline = math.MaxInt32, math.MaxInt32
-		}), Expect: huge(usable(""))},
+		}), Expect: huge(usable("2 traces have inline or crossline numbers far outside the others"))},
+		{Name: "flipped byte in one crossline", Bytes: edit(func(b []byte) {
+			// the high byte of trace 5's crossline (bytes 193-196) flipped
+			b[3600+5*ts+192] ^= 0x40
+		}), Expect: huge(usable("trace 5 (byte 5153: crossline 1073741835)"))},
+		{Name: "garbage numbering everywhere", Bytes: edit(func(b []byte) {
+			r := rand.New(rand.NewPCG(12, 2))
+			for i := 0; i < BaseTraces; i++ {
+				be.PutUint32(b[3600+i*ts+188:], r.Uint32()) // inline, bytes 189-192
+				be.PutUint32(b[3600+i*ts+192:], r.Uint32()) // crossline, bytes 193-196
+			}
+		}), Expect: huge(usable("traces shown in file order"))},
 		{Name: "headers only", Bytes: build(func(s *File) { s.Traces = nil }),
 			Expect: usable("no traces")},
 

@@ -1,3 +1,5 @@
+//go:build aix || darwin || dragonfly || freebsd || linux || netbsd || openbsd || solaris
+
 package segy
 
 import (
@@ -9,6 +11,9 @@ import (
 // mapFile maps the whole file read-only. It returns nil (and the caller
 // falls back to ReadAt) when the file is empty, too large for the address
 // space, or the filesystem refuses mmap.
+//
+// Build constraint: the systems where golang.org/x/sys/unix offers Mmap;
+// every other system (Windows among them) builds mmap_other.go.
 func mapFile(f *os.File, size int64) []byte {
 	if size <= 0 || int64(int(size)) != size {
 		return nil

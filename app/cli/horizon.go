@@ -1,0 +1,401 @@
+package cli
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"os/signal"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"quadtrace/app/horizonjob"
+	"quadtrace/app/outfile"
+	"quadtrace/app/style"
+	"quadtrace/compute"
+	"quadtrace/compute/horizon"
+	"quadtrace/compute/synth"
+	"quadtrace/render"
+	"quadtrace/segy"
+)
+
+// seedList collects repeated --seed IL,XL,MS flags.
+type seedList [][3]float64
+
+func (s *seedList) String() string { return fmt.Sprint(*s) }
+
+func (s *seedList) Set(v string) error {
+	parts := strings.Split(v, ",")
+	if len(parts) != 3 {
+		return fmt.Errorf("%q: want INLINE,CROSSLINE,MS", v)
+	}
+	var seed [3]float64
+	for i, p := range parts {
+		x, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
+		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) || i < 2 && x != math.Trunc(x) {
+			return fmt.Errorf("%q: want INLINE,CROSSLINE,MS (whole line numbers, time in ms)", v)
+		}
+		seed[i] = x
+	}
+	*s = append(*s, seed)
+	return nil
+}
+
+// survey is what the horizon commands read: a trace source with its
+// numbering and coordinates, and the file to close.
+type survey struct {
+	src    horizon.Source
+	layout horizon.Layout
+	close  func() error
+}
+
+// openSurvey opens FILE (or the demo survey) as a trace source.
+func openSurvey(ctx context.Context, demo bool, file string, opt segy.Options) (*survey, error) {
+	if demo {
+		s, err := synth.Generate(ctx, synth.DefaultConfig(), nil)
+		if err != nil {
+			return nil, err
+		}
+		src, l, err := horizonjob.SurveySource(s)
+		if err != nil {
+			return nil, err
+		}
+		return &survey{src: src, layout: l, close: func() error { return nil }}, nil
+	}
+	f, err := segy.Open(file, opt)
+	if err != nil {
+		return nil, err
+	}
+	src, err := horizonjob.NewFileSource(f)
+	if err != nil {
+		f.Close()
+		return nil, err
+	}
+	return &survey{src: src, layout: src.Layout(), close: f.Close}, nil
+}
+
+// writeOutput writes an output through outfile's policy (complete or not
+// at all, never over an input, a directory or a device).
+func writeOutput(out string, inputs []string, write func(io.Writer) error) error {
+	f, err := outfile.Create(out, outfile.Options{Inputs: inputs})
+	if err != nil {
+		return err
+	}
+	if err := write(f); err != nil {
+		f.Abort()
+		return err
+	}
+	return f.Commit()
+}
+
+// Track runs `quadtrace track`: it tracks one horizon from seed points
+// through a SEG-Y file (or the demo survey) and writes it as a horizon
+// text file.
+func Track(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("track", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	var seeds seedList
+	var demo bool
+	var out string
+	fs.Var(&seeds, "seed", "seed point INLINE,CROSSLINE,MS (repeatable, at least one)")
+	fs.BoolVar(&demo, "demo", false, "use the built-in demo survey instead of a file")
+	event := fs.String("event", "peak", "event to follow: "+strings.Join(horizon.Events(), ", "))
+	window := fs.Float64("window", 4, "search half-window in ms around the time predicted from the neighbour")
+	phase := fs.Float64("max-phase-jump", 0, "largest instantaneous-phase change between neighbours, degrees (0: off)")
+	env := fs.Float64("min-envelope", 0, "smallest envelope as a fraction of the local level (0: off)")
+	corr := fs.Float64("min-correlation", 0.8, "smallest waveform correlation with the neighbour, -1 to 1")
+	corrWin := fs.Float64("correlation-window", horizon.DefaultCorrelationMS, "length of the correlation window, ms")
+	fs.StringVar(&out, "out", "", "output horizon file")
+	options := segyFlags(fs)
+	fs.Usage = func() {
+		fmt.Fprintln(stderr, "usage: quadtrace track (FILE | --demo) --seed IL,XL,MS [--seed ...] [--event peak] [--window MS] [--max-phase-jump DEG] [--min-envelope X] [--min-correlation X] --out HORIZON.txt")
+		fs.PrintDefaults()
+	}
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return 2
+	}
+	fail := func(code int, err error) int {
+		fmt.Fprintln(stderr, "quadtrace track:", err)
+		return code
+	}
+	switch {
+	case demo && len(pos) != 0, !demo && len(pos) != 1:
+		fs.Usage()
+		return 2
+	case out == "":
+		return fail(2, errors.New("--out HORIZON.txt is required"))
+	case len(seeds) == 0:
+		return fail(2, errors.New("give at least one --seed INLINE,CROSSLINE,MS"))
+	}
+	ev, err := horizon.ParseEvent(*event)
+	if err != nil {
+		return fail(2, fmt.Errorf("--event: %w", err))
+	}
+	opt := horizon.Options{Event: ev, WindowMS: *window, MaxPhaseJumpDeg: *phase, MinEnvelope: *env, MinCorrelation: *corr, CorrelationMS: *corrWin}
+	if err := opt.Check(); err != nil {
+		return fail(2, err)
+	}
+	segyOpt, err := options()
+	if err != nil {
+		return fail(2, err)
+	}
+	var inputs []string
+	if !demo {
+		inputs = []string{pos[0]}
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	sv, err := openSurvey(ctx, demo, firstOr(pos), segyOpt)
+	if err != nil {
+		return fail(1, err)
+	}
+	defer sv.close()
+	var hs []horizon.Seed
+	for _, s := range seeds {
+		h, err := horizonjob.Seed(sv.layout, int(s[0]), int(s[1]), s[2])
+		if err != nil {
+			return fail(2, err)
+		}
+		hs = append(hs, h)
+	}
+	h, err := horizon.Track(ctx, sv.src, hs, opt, nil)
+	if err != nil {
+		if errors.Is(err, context.Canceled) {
+			return fail(1, errors.New("interrupted; nothing written"))
+		}
+		// Option and seed problems are the caller's; anything else is the data's.
+		return fail(1, err)
+	}
+	if err := writeOutput(out, inputs, func(w io.Writer) error { return horizon.Write(w, h.Picks(sv.layout)) }); err != nil {
+		return fail(1, err)
+	}
+	fmt.Fprintf(stdout, "%s: %d of %d traces picked\n", out, h.Picked(), len(h.State))
+	return 0
+}
+
+func firstOr(pos []string) string {
+	if len(pos) == 0 {
+		return ""
+	}
+	return pos[0]
+}
+
+// readHorizon reads a horizon file onto the survey's grid; errors name
+// the file and the line.
+func readHorizon(path string, l horizon.Layout) (*horizon.Horizon, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	picks, err := horizon.Read(f)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	h, err := horizon.FromPicks(l, picks)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	return h, nil
+}
+
+// Map runs `quadtrace map`: it maps an attribute along a horizon (its value
+// on the horizon, or a statistic over a window around it or down to a
+// second horizon) and writes the map as a text grid (.txt) or a figure
+// (.png).
+func Map(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("map", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	var demo bool
+	var out, top, base string
+	var params paramList
+	fs.BoolVar(&demo, "demo", false, "use the built-in demo survey instead of a file")
+	fs.StringVar(&top, "horizon", "", "horizon file (from quadtrace track)")
+	fs.StringVar(&base, "base", "", "second, deeper horizon file: the window runs from the horizon to it")
+	attrID := fs.String("attribute", "amplitude", "attribute id (see `quadtrace attributes`)")
+	fs.Var(&params, "param", "attribute parameter NAME=VALUE (repeatable)")
+	window := fs.String("window", "", "window FROM:TO in ms relative to the horizon (negative is above), or to the base horizon's time for TO")
+	statName := fs.String("stat", "", "statistic: "+strings.Join(horizon.Stats(), ", ")+" (default: value without --window, rms with it)")
+	size := fs.String("size", "1400x1100", "figure size WIDTHxHEIGHT in pixels (PNG output)")
+	dpi := fs.Float64("dpi", 150, "resolution recorded in the PNG")
+	fs.StringVar(&out, "out", "", "output map: MAP.txt (text grid) or MAP.png (figure)")
+	options := segyFlags(fs)
+	fs.Usage = func() {
+		fmt.Fprintln(stderr, "usage: quadtrace map (FILE | --demo) --horizon HORIZON.txt [--base HORIZON2.txt] --attribute ID [--param NAME=VALUE] [--window A:B] [--stat rms] --out MAP.png|MAP.txt")
+		fs.PrintDefaults()
+	}
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return 2
+	}
+	fail := func(code int, err error) int {
+		fmt.Fprintln(stderr, "quadtrace map:", err)
+		return code
+	}
+	switch {
+	case demo && len(pos) != 0, !demo && len(pos) != 1:
+		fs.Usage()
+		return 2
+	case top == "":
+		return fail(2, errors.New("--horizon HORIZON.txt is required"))
+	case out == "":
+		return fail(2, errors.New("--out MAP.png or MAP.txt is required"))
+	}
+	ext := strings.ToLower(filepath.Ext(out))
+	if ext != ".png" && ext != ".txt" {
+		return fail(2, fmt.Errorf("--out %s: want a .png or .txt name", out))
+	}
+	spec := horizon.MapSpec{Stat: horizon.Value}
+	if *window != "" || base != "" {
+		spec.Stat = horizon.RMS
+	}
+	if *window != "" {
+		a, b, ok := strings.Cut(*window, ":")
+		var e1, e2 error
+		spec.FromMS, e1 = strconv.ParseFloat(a, 64)
+		spec.ToMS, e2 = strconv.ParseFloat(b, 64)
+		if !ok || e1 != nil || e2 != nil {
+			return fail(2, fmt.Errorf("--window %q: want FROM:TO in ms, e.g. -10:20", *window))
+		}
+	}
+	if *statName != "" {
+		if spec.Stat, err = horizon.ParseStat(*statName); err != nil {
+			return fail(2, fmt.Errorf("--stat: %w", err))
+		}
+	}
+	if spec.Stat == horizon.Value && (*window != "" || base != "") {
+		return fail(2, errors.New("--stat value takes no --window or --base (it reads the attribute on the horizon)"))
+	}
+	if err := spec.Validate(); err != nil {
+		return fail(2, err)
+	}
+	attr, err := compute.Lookup(*attrID)
+	if err != nil {
+		return fail(2, fmt.Errorf("--attribute: %w", err))
+	}
+	raw, err := compute.ParseParams(params)
+	if err != nil {
+		return fail(2, fmt.Errorf("--param: %w", err))
+	}
+	p, err := attr.Resolve(raw)
+	if err != nil {
+		return fail(2, fmt.Errorf("--param: %w", err))
+	}
+	var width, height int
+	if _, err := fmt.Sscanf(*size, "%dx%d", &width, &height); err != nil || width < 200 || height < 150 || width > 20000 || height > 20000 {
+		return fail(2, fmt.Errorf("--size %q: want WIDTHxHEIGHT, 200x150 to 20000x20000", *size))
+	}
+	segyOpt, err := options()
+	if err != nil {
+		return fail(2, err)
+	}
+	inputs := []string{top}
+	if base != "" {
+		inputs = append(inputs, base)
+	}
+	if !demo {
+		inputs = append(inputs, pos[0])
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	sv, err := openSurvey(ctx, demo, firstOr(pos), segyOpt)
+	if err != nil {
+		return fail(1, err)
+	}
+	defer sv.close()
+	h, err := readHorizon(top, sv.layout)
+	if err != nil {
+		return fail(1, err)
+	}
+	if base != "" {
+		if spec.Base, err = readHorizon(base, sv.layout); err != nil {
+			return fail(1, err)
+		}
+	}
+	m, err := horizonjob.MapAttribute(ctx, sv.src, h, attr, p, spec, nil)
+	if err != nil {
+		if errors.Is(err, context.Canceled) {
+			return fail(1, errors.New("interrupted; nothing written"))
+		}
+		return fail(1, err)
+	}
+	if ext == ".txt" {
+		err = writeOutput(out, inputs, func(w io.Writer) error { return horizon.WriteMap(w, m, sv.layout) })
+	} else {
+		err = writeMapFigure(out, inputs, m, sv, attr, spec, width, height, *dpi, filepath.Base(top))
+	}
+	if err != nil {
+		return fail(1, err)
+	}
+	fmt.Fprintln(stdout, out)
+	return 0
+}
+
+// writeMapFigure draws the map as a report figure (axes in line numbers,
+// legend, scale bar from the bin spacing) and writes it as PNG.
+func writeMapFigure(out string, inputs []string, m *horizon.AttributeMap, sv *survey, attr *compute.Attribute, spec horizon.MapSpec, width, height int, dpi float64, name string) error {
+	l := sv.layout
+	data := make([][]float32, m.Inlines)
+	any := false
+	for il := range data {
+		data[il] = m.Values[il*m.Crosslines : (il+1)*m.Crosslines]
+		for _, v := range data[il] {
+			any = any || !math.IsNaN(float64(v))
+		}
+	}
+	if !any {
+		return errors.New("the map holds no values (no picks, or the window is off the traces)")
+	}
+	pal, err := style.Palette(attr, "")
+	if err != nil {
+		return err
+	}
+	layer := style.Layer(attr, data, pal, 99)
+	// Bin spacing from the coordinates of the grid's corners.
+	dist := func(il0, xl0, il1, xl1 int) float64 {
+		if l.XY == nil {
+			return 0
+		}
+		x0, y0 := l.XY(il0, xl0)
+		x1, y1 := l.XY(il1, xl1)
+		return math.Hypot(x1-x0, y1-y0)
+	}
+	perXL, perIL := 0.0, 0.0
+	if m.Crosslines > 1 {
+		perXL = dist(0, 0, 0, m.Crosslines-1) / float64(m.Crosslines-1)
+	}
+	if m.Inlines > 1 {
+		perIL = dist(0, 0, m.Inlines-1, 0) / float64(m.Inlines-1)
+	}
+	aspect := 1.0
+	if perXL > 0 && perIL > 0 {
+		aspect = perXL / perIL
+	}
+	title := fmt.Sprintf("%s along %s: %v", attr.Name, name, spec.Stat)
+	if spec.Stat != horizon.Value {
+		if spec.Base != nil {
+			title += fmt.Sprintf(" from %g ms to the base %+g ms", spec.FromMS, spec.ToMS)
+		} else {
+			title += fmt.Sprintf(" over %g to %g ms", spec.FromMS, spec.ToMS)
+		}
+	}
+	fig := render.Figure{
+		Title: title, Base: layer,
+		Horizontal: render.Axis{Title: "crossline", First: float64(l.FirstCrossline), Last: float64(l.FirstCrossline + (m.Crosslines-1)*l.CrosslineStep)},
+		Vertical:   render.Axis{Title: "inline", First: float64(l.FirstInline), Last: float64(l.FirstInline + (m.Inlines-1)*l.InlineStep)},
+		MapAspect:  aspect,
+		Scale:      render.ScaleBar{MetresPerTrace: perXL},
+		Legends:    []render.Legend{style.LegendFor(attr, layer)},
+		Width:      width, Height: height,
+	}
+	img, err := fig.Draw()
+	if err != nil {
+		return err
+	}
+	return writeOutput(out, inputs, func(w io.Writer) error { return render.EncodePNG(w, img, dpi) })
+}
