@@ -29,8 +29,9 @@ import (
 //
 // QUADTRACE_RANDOM_SEED picks the seed (default: the time; the seed is
 // printed first, also when a job's panic ends the process);
-// QUADTRACE_RANDOM_STEPS the number of actions (default 1500, a run of
-// about a minute on two cores under the race detector).
+// QUADTRACE_RANDOM_STEPS the number of actions (default 1000, or 250 under
+// the race detector, so that CI on two cores stays within a few minutes;
+// set it to a few thousand for a longer run).
 func TestRandomInteraction(t *testing.T) {
 	seed := time.Now().UnixNano()
 	if s := os.Getenv("QUADTRACE_RANDOM_SEED"); s != "" {
@@ -40,7 +41,10 @@ func TestRandomInteraction(t *testing.T) {
 		}
 		seed = n
 	}
-	steps := 1500
+	steps := 1000
+	if raceDetector {
+		steps = 250 // about a minute and a half on two busy cores
+	}
 	if s := os.Getenv("QUADTRACE_RANDOM_STEPS"); s != "" {
 		n, err := strconv.Atoi(s)
 		if err != nil || n < 1 {
