@@ -65,6 +65,18 @@ func TestRandomInteraction(t *testing.T) {
 			paths[i] = segytest.CorpusFile(t, f)
 		}
 	}
+	// And the malformed files of the segy suite, usable or not.
+	malformed := t.TempDir()
+	for i, c := range segytest.Malformed() {
+		if i%3 != 0 { // a third of them keeps the run short
+			continue
+		}
+		p, err := c.Create(malformed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		paths = append(paths, p)
+	}
 	a := test.NewTempApp(t)
 	demo := synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3}
 	v := newViewer(a, Options{Demo: &demo}, newQueuedJobs())
