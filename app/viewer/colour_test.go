@@ -140,3 +140,66 @@ func TestFigureFromWindow(t *testing.T) {
 		t.Errorf("file name %q", got)
 	}
 }
+
+// TestColourRangeEntries types a colour range into the display tab: the
+// section, legend and histogram use it, it is kept on the next line, and
+// bad entries are refused with the reason beside them.
+func TestColourRangeEntries(t *testing.T) {
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	u := v.ui.displayPanel
+	if u.histogram.Image == nil || !strings.Contains(u.histNote.Text, "Envelope") {
+		t.Fatalf("no histogram of the envelope: %q", u.histNote.Text)
+	}
+	u.minEntry.SetText("1")
+	u.maxEntry.SetText("4")
+	u.maxEntry.OnSubmitted("4")
+	v.jobs.wait()
+	if u.rangeWhy.Visible() {
+		t.Fatalf("1 to 4 refused: %q", u.rangeWhy.Text)
+	}
+	check := func(when string, entries bool) {
+		t.Helper()
+		_, ov := shownLayers(v.data, &v.state, v.ranges)
+		if ov == nil || ov.Lo != 1 || ov.Hi != 4 {
+			t.Fatalf("%s: overlay range %v..%v, want 1..4", when, ov.Lo, ov.Hi)
+		}
+		if v.ui.legends.rows[0].lo.Text != render.FormatTick(1, decimalsFor(1, 4)) || (entries && (u.minEntry.Text != "1" || u.maxEntry.Text != "4")) {
+			t.Errorf("%s: legend %q..%q, entries %q..%q", when, v.ui.legends.rows[0].lo.Text, v.ui.legends.rows[0].hi.Text, u.minEntry.Text, u.maxEntry.Text)
+		}
+		if !samePixels(v.lastSection, expectedSection(t, v)) {
+			t.Errorf("%s: section not drawn with 1..4", when)
+		}
+	}
+	check("typed", true)
+	v.stepLine(1)
+	v.jobs.wait()
+	check("next line", true)
+	for _, c := range [][2]string{{"x", "4"}, {"1", ""}, {"5", "2"}, {"3", "3"}} {
+		u.minEntry.SetText(c[0])
+		u.maxEntry.SetText(c[1])
+		u.minEntry.OnSubmitted(c[0])
+		if !u.rangeWhy.Visible() || u.rangeWhy.Text == "" {
+			t.Errorf("range %q..%q accepted", c[0], c[1])
+		}
+	}
+	v.jobs.wait()
+	check("after refused entries", false) // the entries keep the refused text beside its reason
+}
+
+// TestHistogramMarksRange draws the histogram of known values: bars where
+// the values are and the colour range's ends as red lines.
+func TestHistogramMarksRange(t *testing.T) {
+	data := [][]float32{{0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10}}
+	h := histogramOf(render.Layer{Data: data, Lo: 2.5, Hi: 7.5}, 101, 20)
+	if h.min != 0 || h.max != 10 {
+		t.Fatalf("extent %v..%v, want 0..10", h.min, h.max)
+	}
+	for _, x := range []int{25, 75} { // 2.5 and 7.5 of 0..10 on 101 pixels
+		if c := h.img.RGBAAt(x, 2); c.R < 200 || c.G > 100 {
+			t.Errorf("no range line at x=%d: %v", x, c)
+		}
+	}
+	if c := h.img.RGBAAt(50, 19); c.A == 0 {
+		t.Error("no bar under the value 5")
+	}
+}

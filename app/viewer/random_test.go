@@ -228,6 +228,13 @@ func TestRandomInteraction(t *testing.T) {
 			v.win.Resize(fyne.NewSize(float32(600+rng.Intn(900)), float32(420+rng.Intn(600))))
 		}},
 		{"history", func() { v.goHistory(rng.Intn(3) - 1) }},
+		{"colour range", func() {
+			texts := []string{"", "x", "-1e30", "0", "1", "3.5", "1e30", "NaN", "-2"}
+			u := v.ui.displayPanel
+			u.minEntry.SetText(texts[rng.Intn(len(texts))])
+			u.maxEntry.SetText(texts[rng.Intn(len(texts))])
+			u.maxEntry.OnSubmitted(u.maxEntry.Text)
+		}},
 		{"figure data", func() {
 			if f, err := v.figureFor("t", 400, 300); err == nil {
 				if _, err := f.Draw(); err != nil {
