@@ -11,6 +11,11 @@ import (
 	"quadtrace/app/style"
 	"quadtrace/render"
 	"quadtrace/segy/segytest"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
+	"fyne.io/fyne/v2/test"
+	"fyne.io/fyne/v2/widget"
 )
 
 // TestClipKeptWhilePaging: the colour range of an attribute is taken from
@@ -201,5 +206,38 @@ func TestHistogramMarksRange(t *testing.T) {
 	}
 	if c := h.img.RGBAAt(50, 19); c.A == 0 {
 		t.Error("no bar under the value 5")
+	}
+}
+
+// TestPaletteListShowsSwatches opens the palette list: each row shows the
+// palette's colours beside its name, and choosing a row sets the palette.
+func TestPaletteListShowsSwatches(t *testing.T) {
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	c := v.ui.palettePick
+	test.Tap(c.button)
+	if c.popUp == nil || !c.popUp.Visible() {
+		t.Fatal("tapping the palette chooser shows no list")
+	}
+	list := c.popUp.Content.(*fyne.Container).Objects[0].(*widget.List)
+	row := list.CreateItem()
+	list.UpdateItem(1, row)
+	sw := row.(*fyne.Container).Objects[1].(*canvas.Image)
+	want := c.byLabel[c.Options[1]]
+	strip, ok := sw.Image.(*image.RGBA)
+	if !ok || strip.RGBAAt(0, 0) != want.Table[0] || strip.RGBAAt(255, 0) != want.Table[255] {
+		t.Errorf("row 1's swatch does not show %s's colours", c.Options[1])
+	}
+	other := c.Options[1]
+	if other == c.Selected {
+		other = c.Options[2]
+	}
+	for i, o := range c.Options {
+		if o == other {
+			list.Select(i)
+		}
+	}
+	v.jobs.wait()
+	if c.Selected != other || c.popUp.Visible() || paletteLabel(v.state.paletteFor(v.state.plan().Overlay, true)) != other {
+		t.Errorf("choosing %q: chooser shows %q, overlay palette %q", other, c.Selected, v.state.paletteFor(v.state.plan().Overlay, true).Name)
 	}
 }

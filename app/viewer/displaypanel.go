@@ -23,8 +23,8 @@ type displayPanel struct {
 	refreshing bool
 	content    fyne.CanvasObject
 
-	palettePick     *widget.Select
-	basePalettePick *widget.Select
+	palettePick     *paletteChooser
+	basePalettePick *paletteChooser
 	clipSlider      *widget.Slider
 	clipLabel       *widget.Label
 	wiggleCheck     *widget.Check
@@ -49,11 +49,7 @@ type displayPanel struct {
 
 func newDisplayPanel(v *viewer) *displayPanel {
 	u := &displayPanel{}
-	var names []string
-	for _, p := range palettes.All() {
-		names = append(names, paletteLabel(p))
-	}
-	u.palettePick = widget.NewSelect(names, func(label string) {
+	u.palettePick = newPaletteChooser(palettes.All(), func(label string) {
 		if u.refreshing {
 			return
 		}
@@ -65,7 +61,7 @@ func newDisplayPanel(v *viewer) *displayPanel {
 			v.setPalette(pl.Base, false, s)
 		}
 	})
-	u.basePalettePick = widget.NewSelect(names, func(label string) {
+	u.basePalettePick = newPaletteChooser(palettes.All(), func(label string) {
 		if u.refreshing {
 			return
 		}
