@@ -200,13 +200,14 @@ func TestCommonPracticeFacts(t *testing.T) {
 // Source: scipy.signal.hilbert (Debian python3-scipy): quadrature, envelope
 // and phase agree to 1e-4 relative, without padding (N = n) and with
 // padding (N = the transform length, same end treatment), on random traces
-// of even and odd lengths.
+// of even and odd lengths. Nine traces: four pairs share a transform (see
+// analyticPair) and the last goes alone.
 func TestAgreesWithScipyOnRandomTraces(t *testing.T) {
 	py := pythonWithScipy(t)
 	var jobs []hilbertJob
 	var pads []string
 	for _, ns := range []int{500, 501, 1501} {
-		sec := randomTraces(8, ns, uint64(ns))
+		sec := randomTraces(9, ns, uint64(ns))
 		for _, pad := range PadModes() {
 			m, _ := EndTreatment{Pad: pad}.transformLength(ns)
 			jobs = append(jobs, hilbertJob{sec, m})

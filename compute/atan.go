@@ -18,30 +18,55 @@ const (
 	atanC8 = 0.002456684442660159
 )
 
-// fastAtan2 is math.Atan2 for finite arguments to within 1e-8 rad, with the
-// same quadrant and signed-zero rules. The phase of every sample goes
-// through it, and math.Atan2 (two divisions, a rational function and
-// special-case checks) was a fifth of the instantaneous set's time; this
-// takes one division and a polynomial.
+// atan2s stores in dst[j] math.Atan2(y[j], x[j]) for finite arguments to
+// within 1e-8 rad, with the same quadrant and signed-zero rules. The phase
+// of every sample goes through it, and math.Atan2 (two divisions, a
+// rational function and special-case checks) was a fifth of the
+// instantaneous set's time; this takes one division and a polynomial. It
+// works on whole traces so that its body sits in the loop: as a function
+// called per sample it was too large for Go to inline.
+func atan2s(dst, y, x []float64) {
+	y = y[:len(dst)]
+	x = x[:len(dst)]
+	for j := range dst {
+		xj, yj := x[j], y[j]
+		ax, ay := math.Abs(xj), math.Abs(yj)
+		if ax == 0 && ay == 0 { // keep math.Atan2's signed-zero results
+			dst[j] = math.Atan2(yj, xj)
+			continue
+		}
+		// Octant from sign bits, not branches: whether |y| > |x| is a
+		// coin toss on seismic data, and a mispredicted branch costs more
+		// than this.
+		swap := math.Float64bits(ax-ay) >> 63 // 1 when ay > ax
+		v := [2]float64{ay, ax}
+		t := v[swap] / v[swap^1]
+		// The polynomial in t² by Estrin's scheme (pairs, then pairs of
+		// pairs): the same terms as Horner's rule with a dependency chain
+		// half as long, so successive samples overlap in the processor.
+		t2 := t * t
+		t4 := t2 * t2
+		t8 := t4 * t4
+		q01 := atanC0 + atanC1*t2
+		q23 := atanC2 + atanC3*t2
+		q45 := atanC4 + atanC5*t2
+		q67 := atanC6 + atanC7*t2
+		q03 := q01 + q23*t4
+		q47 := q45 + q67*t4
+		p := t * (q03 + (q47+atanC8*t8)*t8)
+		// swap: π/2 - p; then x < 0 (sign bit, -0 included): π - p.
+		off := [2]float64{0, math.Pi / 2}
+		sgn := [2]float64{1, -1}
+		p = off[swap] + sgn[swap]*p
+		neg := math.Float64bits(xj) >> 63
+		p = 2*off[neg] + sgn[neg]*p
+		dst[j] = math.Copysign(p, yj)
+	}
+}
+
+// fastAtan2 is atan2s for one pair of arguments.
 func fastAtan2(y, x float64) float64 {
-	ax, ay := math.Abs(x), math.Abs(y)
-	var t float64
-	swap := ay > ax
-	switch {
-	case swap:
-		t = ax / ay
-	case ax > 0:
-		t = ay / ax
-	default: // both zero: keep math.Atan2's signed-zero results
-		return math.Atan2(y, x)
-	}
-	t2 := t * t
-	p := t * (atanC0 + t2*(atanC1+t2*(atanC2+t2*(atanC3+t2*(atanC4+t2*(atanC5+t2*(atanC6+t2*(atanC7+t2*atanC8))))))))
-	if swap {
-		p = math.Pi/2 - p
-	}
-	if x < 0 {
-		p = math.Pi - p
-	}
-	return math.Copysign(p, y)
+	var out [1]float64
+	atan2s(out[:], []float64{y}, []float64{x})
+	return out[0]
 }

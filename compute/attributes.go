@@ -150,8 +150,13 @@ func envelopeTrace(w *traceWork, out []float32) {
 	}
 }
 
-// phaseAt is atan2(h, x) in degrees, -180..180.
-func phaseAt(w *traceWork, j int) float64 { return fastAtan2(w.h[j], w.x[j]) * (180 / math.Pi) }
+// phaseTrace writes the phase atan2(h, x) in degrees, -180..180.
+func phaseTrace(w *traceWork, out []float32) {
+	atan2s(w.v[:len(out)], w.h, w.x)
+	for j, v := range w.v[:len(out)] {
+		out[j] = float32(v * (180 / math.Pi))
+	}
+}
 
 func cosPhaseAt(w *traceWork, j int) float64 {
 	x, h := w.x[j], w.h[j]

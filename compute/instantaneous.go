@@ -41,10 +41,11 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 		return InstantaneousSet{}, fmt.Errorf("instantaneous attributes: %w", err)
 	}
 	type worker struct {
-		p    analyticPair
-		a, b analyticTrace
+		p     analyticPair
+		a, b  analyticTrace
+		phase []float64
 	}
-	err = forEachPair(ctx, len(in.Traces), func() *worker { return new(worker) }, func(w *worker, i int, pair bool) error {
+	err = forEachPair(ctx, len(in.Traces), func() *worker { return &worker{phase: make([]float64, n)} }, func(w *worker, i int, pair bool) error {
 		if err := w.p.setup(n, in.DT, end, plan); err != nil {
 			return err
 		}
@@ -53,9 +54,9 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 			tb = in.Traces[i+1]
 		}
 		w.p.analyze(&w.a, &w.b, in.Traces[i], tb, true)
-		set.fill(i, &w.a)
+		set.fill(i, &w.a, w.phase)
 		if pair {
-			set.fill(i+1, &w.b)
+			set.fill(i+1, &w.b, w.phase)
 		}
 		return nil
 	}, progress)
@@ -65,8 +66,9 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 	return set, nil
 }
 
-// fill writes trace i of the set from its analytic trace t.
-func (set *InstantaneousSet) fill(i int, t *analyticTrace) {
+// fill writes trace i of the set from its analytic trace t; phase (n
+// long) is scratch.
+func (set *InstantaneousSet) fill(i int, t *analyticTrace, phase []float64) {
 	n := t.n
 	a, ph, f, c := set.Envelope.Traces[i], set.Phase.Traces[i], set.Frequency.Traces[i], set.CosPhase.Traces[i]
 	eps := t.stabilizer()
@@ -75,15 +77,24 @@ func (set *InstantaneousSet) fill(i int, t *analyticTrace) {
 	x, h, dx, dh := t.x[:n], t.h[:n], t.dx[:n], t.dh[:n]
 	dx, dh = dx[:len(x)], dh[:len(x)]
 	a, ph, f, c = a[:len(x)], ph[:len(x)], f[:len(x)], c[:len(x)]
+	phase = phase[:len(x)]
+	atan2s(phase, h, x)
 	for j, xj := range x {
 		hj := h[j]
 		a2 := xj*xj + hj*hj
 		inv := 1 / (a2 + eps)
 		r := math.Sqrt(a2)
 		a[j] = float32(r)
-		ph[j] = float32(fastAtan2(hj, xj) * toDeg)
+		ph[j] = float32(phase[j] * toDeg)
 		f[j] = float32((xj*dh[j] - hj*dx[j]) * inv2pi * inv)
-		c[j] = float32(cosPhase(xj, r, inv))
+		// cosPhase with its clamp as rarely taken branches.
+		cp := xj * r * inv
+		if cp > 1 {
+			cp = 1
+		} else if cp < -1 {
+			cp = -1
+		}
+		c[j] = float32(cp)
 	}
 	if t.gaps > 0 {
 		for j, g := range t.gap {

@@ -225,7 +225,7 @@ func registry() []*Attribute {
 		// instantaneous
 		{ID: "instantaneous-phase", Name: "Instantaneous phase", Unit: "deg", Kind: Cyclic, Group: GroupInstantaneous,
 			Description: "argument of the analytic trace, -180..180 degrees", Source: srcTaner1979,
-			Params: analyticParams(), run: sampleAttribute(false, phaseAt)},
+			Params: analyticParams(), run: traceAttribute(false, phaseTrace)},
 		{ID: "cosine-phase", Name: "Cosine of instantaneous phase", Unit: "", Kind: Signed, Group: GroupInstantaneous,
 			Description: "cosine of the instantaneous phase, x/a, in -1..1", Source: srcTaner1979,
 			Params: analyticParams(), run: sampleAttribute(false, cosPhaseAt)},

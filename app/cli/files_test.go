@@ -1,13 +1,17 @@
+//go:build linux
+
 package cli
 
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"math/rand/v2"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"syscall"
 	"testing"
@@ -84,15 +88,19 @@ func TestOutputKinds(t *testing.T) {
 	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", folder}, &stdout, &stderr); code != exitFailed || !strings.Contains(stderr.String(), "is a folder") {
 		t.Errorf("figure into a folder: exit %d %q", code, stderr.String())
 	}
-	// --follow-links writes at the target.
+	// --follow-links writes at the target (a figure's name ends in .png:
+	// the extension picks the format).
+	pngTarget, pngLink := filepath.Join(dir, "target.png"), filepath.Join(dir, "link.png")
+	os.WriteFile(pngTarget, []byte("kept"), 0o644)
+	os.Symlink(pngTarget, pngLink)
 	stderr.Reset()
-	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", link, "--follow-links"}, &stdout, &stderr); code != exitOK {
+	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", pngLink, "--follow-links"}, &stdout, &stderr); code != exitOK {
 		t.Fatalf("figure --follow-links: exit %d %q", code, stderr.String())
 	}
-	if b, _ := os.ReadFile(target); !bytes.HasPrefix(b, []byte("\x89PNG")) {
+	if b, _ := os.ReadFile(pngTarget); !bytes.HasPrefix(b, []byte("\x89PNG")) {
 		t.Error("the link's target is not the figure")
 	}
-	if st, _ := os.Lstat(link); st.Mode()&os.ModeSymlink == 0 {
+	if st, _ := os.Lstat(pngLink); st.Mode()&os.ModeSymlink == 0 {
 		t.Error("the link itself was replaced")
 	}
 }
@@ -211,7 +219,14 @@ func TestSignalsDuringOpen(t *testing.T) {
 			if err := cmd.Start(); err != nil {
 				t.Fatal(err)
 			}
-			time.Sleep(150 * time.Millisecond)
+			// Signal once the child holds the input open (its header scan
+			// is under way), not after a fixed sleep: on a loaded machine
+			// the child may not have reached main after any fixed delay.
+			if err := waitInputOpen(cmd.Process.Pid, in, 30*time.Second); err != nil {
+				cmd.Process.Kill()
+				cmd.Wait()
+				t.Fatal(err)
+			}
 			sent := time.Now()
 			cmd.Process.Signal(c.sig)
 			err := cmd.Wait()
@@ -238,3 +253,22 @@ func TestSignalsDuringOpen(t *testing.T) {
 }
 
 func errorsAs(err error, target any) bool { return errors.As(err, target) }
+
+// waitInputOpen waits until process pid has path open (one of the links in
+// /proc/PID/fd points at it), or fails after timeout.
+func waitInputOpen(pid int, path string, timeout time.Duration) error {
+	want, err := filepath.EvalSymlinks(path)
+	if err != nil {
+		return err
+	}
+	fdDir := filepath.Join("/proc", strconv.Itoa(pid), "fd")
+	for end := time.Now().Add(timeout); time.Now().Before(end); time.Sleep(5 * time.Millisecond) {
+		fds, _ := os.ReadDir(fdDir)
+		for _, fd := range fds {
+			if target, err := os.Readlink(filepath.Join(fdDir, fd.Name())); err == nil && target == want {
+				return nil
+			}
+		}
+	}
+	return fmt.Errorf("process %d did not open %s within %v", pid, path, timeout)
+}

@@ -71,6 +71,15 @@ func TestTrackAndMapCommands(t *testing.T) {
 		t.Errorf("map file: first line %q, %d lines; want the header and 30000 rows", lines[0], len(lines))
 	}
 
+	// Between two horizons (here the seafloor and itself, 4 ms below).
+	between := filepath.Join(dir, "between.txt")
+	if code, _, stderr := run(mapCmd, "--demo", "--horizon", hpath, "--base", hpath, "--window", "0:4", "--stat", "max-abs", "--attribute", "envelope", "--out", between); code != 0 {
+		t.Fatalf("map --base: exit %d: %s", code, stderr)
+	}
+	if b, err := os.ReadFile(between); err != nil || strings.Count(string(b), "\n") != 30001 {
+		t.Errorf("map --base: %d lines, %v", strings.Count(string(b), "\n"), err)
+	}
+
 	// The map may not replace its own horizon.
 	before, _ := os.ReadFile(hpath)
 	if code, _, stderr := run(mapCmd, "--demo", "--horizon", hpath, "--attribute", "envelope", "--out", hpath); code != 1 || !strings.Contains(stderr, "seafloor.txt") {
