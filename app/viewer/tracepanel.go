@@ -193,7 +193,7 @@ func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	// Time grid at the section's tick times.
 	t0 := pic.t0ms + pic.s0*pic.dtms
 	t1 := pic.t0ms + pic.s1*pic.dtms
-	timeTicks := ticks(t0, t1, h/45+1)
+	timeTicks := render.TimeTicks(t0, t1, float64(h), 45) // the section's and figures' rule
 	for _, t := range timeTicks {
 		y := int(row((t - pic.t0ms) / pic.dtms))
 		fillRect(img, image.Rect(0, y, w, y+1), pic.grid)
@@ -304,7 +304,7 @@ func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 		return yOfDB(db)
 	}
 	var labels []plotLabel
-	for _, f := range ticks(0, fmax, w/60+1) {
+	for _, f := range render.NiceTicks(0, fmax, max(w/60, 1)) {
 		x := int(xOf(f))
 		fillRect(img, image.Rect(x, 0, x+1, h), pic.grid)
 		labels = append(labels, plotLabel{X: f / fmax, Y: 1, DY: 9, Text: render.FormatTick(f, 0), Align: fyne.TextAlignCenter})
