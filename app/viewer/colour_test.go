@@ -103,6 +103,9 @@ func TestFigureFromWindow(t *testing.T) {
 		}
 		return img
 	}
+	if fig, err := v.figureFor("t", 800, 500); err != nil || !strings.Contains(fig.Caption, "small.sgy") || !strings.Contains(fig.Caption, "Instantaneous phase (") {
+		t.Errorf("figure caption %q (%v), want the file and the attribute with its parameters", fig.Caption, err)
+	}
 	plain := save("plain.png")
 	v.ui.wiggleCheck.SetChecked(true) // the display tab's box
 	v.jobs.wait()
