@@ -236,6 +236,7 @@ func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 			return left + pad + f*(tw-2*pad), side
 		}
 		prev := math.NaN()
+		var marks []image.Rectangle
 		for i := i0; i < i1; i++ {
 			x := float64(tr.Values[i])
 			if math.IsNaN(x) || math.IsInf(x, 0) {
@@ -255,7 +256,7 @@ func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 				if side > 0 {
 					e = int(left+tw) - 4
 				}
-				fillRect(img, image.Rect(e, int(y)-1, e+3, int(y)+2), clipMark)
+				marks = append(marks, image.Rect(e, int(y)-1, e+3, int(y)+2))
 			}
 		}
 		if tr.Wiggle {
@@ -264,6 +265,9 @@ func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 			fillPositive(img, xs, ys, zero, pic.fill)
 		}
 		strokePolyline(img, xs, ys, 1.5, tr.Colour)
+		for _, m := range marks { // over the curve and its fill, to be seen
+			fillRect(img, m, clipMark)
+		}
 	}
 	return img, labels
 }
