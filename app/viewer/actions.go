@@ -169,3 +169,32 @@ func (v *viewer) fitView() {
 	v.requestRender()
 	v.requestTrace()
 }
+
+// setColourRange sets the colour range of the coloured layer (the overlay,
+// or the base alone) of the shown data from the texts of the minimum and
+// maximum entries, for the survey and attribute (kept while paging), and
+// says why the texts are refused ("" when they are taken).
+func (v *viewer) setColourRange(loText, hiText string) string {
+	if !v.data.complete() {
+		return "nothing is shown yet"
+	}
+	lo, err1 := strconv.ParseFloat(strings.TrimSpace(loText), 32)
+	hi, err2 := strconv.ParseFloat(strings.TrimSpace(hiText), 32)
+	switch {
+	case err1 != nil || math.IsNaN(lo) || math.IsInf(lo, 0):
+		return fmt.Sprintf("minimum %q is not a number", strings.TrimSpace(loText))
+	case err2 != nil || math.IsNaN(hi) || math.IsInf(hi, 0):
+		return fmt.Sprintf("maximum %q is not a number", strings.TrimSpace(hiText))
+	case !(hi > lo):
+		return fmt.Sprintf("the maximum (%g) must be above the minimum (%g)", hi, lo)
+	}
+	d := v.data
+	a, params := d.plan.Base, d.baseParams
+	if d.plan.Overlay != nil {
+		a, params = d.plan.Overlay, d.overParams
+	}
+	v.ranges[rangeKey(a, params, d.cond, v.state.ClipPercent)] = [2]float32{float32(lo), float32(hi)}
+	v.requestRender()
+	v.requestTrace()
+	return ""
+}

@@ -11,6 +11,11 @@ import (
 	"quadtrace/app/style"
 	"quadtrace/render"
 	"quadtrace/segy/segytest"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
+	"fyne.io/fyne/v2/test"
+	"fyne.io/fyne/v2/widget"
 )
 
 // TestClipKeptWhilePaging: the colour range of an attribute is taken from
@@ -98,6 +103,9 @@ func TestFigureFromWindow(t *testing.T) {
 		}
 		return img
 	}
+	if fig, err := v.figureFor("t", 800, 500); err != nil || !strings.Contains(fig.Caption, "small.sgy") || !strings.Contains(fig.Caption, "Instantaneous phase (") {
+		t.Errorf("figure caption %q (%v), want the file and the attribute with its parameters", fig.Caption, err)
+	}
 	plain := save("plain.png")
 	v.ui.wiggleCheck.SetChecked(true) // the display tab's box
 	v.jobs.wait()
@@ -138,5 +146,101 @@ func TestFigureFromWindow(t *testing.T) {
 	}
 	if got := figureFileName("Inline 3: Envelope over amplitude"); got != "inline-3-envelope-over-amplitude.png" {
 		t.Errorf("file name %q", got)
+	}
+}
+
+// TestColourRangeEntries types a colour range into the display tab: the
+// section, legend and histogram use it, it is kept on the next line, and
+// bad entries are refused with the reason beside them.
+func TestColourRangeEntries(t *testing.T) {
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	u := v.ui.displayPanel
+	if u.histogram.Image == nil || !strings.Contains(u.histNote.Text, "Envelope") {
+		t.Fatalf("no histogram of the envelope: %q", u.histNote.Text)
+	}
+	u.minEntry.SetText("1")
+	u.maxEntry.SetText("4")
+	u.maxEntry.OnSubmitted("4")
+	v.jobs.wait()
+	if u.rangeWhy.Visible() {
+		t.Fatalf("1 to 4 refused: %q", u.rangeWhy.Text)
+	}
+	check := func(when string, entries bool) {
+		t.Helper()
+		_, ov := shownLayers(v.data, &v.state, v.ranges)
+		if ov == nil || ov.Lo != 1 || ov.Hi != 4 {
+			t.Fatalf("%s: overlay range %v..%v, want 1..4", when, ov.Lo, ov.Hi)
+		}
+		if v.ui.legends.rows[0].lo.Text != render.FormatTick(1, decimalsFor(1, 4)) || (entries && (u.minEntry.Text != "1" || u.maxEntry.Text != "4")) {
+			t.Errorf("%s: legend %q..%q, entries %q..%q", when, v.ui.legends.rows[0].lo.Text, v.ui.legends.rows[0].hi.Text, u.minEntry.Text, u.maxEntry.Text)
+		}
+		if !samePixels(v.lastSection, expectedSection(t, v)) {
+			t.Errorf("%s: section not drawn with 1..4", when)
+		}
+	}
+	check("typed", true)
+	v.stepLine(1)
+	v.jobs.wait()
+	check("next line", true)
+	for _, c := range [][2]string{{"x", "4"}, {"1", ""}, {"5", "2"}, {"3", "3"}} {
+		u.minEntry.SetText(c[0])
+		u.maxEntry.SetText(c[1])
+		u.minEntry.OnSubmitted(c[0])
+		if !u.rangeWhy.Visible() || u.rangeWhy.Text == "" {
+			t.Errorf("range %q..%q accepted", c[0], c[1])
+		}
+	}
+	v.jobs.wait()
+	check("after refused entries", false) // the entries keep the refused text beside its reason
+}
+
+// TestHistogramMarksRange draws the histogram of known values: bars where
+// the values are and the colour range's ends as red lines.
+func TestHistogramMarksRange(t *testing.T) {
+	data := [][]float32{{0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10}}
+	h := histogramOf(render.Layer{Data: data, Lo: 2.5, Hi: 7.5}, 101, 20)
+	if h.min != 0 || h.max != 10 {
+		t.Fatalf("extent %v..%v, want 0..10", h.min, h.max)
+	}
+	for _, x := range []int{25, 75} { // 2.5 and 7.5 of 0..10 on 101 pixels
+		if c := h.img.RGBAAt(x, 2); c.R < 200 || c.G > 100 {
+			t.Errorf("no range line at x=%d: %v", x, c)
+		}
+	}
+	if c := h.img.RGBAAt(50, 19); c.A == 0 {
+		t.Error("no bar under the value 5")
+	}
+}
+
+// TestPaletteListShowsSwatches opens the palette list: each row shows the
+// palette's colours beside its name, and choosing a row sets the palette.
+func TestPaletteListShowsSwatches(t *testing.T) {
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	c := v.ui.palettePick
+	test.Tap(c.button)
+	if c.popUp == nil || !c.popUp.Visible() {
+		t.Fatal("tapping the palette chooser shows no list")
+	}
+	list := c.popUp.Content.(*fyne.Container).Objects[0].(*widget.List)
+	row := list.CreateItem()
+	list.UpdateItem(1, row)
+	sw := row.(*fyne.Container).Objects[1].(*canvas.Image)
+	want := c.byLabel[c.Options[1]]
+	strip, ok := sw.Image.(*image.RGBA)
+	if !ok || strip.RGBAAt(0, 0) != want.Table[0] || strip.RGBAAt(255, 0) != want.Table[255] {
+		t.Errorf("row 1's swatch does not show %s's colours", c.Options[1])
+	}
+	other := c.Options[1]
+	if other == c.Selected {
+		other = c.Options[2]
+	}
+	for i, o := range c.Options {
+		if o == other {
+			list.Select(i)
+		}
+	}
+	v.jobs.wait()
+	if c.Selected != other || c.popUp.Visible() || paletteLabel(v.state.paletteFor(v.state.plan().Overlay, true)) != other {
+		t.Errorf("choosing %q: chooser shows %q, overlay palette %q", other, c.Selected, v.state.paletteFor(v.state.plan().Overlay, true).Name)
 	}
 }

@@ -1,7 +1,6 @@
 package viewer
 
 import (
-	"strings"
 	"testing"
 
 	"fyne.io/fyne/v2"
@@ -41,7 +40,7 @@ func assertOverlayShown(t *testing.T, v *viewer, id string) {
 	if v.data.over == nil || v.data.plan.Overlay == nil || v.data.plan.Overlay.ID != id {
 		t.Fatalf("shown data lack the %s overlay", id)
 	}
-	if !hasLabel(v.ui.trace.labels, strings.TrimSuffix(shortName(lookup(id).Name), "…")) {
+	if !hasLabel(v.ui.trace.labels, lookup(id).Name) {
 		t.Errorf("trace panel labels %v lack %s", labelTexts(v.ui.trace.labels), id)
 	}
 }

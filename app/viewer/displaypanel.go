@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/layout"
 	"fyne.io/fyne/v2/theme"
@@ -22,8 +23,8 @@ type displayPanel struct {
 	refreshing bool
 	content    fyne.CanvasObject
 
-	palettePick     *widget.Select
-	basePalettePick *widget.Select
+	palettePick     *paletteChooser
+	basePalettePick *paletteChooser
 	clipSlider      *widget.Slider
 	clipLabel       *widget.Label
 	wiggleCheck     *widget.Check
@@ -35,15 +36,20 @@ type displayPanel struct {
 	stretchSlider   *widget.Slider
 	followCursor    *widget.Check
 	oneClick        *widget.Button
+
+	// The colour range of the coloured layer (the overlay, or the base
+	// alone): its values' histogram with the range drawn on it, and
+	// entries for the range's ends.
+	histogram *canvas.Image
+	histNote  *widget.Label
+	minEntry  *widget.Entry
+	maxEntry  *widget.Entry
+	rangeWhy  *widget.Label
 }
 
 func newDisplayPanel(v *viewer) *displayPanel {
 	u := &displayPanel{}
-	var names []string
-	for _, p := range palettes.All() {
-		names = append(names, paletteLabel(p))
-	}
-	u.palettePick = widget.NewSelect(names, func(label string) {
+	u.palettePick = newPaletteChooser(palettes.All(), func(label string) {
 		if u.refreshing {
 			return
 		}
@@ -55,7 +61,7 @@ func newDisplayPanel(v *viewer) *displayPanel {
 			v.setPalette(pl.Base, false, s)
 		}
 	})
-	u.basePalettePick = widget.NewSelect(names, func(label string) {
+	u.basePalettePick = newPaletteChooser(palettes.All(), func(label string) {
 		if u.refreshing {
 			return
 		}
@@ -135,10 +141,26 @@ func newDisplayPanel(v *viewer) *displayPanel {
 	}
 	u.followCursor = widget.NewCheck("Trace panel follows the cursor", func(b bool) { v.state.FollowCursor = b })
 
+	u.histogram = canvas.NewImageFromImage(nil)
+	u.histogram.FillMode = canvas.ImageFillStretch
+	u.histogram.ScaleMode = canvas.ImageScalePixels
+	u.histogram.SetMinSize(fyne.NewSize(histogramWidth, histogramHeight))
+	u.histNote = widget.NewLabel("")
+	u.histNote.SizeName = theme.SizeNameCaptionText
+	u.minEntry, u.maxEntry = widget.NewEntry(), widget.NewEntry()
+	u.rangeWhy = refusalLabel()
+	submit := func(string) {
+		u.rangeWhy.SetText("")
+		setRefusal(u.rangeWhy, v.setColourRange(u.minEntry.Text, u.maxEntry.Text))
+	}
+	u.minEntry.OnSubmitted, u.maxEntry.OnSubmitted = submit, submit
 	colour := container.New(layout.NewFormLayout(),
 		widget.NewLabel("Palette"), u.palettePick,
 		widget.NewLabel("Base palette"), u.basePalettePick,
-		u.clipLabel, u.clipSlider)
+		u.clipLabel, u.clipSlider,
+		widget.NewLabel("Values"), container.NewVBox(u.histogram, u.histNote),
+		widget.NewLabel("Minimum"), u.minEntry,
+		widget.NewLabel("Maximum"), container.NewVBox(u.maxEntry, u.rangeWhy))
 	layers := container.New(layout.NewFormLayout(),
 		widget.NewLabel("Base layer"), u.baseChoice,
 		u.opacityLabel, u.opacitySlider)
@@ -191,6 +213,22 @@ func (u *displayPanel) refresh(st *viewState) {
 		u.stretchSlider.Enable()
 	}
 	u.followCursor.SetChecked(st.FollowCursor)
+}
+
+// setHistogram shows the histogram of the coloured layer's values (of
+// attribute a) and its colour range in the entries.
+func (u *displayPanel) setHistogram(h valueHistogram, a *compute.Attribute) {
+	u.histogram.Image = h.img
+	u.histogram.Refresh()
+	unit := unitSuffix(a.Unit)
+	if h.max > h.min {
+		u.histNote.SetText(fmt.Sprintf("%s: values %s to %s%s; colours between the red lines", a.Name, fmtValue(float32(h.min)), fmtValue(float32(h.max)), unit))
+	} else {
+		u.histNote.SetText(a.Name + ": no values to count")
+	}
+	u.minEntry.SetText(fmtValue(h.lo))
+	u.maxEntry.SetText(fmtValue(h.hi))
+	setRefusal(u.rangeWhy, "")
 }
 
 // paletteLabel names a palette in the choice lists with its family, so the

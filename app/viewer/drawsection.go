@@ -69,6 +69,7 @@ func renderSection(req renderRequest, basePal, ovPal *palettes.Palette) renderRe
 		}
 		render.DrawMap(res.img, base, ov, aspect)
 		res.axes = sectionAxes{HTitle: "Crossline", VTitle: "Inline", HKeys: amp.Keys, VKeys: amp.InlineKeys}
+		res.hist = histogramOf(res.colourLayer(), histogramWidth, histogramHeight)
 		return res
 	}
 	n, m := len(amp.Traces), len(amp.Traces[0])
@@ -89,6 +90,7 @@ func renderSection(req renderRequest, basePal, ovPal *palettes.Palette) renderRe
 		h = "Inline"
 	}
 	res.axes = sectionAxes{HTitle: h, VTitle: "Time (ms)", HKeys: amp.Keys, T0MS: amp.T0 * 1000, DTMS: amp.DT * 1000}
+	res.hist = histogramOf(res.colourLayer(), histogramWidth, histogramHeight)
 	return res
 }
 
@@ -117,3 +119,24 @@ func cropGrid(g [][]float32, r0, r1, c0, c1 int) [][]float32 {
 	}
 	return out
 }
+
+// colourLayer is the layer whose colours the colour control sets: the
+// overlay when there is one, else the base.
+func (r renderResult) colourLayer() render.Layer {
+	if r.hasOv {
+		return r.ov
+	}
+	return r.base
+}
+
+// colourLayer is the attribute of plan pl whose colours the colour control
+// sets.
+func colourLayer(pl layerPlan) *compute.Attribute {
+	if pl.Overlay != nil {
+		return pl.Overlay
+	}
+	return pl.Base
+}
+
+// The histogram picture's size in pixels.
+const histogramWidth, histogramHeight = 240, 56

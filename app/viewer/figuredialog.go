@@ -9,6 +9,7 @@ import (
 	"quadtrace/app/style"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
+	"quadtrace/palettes"
 	"quadtrace/render"
 	"strconv"
 	"strings"
@@ -90,56 +91,67 @@ func (v *viewer) figureTitle() string {
 	return t + pl.Base.Name
 }
 
-// figureFor builds the report figure of the current view.
+// figureFor builds the report figure of the current view with the shared
+// figure builder (figure.Compose, as the figure command): the shown
+// sections and the part of them in view, with the screen's colours (the
+// kept ranges and palettes), a caption naming the survey and the
+// attributes' parameters, the scale bar and, on a time slice of a survey
+// with coordinates, the north arrow and corner X/Y.
 func (v *viewer) figureFor(title string, w, h int) (render.Figure, error) {
 	d := v.data
-	if !d.complete() {
+	if !d.complete() || v.vol == nil {
 		return render.Figure{}, fmt.Errorf("no section is shown")
 	}
 	st := v.state
-	pl := d.plan
-	f := render.Figure{Title: title, Width: w, Height: h}
-	f.Base, f.Overlay = shownLayers(d, &st, v.ranges)
-	f.Legends = []render.Legend{style.LegendFor(pl.Base, f.Base)}
-	if f.Overlay != nil {
-		f.Legends = append(f.Legends, style.LegendFor(pl.Overlay, *f.Overlay))
+	base, over := shownLayers(d, &st, v.ranges)
+	resolved := func(a *compute.Attribute, params map[string]string) compute.Params {
+		p, _ := a.Resolve(params) // the shown data were computed with them
+		return p
+	}
+	c := figure.Content{
+		Name:     filepath.Base(v.vol.Name()),
+		Attrs:    []*compute.Attribute{d.plan.Base},
+		Params:   []compute.Params{resolved(d.plan.Base, d.baseParams)},
+		Cond:     d.cond,
+		Sections: []*volume.Section{d.base},
+		Palettes: []*palettes.Palette{base.Palette},
+		Clip:     st.ClipPercent, Opacity: st.Opacity, OpacityFollows: st.OpacityFollowsValue,
+		Wiggle: st.Wiggle, Width: w, Height: h, Title: title,
+	}
+	if over != nil {
+		c.Attrs = append(c.Attrs, d.plan.Overlay)
+		c.Params = append(c.Params, resolved(d.plan.Overlay, d.overParams))
+		c.Sections = append(c.Sections, d.over)
+		c.Palettes = append(c.Palettes, over.Palette)
+	}
+	if d.base != d.amp {
+		c.Amplitude = d.amp
 	}
 	amp := d.amp
 	if amp.Slice.Orientation == volume.TimeSlice {
-		f.MapAspect = amp.MapAspect
-		if !(f.MapAspect > 0) {
-			f.MapAspect = 1
+		c.MetresPerTrace = v.info.InlineSpacingM
+		if located, ok := v.vol.(figure.Located); ok {
+			c.Geo = figure.MapGeo(located, amp.InlineKeys, amp.Keys)
 		}
-		f.Horizontal = render.Axis{Title: "Crossline", First: float64(amp.Keys[0]), Last: float64(amp.Keys[len(amp.Keys)-1])}
-		f.Vertical = render.Axis{Title: "Inline", First: float64(amp.InlineKeys[0]), Last: float64(amp.InlineKeys[len(amp.InlineKeys)-1])}
-		f.Scale = render.ScaleBar{MetresPerTrace: v.info.InlineSpacingM}
-		return f, nil
+	} else {
+		c.View = st.viewport(len(amp.Traces), len(amp.Traces[0]))
 	}
-	n, m := len(amp.Traces), len(amp.Traces[0])
-	vp := st.viewport(n, m)
-	f.View = vp
-	i0, i1 := int(vp.Trace0), min(int(vp.Trace1+0.999)-1, n-1)
-	hTitle := "Crossline"
-	if amp.Slice.Orientation == volume.Crossline {
-		hTitle = "Inline"
+	f, err := figure.Compose(c)
+	if err != nil {
+		return render.Figure{}, err
 	}
-	// Axis values are at the centres of the first and last trace (sample)
-	// in view.
-	f.Horizontal = render.Axis{Title: hTitle, First: float64(amp.Keys[i0]), Last: float64(amp.Keys[max(i1, i0)])}
-	s0, s1 := int(vp.Sample0), min(int(vp.Sample1+0.999)-1, m-1)
-	f.Vertical = render.Axis{Title: "Time (ms)", First: (amp.T0 + float64(s0)*amp.DT) * 1000, Last: (amp.T0 + float64(max(s1, s0))*amp.DT) * 1000}
-	if st.Wiggle {
-		// The colour must be set: a zero WiggleStyle draws transparent
-		// wiggles.
-		f.Wiggle = &render.WiggleStyle{Color: wiggleColour, Fill: true, Gain: 1}
-		if d.base != d.amp {
-			f.Wiggle.Data = amp.Traces
-			if r, ok := v.ranges[rangeKey(lookup(amplitudeID), nil, compute.Conditioning{}, st.ClipPercent)]; ok {
-				f.Wiggle.Clip = float64(max(-r[0], r[1]))
-			}
+	// The screen's colours: the ranges kept for the survey and attribute.
+	f.Base.Lo, f.Base.Hi = base.Lo, base.Hi
+	f.Legends[0] = style.LegendFor(d.plan.Base, f.Base)
+	if over != nil && f.Overlay != nil {
+		f.Overlay.Lo, f.Overlay.Hi = over.Lo, over.Hi
+		f.Legends[1] = style.LegendFor(d.plan.Overlay, *f.Overlay)
+	}
+	if f.Wiggle != nil && d.base != d.amp {
+		if r, ok := v.ranges[rangeKey(lookup(amplitudeID), nil, compute.Conditioning{}, st.ClipPercent)]; ok {
+			f.Wiggle.Clip = float64(max(-r[0], r[1]))
 		}
 	}
-	f.Scale = render.ScaleBar{MetresPerTrace: amp.MetresPerTrace}
 	return f, nil
 }
 

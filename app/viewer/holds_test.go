@@ -2,13 +2,17 @@ package viewer
 
 import (
 	"context"
+	"strings"
 	"sync/atomic"
 	"testing"
 	"time"
 
 	"quadtrace/app/volume"
 	"quadtrace/compute"
+	"quadtrace/segy"
 	"quadtrace/segy/segytest"
+
+	"fyne.io/fyne/v2/test"
 )
 
 // guardedSurvey counts the reads in progress and records a Close that
@@ -77,5 +81,43 @@ func TestSurveyClosedOnlyAfterItsJobs(t *testing.T) {
 	}
 	if v.vol == survey(g) || v.info.Traces != 6 {
 		t.Errorf("tiny.sgy not shown after the switch (%d traces)", v.info.Traces)
+	}
+}
+
+// TestCancelOpenKeepsSurvey starts an open that runs until cancelled (a
+// header scan of a huge file), presses Cancel: the open stops, whatever it
+// had built is closed (its memory freed with it), and the survey shown
+// before stays, picture and controls.
+func TestCancelOpenKeepsSurvey(t *testing.T) {
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	before, shownVol := v.lastSection, v.vol
+	started := make(chan struct{})
+	var half *guardedSurvey
+	v.startOpen("a huge file", func(ctx context.Context, progress func(int, int)) (survey, error) {
+		vol, err := volume.OpenContext(ctx, segytest.CorpusFile(t, "tiny.sgy"), segy.Options{})
+		if err != nil {
+			return nil, err
+		}
+		half = &guardedSurvey{survey: vol}
+		progress(1, 1000)
+		close(started)
+		<-ctx.Done()
+		return half, ctx.Err()
+	}, "")
+	<-started
+	v.jobs.drain()
+	if v.ui.work.box.Hidden || v.ui.section.message == "" {
+		t.Fatal("no progress or message while opening")
+	}
+	test.Tap(v.ui.work.cancel)
+	v.jobs.wait()
+	if !half.closed.Load() {
+		t.Error("the cancelled open's survey was not closed")
+	}
+	if v.vol != shownVol || v.ui.section.message != "" || !samePixels(v.lastSection, before) || !v.ui.work.box.Hidden {
+		t.Errorf("after cancelling the open: survey kept %v, section message %q, same picture %v", v.vol == shownVol, v.ui.section.message, samePixels(v.lastSection, before))
+	}
+	if !strings.HasPrefix(v.ui.title.Text, "Inline 3") {
+		t.Errorf("title %q after the cancelled open", v.ui.title.Text)
 	}
 }

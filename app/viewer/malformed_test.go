@@ -1,11 +1,13 @@
 package viewer
 
 import (
+	"runtime"
 	"strings"
 	"testing"
 
 	"fyne.io/fyne/v2"
 
+	"quadtrace/segy"
 	"quadtrace/segy/segytest"
 )
 
@@ -57,5 +59,44 @@ func TestMalformedFilesShowErrorAndKeepSurvey(t *testing.T) {
 	}
 	if checked < 15 {
 		t.Errorf("only %d refusing cases checked; the suite lists more", checked)
+	}
+}
+
+// TestGarbageNumberingShownInFileOrder opens a file whose inline and
+// crossline bytes hold random numbers (issue 12.2): the window follows
+// segy's geometry decision and shows its traces in file order as one line,
+// says so, and the open allocates in proportion to the file, not to the
+// range of its numbers. Every other usable malformed file opens and draws.
+func TestGarbageNumberingShownInFileOrder(t *testing.T) {
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	dir := t.TempDir()
+	for _, c := range segytest.Malformed() {
+		if !c.Expect.Usable() || strings.Contains(c.Expect.Warning, "no traces") {
+			continue
+		}
+		path, err := c.Create(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var before, after runtime.MemStats
+		runtime.ReadMemStats(&before)
+		v.openFile(path)
+		v.jobs.wait()
+		runtime.ReadMemStats(&after)
+		if v.vol == nil || v.vol.Path() != path || v.data.amp == nil || v.sectionDrawn == 0 {
+			t.Errorf("%s: not shown (status %q)", c.Name, v.ui.message.Text)
+			continue
+		}
+		if grown := after.TotalAlloc - before.TotalAlloc; grown > 256<<20 {
+			t.Errorf("%s: opening and drawing allocated %d MB", c.Name, grown>>20)
+		}
+		if c.Name == "garbage numbering everywhere" {
+			if v.info.Layout != segy.LayoutUnstructured || !strings.HasPrefix(v.ui.title.Text, "Traces in file order") {
+				t.Errorf("garbage numbering: layout %q, title %q", v.info.Layout, v.ui.title.Text)
+			}
+			if n, _ := v.dims(); n != v.info.Traces {
+				t.Errorf("garbage numbering: %d of %d traces on the line", n, v.info.Traces)
+			}
+		}
 	}
 }

@@ -214,6 +214,7 @@ type renderResult struct {
 	base, ov  render.Layer
 	hasOv     bool
 	newRanges map[string][2]float32
+	hist      valueHistogram // of the layer the colour control sets
 }
 
 // requestRender renders the shown data at the section view's size in the
@@ -244,6 +245,7 @@ func (v *viewer) requestRender() {
 			v.ui.section.setPick(v.pickPoint())
 			v.sectionDrawn++
 			v.ui.legends.refresh(req.plan, res, &v.state)
+			v.ui.displayPanel.setHistogram(res.hist, colourLayer(req.plan))
 			v.maybeSnapshot()
 		})
 	})

@@ -9,9 +9,8 @@ import (
 	"quadtrace/render"
 )
 
-// Curve drawing for the trace panel and the spectrum: anti-aliased strokes
-// and fills rasterised with golang.org/x/image/vector into an image.RGBA.
-// These run in background jobs, never on the UI goroutine.
+// Curve drawing for the trace panel and the spectrum, through render's
+// functions. These run in background jobs, never on the UI goroutine.
 
 // strokePolyline and fillPositive are render's (render.StrokePolyline,
 // render.FillPositive), kept under these names for the trace panel.
@@ -42,17 +41,4 @@ func niceStep(span float64, n int) float64 {
 		}
 	}
 	return 10 * p
-}
-
-// ticks returns the multiples of a nice step inside [lo, hi].
-func ticks(lo, hi float64, n int) []float64 {
-	if hi < lo {
-		lo, hi = hi, lo
-	}
-	step := niceStep(hi-lo, n)
-	var out []float64
-	for v := math.Ceil(lo/step) * step; v <= hi+step*1e-9; v += step {
-		out = append(out, v)
-	}
-	return out
 }

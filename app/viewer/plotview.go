@@ -22,6 +22,13 @@ type plotLabel struct {
 	Align fyne.TextAlign
 	Color color.Color // nil: the theme's foreground
 	Bold  bool
+	Small bool // a scale label: smaller than the caption size
+	// MaxWidth, when above 0, is the widest the text may be, as a fraction
+	// of the plot width: longer text is cut with an ellipsis.
+	MaxWidth float64
+	// Outside lets a label sit left of the plot area (in the left margin)
+	// instead of being pushed inside the widget's edge.
+	Outside bool
 }
 
 // plotView shows a picture drawn in the background (curves of the trace
@@ -153,7 +160,14 @@ func (r *plotRenderer) Layout(size fyne.Size) {
 		if c == nil {
 			c = fg
 		}
-		t := r.texts.next(l.Text, c, theme.CaptionTextSize(), l.Bold)
+		textSize := theme.CaptionTextSize()
+		if l.Small {
+			textSize *= 0.85
+		}
+		t := r.texts.next(l.Text, c, textSize, l.Bold)
+		if l.MaxWidth > 0 {
+			t.Text = fitText(l.Text, float32(l.MaxWidth)*ps.Width, textSize, t.TextStyle)
+		}
 		ts := t.MinSize()
 		x := pos.X + float32(l.X)*ps.Width
 		switch l.Align {
@@ -162,8 +176,27 @@ func (r *plotRenderer) Layout(size fyne.Size) {
 		case fyne.TextAlignTrailing:
 			x -= ts.Width
 		}
+		if l.Outside {
+			x -= 3 // a gap between the label and the plot it labels
+		}
 		x = max(0, min(x, size.Width-ts.Width))
 		y := pos.Y + float32(l.Y)*ps.Height + l.DY - ts.Height/2
 		t.Move(fyne.NewPos(x, y))
 	}
+}
+
+// fitText cuts s with an ellipsis so that it is at most width wide at the
+// given text size and style.
+func fitText(s string, width, size float32, style fyne.TextStyle) string {
+	if fyne.MeasureText(s, size, style).Width <= width {
+		return s
+	}
+	r := []rune(s)
+	for n := len(r) - 1; n > 0; n-- {
+		c := string(r[:n]) + "…"
+		if fyne.MeasureText(c, size, style).Width <= width {
+			return c
+		}
+	}
+	return ""
 }

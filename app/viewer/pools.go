@@ -7,79 +7,70 @@ import (
 	"fyne.io/fyne/v2/canvas"
 )
 
-// textPool keeps the text objects of a renderer's labels (tick labels, plot
-// labels) across layouts: a layout takes texts with next, reusing those made
-// before and making new ones only when it needs more than ever, and finish
-// hides the ones it did not take. fyne's own widgets make their canvas
-// objects once in the renderer and update them in Refresh the same way.
-type textPool struct {
-	texts []*canvas.Text
+// objectPool keeps a renderer's repeated canvas objects (tick marks, tick
+// and plot labels) across layouts: a layout takes objects with take, which
+// reuses those made before and makes new ones only when it needs more than
+// ever, and finish hides the ones it did not take. fyne's own widgets make
+// their canvas objects once in the renderer and update them in Refresh the
+// same way.
+type objectPool[T fyne.CanvasObject] struct {
+	items []T
 	used  int
+	make  func() T
 }
 
 // reset starts a layout.
-func (p *textPool) reset() { p.used = 0 }
+func (p *objectPool[T]) reset() { p.used = 0 }
+
+// take returns the next object, made when the pool has none left.
+func (p *objectPool[T]) take() T {
+	if p.used == len(p.items) {
+		p.items = append(p.items, p.make())
+	}
+	o := p.items[p.used]
+	p.used++
+	o.Show()
+	return o
+}
+
+// finish hides the objects this layout did not take.
+func (p *objectPool[T]) finish() {
+	for _, o := range p.items[p.used:] {
+		o.Hide()
+	}
+}
+
+// objects lists every object of the pool.
+func (p *objectPool[T]) objects() []fyne.CanvasObject {
+	out := make([]fyne.CanvasObject, len(p.items))
+	for i, o := range p.items {
+		out[i] = o
+	}
+	return out
+}
+
+// textPool is the pool of a renderer's labels.
+type textPool struct{ objectPool[*canvas.Text] }
 
 // next returns a visible text object showing s in colour c at size.
 func (p *textPool) next(s string, c color.Color, size float32, bold bool) *canvas.Text {
-	if p.used == len(p.texts) {
-		p.texts = append(p.texts, canvas.NewText("", c))
+	if p.make == nil {
+		p.make = func() *canvas.Text { return canvas.NewText("", c) }
 	}
-	t := p.texts[p.used]
-	p.used++
+	t := p.take()
 	t.Text, t.Color, t.TextSize, t.TextStyle.Bold = s, c, size, bold
-	t.Hidden = false
 	return t
 }
 
-// finish hides the texts this layout did not take.
-func (p *textPool) finish() {
-	for _, t := range p.texts[p.used:] {
-		t.Hidden = true
-	}
-}
-
-// objects lists every text object of the pool.
-func (p *textPool) objects() []fyne.CanvasObject {
-	out := make([]fyne.CanvasObject, len(p.texts))
-	for i, t := range p.texts {
-		out[i] = t
-	}
-	return out
-}
-
-// linePool is textPool for lines (tick marks).
-type linePool struct {
-	lines []*canvas.Line
-	used  int
-}
-
-func (p *linePool) reset() { p.used = 0 }
+// linePool is the pool of a renderer's tick marks.
+type linePool struct{ objectPool[*canvas.Line] }
 
 // next returns a visible line from a to b in colour c.
 func (p *linePool) next(a, b fyne.Position, c color.Color) *canvas.Line {
-	if p.used == len(p.lines) {
-		l := canvas.NewLine(c)
-		l.StrokeWidth = 1
-		p.lines = append(p.lines, l)
+	if p.make == nil {
+		p.make = func() *canvas.Line { l := canvas.NewLine(c); l.StrokeWidth = 1; return l }
 	}
-	l := p.lines[p.used]
-	p.used++
+	l := p.take()
 	l.Position1, l.Position2, l.StrokeColor = a, b, c
-	l.Hidden = false
 	return l
-}
-
-func (p *linePool) finish() {
-	for _, l := range p.lines[p.used:] {
-		l.Hidden = true
-	}
-}
-
-func (p *linePool) objects() []fyne.CanvasObject {
-	out := make([]fyne.CanvasObject, len(p.lines))
-	for i, l := range p.lines {
-		out[i] = l
-	}
-	return out
 }

@@ -29,8 +29,9 @@ import (
 //
 // QUADTRACE_RANDOM_SEED picks the seed (default: the time; the seed is
 // printed first, also when a job's panic ends the process);
-// QUADTRACE_RANDOM_STEPS the number of actions (default 1500, a run of
-// about a minute on two cores under the race detector).
+// QUADTRACE_RANDOM_STEPS the number of actions (default 1000, or 250 under
+// the race detector, so that CI on two cores stays within a few minutes;
+// set it to a few thousand for a longer run).
 func TestRandomInteraction(t *testing.T) {
 	seed := time.Now().UnixNano()
 	if s := os.Getenv("QUADTRACE_RANDOM_SEED"); s != "" {
@@ -40,7 +41,10 @@ func TestRandomInteraction(t *testing.T) {
 		}
 		seed = n
 	}
-	steps := 1500
+	steps := 1000
+	if raceDetector {
+		steps = 250 // about a minute and a half on two busy cores
+	}
 	if s := os.Getenv("QUADTRACE_RANDOM_STEPS"); s != "" {
 		n, err := strconv.Atoi(s)
 		if err != nil || n < 1 {
@@ -60,6 +64,18 @@ func TestRandomInteraction(t *testing.T) {
 		if f != "" {
 			paths[i] = segytest.CorpusFile(t, f)
 		}
+	}
+	// And the malformed files of the segy suite, usable or not.
+	malformed := t.TempDir()
+	for i, c := range segytest.Malformed() {
+		if i%3 != 0 { // a third of them keeps the run short
+			continue
+		}
+		p, err := c.Create(malformed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		paths = append(paths, p)
 	}
 	a := test.NewTempApp(t)
 	demo := synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3}
@@ -212,6 +228,13 @@ func TestRandomInteraction(t *testing.T) {
 			v.win.Resize(fyne.NewSize(float32(600+rng.Intn(900)), float32(420+rng.Intn(600))))
 		}},
 		{"history", func() { v.goHistory(rng.Intn(3) - 1) }},
+		{"colour range", func() {
+			texts := []string{"", "x", "-1e30", "0", "1", "3.5", "1e30", "NaN", "-2"}
+			u := v.ui.displayPanel
+			u.minEntry.SetText(texts[rng.Intn(len(texts))])
+			u.maxEntry.SetText(texts[rng.Intn(len(texts))])
+			u.maxEntry.OnSubmitted(u.maxEntry.Text)
+		}},
 		{"figure data", func() {
 			if f, err := v.figureFor("t", 400, 300); err == nil {
 				if _, err := f.Draw(); err != nil {

@@ -386,7 +386,7 @@ func (r *sectionRenderer) layoutTicks(pos fyne.Position, ps fyne.Size) {
 	} else if v.axes.DTMS > 0 {
 		t0 := v.axes.T0MS + v.vp.Sample0*v.axes.DTMS
 		t1 := v.axes.T0MS + v.vp.Sample1*v.axes.DTMS
-		for _, t := range ticks(t0, t1, int(ps.Height/45)+1) {
+		for _, t := range render.TimeTicks(t0, t1, float64(ps.Height), 45) { // figures' tick rule
 			labels = append(labels, struct {
 				at   float64
 				text string

@@ -198,6 +198,11 @@ func (s *viewState) title(info segy.Info) string {
 		t = fmt.Sprintf("Time slice %s ms", formatMS(info.StartMS+float64(s.SampleIndex)*float64(info.IntervalUS)/1000))
 	default:
 		t = fmt.Sprintf("Inline %d", s.Inline)
+		if info.Layout == segy.LayoutUnstructured {
+			// segy's geometry decision: numbering that forms no grid is
+			// shown as one line of the traces in file order.
+			t = "Traces in file order"
+		}
 	}
 	if len(info.Offsets) > 1 {
 		t += fmt.Sprintf(", offset %d", s.Offset)

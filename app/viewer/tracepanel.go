@@ -25,6 +25,7 @@ type traceTrack struct {
 	Values []float32
 	Lo, Hi float64
 	Wiggle bool // amplitude: a wiggle with its positive lobes filled
+	Cyclic bool // values wrap from Hi round to Lo (phase)
 	Colour color.RGBA
 }
 
@@ -128,7 +129,20 @@ func (v *viewer) requestTrace() {
 			pic.s0, pic.s1 = vp.Sample0, vp.Sample1
 		}
 		pic.t0ms, pic.dtms = d.amp.T0*1000, d.amp.DT*1000
+		// The amplitude's kept range gives every trace the same gain,
+		// whatever view it was picked from; the first trace panel of a
+		// survey keeps one if the section has not yet.
 		hi := float64(max(math.Abs(float64(ampRange[0])), math.Abs(float64(ampRange[1]))))
+		if !(hi > 0) {
+			lo, h := displayRange(lookup(amplitudeID), d.amp.Traces, st.ClipPercent)
+			hi = math.Max(math.Abs(float64(lo)), math.Abs(float64(h)))
+			key := rangeKey(lookup(amplitudeID), nil, compute.Conditioning{}, st.ClipPercent)
+			v.onUI(j, func() {
+				if _, ok := v.ranges[key]; !ok {
+					v.ranges[key] = [2]float32{lo, h}
+				}
+			})
+		}
 		if !(hi > 0) {
 			hi = maxAbs(amp)
 		}
@@ -138,7 +152,7 @@ func (v *viewer) requestTrace() {
 			if r, ok := ranges[rangeKey(at.a, at.params, cond, st.ClipPercent)]; ok {
 				lo, hi = float64(r[0]), float64(r[1])
 			}
-			pic.tracks = append(pic.tracks, traceTrack{Name: at.a.Name, Values: curves[k], Lo: lo, Hi: hi, Colour: trackColours[k%len(trackColours)]})
+			pic.tracks = append(pic.tracks, traceTrack{Name: at.a.Name, Values: curves[k], Lo: lo, Hi: hi, Cyclic: at.a.Kind == compute.Cyclic, Colour: trackColours[k%len(trackColours)]})
 		}
 		if hasFinite(amp) {
 			pic.spectrum = compute.TraceSpectrum(withoutGaps(amp), d.amp.DT)
@@ -147,6 +161,7 @@ func (v *viewer) requestTrace() {
 		timg, tlabels := drawTracks(pic, tw, th)
 		simg, slabels := drawSpectrum(pic, sw, sh)
 		v.onUI(j, func() {
+			v.lastTrace = pic
 			v.ui.trace.set(timg, tlabels)
 			if simg != nil {
 				v.ui.spectrum.set(simg, slabels)
@@ -160,10 +175,16 @@ func (v *viewer) requestTrace() {
 }
 
 // drawTracks draws the trace panel's tracks side by side on a shared time
-// axis and returns the picture with its labels.
+// axis and returns the picture with its labels: each track has its title
+// (cut to the track's width, so titles never overlap), its value scale
+// (the values at its left and right edges) and time labels at the grid
+// lines. Values beyond a track's scale are drawn at its edge and marked
+// there in red, so a clipped curve shows that it is clipped. A cyclic
+// track (phase) breaks its curve where the value wraps round instead of
+// drawing a line across the track.
 func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	img := image.NewRGBA(image.Rect(0, 0, w, h))
-	labels := []plotLabel{{X: 0, DY: -30, Text: pic.title, Bold: true}}
+	labels := []plotLabel{{X: 0, DY: -30, Text: pic.title, Bold: true, MaxWidth: 1}}
 	if len(pic.tracks) == 0 || !(pic.s1 > pic.s0) {
 		return img, labels
 	}
@@ -172,7 +193,8 @@ func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	// Time grid at the section's tick times.
 	t0 := pic.t0ms + pic.s0*pic.dtms
 	t1 := pic.t0ms + pic.s1*pic.dtms
-	for _, t := range ticks(t0, t1, h/45+1) {
+	timeTicks := render.TimeTicks(t0, t1, float64(h), 45) // the section's and figures' rule
+	for _, t := range timeTicks {
 		y := int(row((t - pic.t0ms) / pic.dtms))
 		fillRect(img, image.Rect(0, y, w, y+1), pic.grid)
 	}
@@ -180,46 +202,79 @@ func drawTracks(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 		y := row(pic.markSample)
 		fillRect(img, image.Rect(0, int(y)-1, w, int(y)+1), color.RGBA{255, 200, 0, 255})
 	}
+	clipMark := color.RGBA{220, 40, 40, 255}
 	i0 := max(int(math.Floor(pic.s0)), 0)
 	for k, tr := range pic.tracks {
 		left := float64(k) * tw
 		if k > 0 {
 			fillRect(img, image.Rect(int(left), 0, int(left)+1, h), pic.grid)
 		}
+		fx := func(x float64) float64 { return x / float64(w) }
+		labels = append(labels, plotLabel{X: fx(left + tw/2), DY: -11, Text: tr.Name, Align: fyne.TextAlignCenter, Color: colourOrNil(tr, pic.fg), MaxWidth: fx(tw - 4)})
+		for _, t := range timeTicks {
+			labels = append(labels, plotLabel{X: fx(left + 2), Y: ((t-pic.t0ms)/pic.dtms - pic.s0) / (pic.s1 - pic.s0), DY: -6, Text: formatMS(t), Small: true})
+		}
 		i1 := min(int(math.Ceil(pic.s1))+1, len(tr.Values))
 		if i1 <= i0 || !(tr.Hi > tr.Lo) {
 			continue
 		}
+		dec := decimalsFor(float32(tr.Lo), float32(tr.Hi))
+		labels = append(labels,
+			plotLabel{X: fx(left + 2), Y: 1, DY: 2, Text: render.FormatTick(tr.Lo, dec), Small: true, MaxWidth: fx(tw/2 - 2)},
+			plotLabel{X: fx(left + tw - 2), Y: 1, DY: 2, Text: render.FormatTick(tr.Hi, dec), Align: fyne.TextAlignTrailing, Small: true, MaxWidth: fx(tw/2 - 2)})
 		xs := make([]float64, 0, i1-i0)
 		ys := make([]float64, 0, i1-i0)
 		pad := 6.0
-		col := func(v float64) float64 {
-			f := clamp((v-tr.Lo)/(tr.Hi-tr.Lo), -0.05, 1.05)
-			return left + pad + f*(tw-2*pad)
+		col := func(v float64) (float64, int) {
+			f := (v - tr.Lo) / (tr.Hi - tr.Lo)
+			side := 0
+			if f < 0 {
+				f, side = 0, -1
+			} else if f > 1 {
+				f, side = 1, 1
+			}
+			return left + pad + f*(tw-2*pad), side
 		}
+		prev := math.NaN()
+		var marks []image.Rectangle
 		for i := i0; i < i1; i++ {
 			x := float64(tr.Values[i])
 			if math.IsNaN(x) || math.IsInf(x, 0) {
 				xs, ys = append(xs, math.NaN()), append(ys, math.NaN())
+				prev = math.NaN()
 				continue
 			}
-			xs = append(xs, col(x))
-			ys = append(ys, row(float64(i)+0.5))
+			if tr.Cyclic && !math.IsNaN(prev) && math.Abs(x-prev) > (tr.Hi-tr.Lo)/2 {
+				xs, ys = append(xs, math.NaN()), append(ys, math.NaN()) // wrapped round
+			}
+			prev = x
+			c, side := col(x)
+			y := row(float64(i) + 0.5)
+			xs, ys = append(xs, c), append(ys, y)
+			if side != 0 {
+				e := int(left) + 1
+				if side > 0 {
+					e = int(left+tw) - 4
+				}
+				marks = append(marks, image.Rect(e, int(y)-1, e+3, int(y)+2))
+			}
 		}
 		if tr.Wiggle {
-			zero := col(0)
+			zero, _ := col(0)
 			fillRect(img, image.Rect(int(zero), 0, int(zero)+1, h), pic.grid)
 			fillPositive(img, xs, ys, zero, pic.fill)
 		}
 		strokePolyline(img, xs, ys, 1.5, tr.Colour)
-		labels = append(labels,
-			plotLabel{X: (left + tw/2) / float64(w), DY: -11, Text: shortName(tr.Name), Align: fyne.TextAlignCenter, Color: colourOrNil(tr, pic.fg)},
-		)
+		for _, m := range marks { // over the curve and its fill, to be seen
+			fillRect(img, m, clipMark)
+		}
 	}
 	return img, labels
 }
 
-// drawSpectrum draws the amplitude spectrum with its peak and centroid.
+// drawSpectrum draws the amplitude spectrum in decibels below its peak
+// (0 to -60 dB, labelled on the left; common practice for spectra) against
+// frequency, with its peak and centroid.
 func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	if !pic.spectrumOK {
 		return nil, nil
@@ -230,11 +285,11 @@ func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	for _, a := range sp.Amps {
 		amax = math.Max(amax, a)
 	}
-	// Show up to a little past the last frequency with 2 % of the peak
-	// amplitude: above it the plot would be an empty tail to Nyquist.
+	// Show up to a little past the last frequency within 40 dB of the peak:
+	// above it the plot would be an empty tail to Nyquist.
 	fmax := sp.Freqs[len(sp.Freqs)-1]
 	for i := len(sp.Amps) - 1; i > 0; i-- {
-		if sp.Amps[i] >= 0.02*amax {
+		if sp.Amps[i] >= 0.01*amax {
 			fmax = math.Min(fmax, niceCeil(sp.Freqs[i]*1.15))
 			break
 		}
@@ -242,13 +297,26 @@ func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 	if !(fmax > 0) || !(amax > 0) {
 		return nil, nil
 	}
+	const floorDB = -60.0
 	xOf := func(f float64) float64 { return f / fmax * float64(w) }
-	yOf := func(a float64) float64 { return float64(h) - a/amax*float64(h-4) }
+	yOfDB := func(db float64) float64 { return db / floorDB * float64(h-1) }
+	yOf := func(a float64) float64 {
+		db := floorDB
+		if a > 0 {
+			db = math.Max(20*math.Log10(a/amax), floorDB)
+		}
+		return yOfDB(db)
+	}
 	var labels []plotLabel
-	for _, f := range ticks(0, fmax, w/60+1) {
+	for _, f := range render.NiceTicks(0, fmax, max(w/60, 1)) {
 		x := int(xOf(f))
 		fillRect(img, image.Rect(x, 0, x+1, h), pic.grid)
 		labels = append(labels, plotLabel{X: f / fmax, Y: 1, DY: 9, Text: render.FormatTick(f, 0), Align: fyne.TextAlignCenter})
+	}
+	for db := 0.0; db >= floorDB; db -= 20 {
+		y := int(yOfDB(db))
+		fillRect(img, image.Rect(0, y, w, y+1), pic.grid)
+		labels = append(labels, plotLabel{X: 0, Y: db / floorDB, DY: 0, Text: render.FormatTick(db, 0), Align: fyne.TextAlignTrailing, Small: true, Outside: true})
 	}
 	var xs, ys []float64
 	for i := range sp.Freqs {
@@ -265,7 +333,7 @@ func drawSpectrum(pic tracePicture, w, h int) (*image.RGBA, []plotLabel) {
 		fillRect(img, image.Rect(cx-1, y, cx+1, min(y+3, h)), cent)
 	}
 	labels = append(labels,
-		plotLabel{X: 0, DY: -25, Text: "Amplitude spectrum (Hz)", Bold: true},
+		plotLabel{X: 0, DY: -25, Text: "Amplitude spectrum (dB below peak; Hz)", Bold: true, MaxWidth: 1},
 		plotLabel{X: 0, DY: -10, Text: fmt.Sprintf("peak %.0f Hz", sp.PeakHz), Color: peak},
 		plotLabel{X: 1, DY: -10, Text: fmt.Sprintf("centroid %.0f Hz", sp.CentroidHz), Align: fyne.TextAlignTrailing, Color: cent},
 	)
@@ -283,14 +351,6 @@ func colourOrNil(tr traceTrack, fg color.RGBA) color.Color {
 		return nil
 	}
 	return tr.Colour
-}
-
-// shortName keeps a track heading within its column.
-func shortName(s string) string {
-	if r := []rune(s); len(r) > 22 {
-		return string(r[:21]) + "…"
-	}
-	return s
 }
 
 func maxAbs(x []float32) float64 {

@@ -114,6 +114,7 @@ type viewer struct {
 	lastSection   *image.RGBA
 	sectionDrawn  int // renders shown so far
 	traceDrawn    int // trace panels shown so far
+	lastTrace     tracePicture
 	snapshotTaken bool
 
 	ui *widgets
@@ -253,6 +254,12 @@ func (v *viewer) setSurvey(vol survey) {
 	v.state = newViewState(v.info)
 	v.wantPick, v.history, v.histPos, v.histPending = nil, nil, 0, -1
 	v.showStatus("") // errors about the survey before do not apply
+	if v.info.IntervalUS <= 0 {
+		// Without a sample interval no attribute can be computed; the
+		// amplitude can still be looked at.
+		v.state.AttributeID, v.state.CoRender = amplitudeID, false
+		defer v.showStatus(filepath.Base(vol.Name()) + " gives no sample interval: only the amplitude can be shown")
+	}
 	v.loadPalettePrefs()
 	v.ui.surveyPanel.refresh(vol.Name(), vol.Path() != "", v.info)
 	v.refreshControls()

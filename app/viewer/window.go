@@ -39,7 +39,7 @@ func (v *viewer) buildUI() {
 	u.section.onKey = v.typedKey
 	u.trace = newPlotView(plotTop, plotBottom, 4, 4, fyne.NewSize(200, 200))
 	u.trace.onResize = v.requestTrace
-	u.spectrum = newPlotView(34, 20, 10, 10, fyne.NewSize(200, 120))
+	u.spectrum = newPlotView(34, 20, 30, 10, fyne.NewSize(200, 120))
 	u.spectrum.onResize = v.requestTrace
 	u.legends = newLegendStrip()
 	u.statusBar = newStatusBar()
