@@ -164,8 +164,8 @@ func TestExportHonoursCPULimit(t *testing.T) {
 // is an error naming the variable; unset or empty means no limit.
 func TestSlurmCPUs(t *testing.T) {
 	for _, c := range []struct {
-		value  string
-		n      int
+		value   string
+		n       int
 		ok, err bool
 	}{
 		{"", 0, false, false}, {"4", 4, true, false}, {" 2\n", 2, true, false},
