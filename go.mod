@@ -9,6 +9,7 @@ require (
 	github.com/lucasb-eyer/go-colorful v1.4.1
 	github.com/schollz/progressbar/v3 v3.19.1
 	golang.org/x/image v0.48.0
+	golang.org/x/sync v0.25.0
 	golang.org/x/sys v0.50.0
 	golang.org/x/term v0.48.0
 	golang.org/x/text v0.44.0

@@ -9,14 +9,17 @@ package app
 import (
 	"fmt"
 	"io"
+	"maps"
+	"os"
+	"slices"
 	"strings"
 
 	"quadtrace/app/cli"
-	"quadtrace/app/version"
 	"quadtrace/app/viewer"
+	"quadtrace/compute"
 )
 
-// usage is printed for `quadtrace help` and on a wrong call.
+// usage is printed for `quadtrace help`.
 const usage = `quadtrace: complex-trace seismic attributes on SEG-Y volumes
 
 usage:
@@ -26,7 +29,10 @@ usage:
                                  open the viewer, write a PNG of the window
                                  once the first views are drawn, and exit
   quadtrace scan FILE [--json]   say what a SEG-Y file holds
-  quadtrace attributes           list the attributes, one per line, id first
+  quadtrace headers FILE [--trace N]
+                                 print the binary header and one trace header
+                                 field by field, with byte positions
+  quadtrace attributes [ID]      list the attributes, or one in full
   quadtrace export FILE --attribute ID[,ID...] --out PATH [options]
                                  write attribute volumes as SEG-Y
   quadtrace join PART... --out FILE
@@ -45,8 +51,26 @@ usage:
                                  map an attribute along a horizon
   quadtrace version              print the version
 
+Every command that opens SEG-Y takes --inline-byte, --crossline-byte,
+--offset-byte, --x-byte, --y-byte, --byte-order and --ignore-partial-trace.
 Run 'quadtrace COMMAND --help' for a command's options.
 `
+
+// commandTable maps each sub-command name to its function.
+func commandTable() map[string]func(args []string, stdout, stderr io.Writer) int {
+	return map[string]func(args []string, stdout, stderr io.Writer) int{
+		"scan":       cli.Scan,
+		"headers":    cli.Headers,
+		"attributes": cli.Attributes,
+		"export":     cli.Export,
+		"join":       cli.Join,
+		"figure":     cli.Figure,
+		"synth":      cli.Synth,
+		"version":    cli.Version,
+		"track":      cli.Track,
+		"map":        cli.Map,
+	}
+}
 
 // Main runs quadtrace with the command-line arguments args (without the
 // program name) and returns the process exit status: 0 on success, 1 when
@@ -55,32 +79,24 @@ func Main(args []string, stdout, stderr io.Writer) int {
 	if len(args) == 0 {
 		return runViewer(viewer.Options{}, stderr)
 	}
+	commands := commandTable()
+	if run, ok := commands[args[0]]; ok {
+		return run(args[1:], stdout, stderr)
+	}
 	switch args[0] {
-	case "help", "-h", "--help":
+	case "help", "-h", "-help", "--help":
+		if len(args) == 2 {
+			if run, ok := commands[args[1]]; ok {
+				return run([]string{"--help"}, stdout, stderr)
+			}
+		}
 		fmt.Fprint(stdout, usage)
 		return 0
-	case "version", "--version":
-		fmt.Fprintln(stdout, "quadtrace", version.Version)
-		return 0
-	case "scan":
-		return cli.Scan(args[1:], stdout, stderr)
-	case "attributes":
-		return cli.Attributes(args[1:], stdout, stderr)
-	case "export":
-		return cli.Export(args[1:], stdout, stderr)
-	case "join":
-		return cli.Join(args[1:], stdout, stderr)
-	case "figure":
-		return cli.Figure(args[1:], stdout, stderr)
-	case "synth":
-		return cli.Synth(args[1:], stdout, stderr)
-	case "track":
-		return cli.Track(args[1:], stdout, stderr)
-	case "map":
-		return cli.Map(args[1:], stdout, stderr)
+	case "--version":
+		return cli.Version(nil, stdout, stderr)
 	case "--snapshot":
 		if len(args) < 2 || len(args) > 3 {
-			fmt.Fprint(stderr, "quadtrace: --snapshot takes OUT.png and an optional FILE\n")
+			fmt.Fprint(stderr, "quadtrace: --snapshot takes OUT.png and an optional FILE\nRun 'quadtrace --help' for usage.\n")
 			return 2
 		}
 		opt := viewer.Options{Snapshot: args[1]}
@@ -89,8 +105,13 @@ func Main(args []string, stdout, stderr io.Writer) int {
 		}
 		return runViewer(opt, stderr)
 	}
-	if strings.HasPrefix(args[0], "-") || len(args) > 1 {
-		fmt.Fprintf(stderr, "quadtrace: unknown call %q\n\n%s", strings.Join(args, " "), usage)
+	// A single word that names no file but is near a command name is a
+	// mistyped command, not a file for the viewer.
+	names := slices.Sorted(maps.Keys(commands))
+	_, near := compute.Nearest(args[0], names)
+	_, statErr := os.Stat(args[0])
+	if strings.HasPrefix(args[0], "-") || len(args) > 1 || (near && statErr != nil) {
+		fmt.Fprintf(stderr, "quadtrace: unknown command or option %q%s\nRun 'quadtrace --help' for usage.\n", args[0], compute.DidYouMean(args[0], names))
 		return 2
 	}
 	return runViewer(viewer.Options{Path: args[0]}, stderr)

@@ -296,12 +296,13 @@ func TestNearest(t *testing.T) {
 	}{
 		{"envlope", "envelope", true},
 		{"windw", "window", true},
+		{"pda", "pad", true}, // a swapped pair: two substitutions
 		{"Sweetness", "sweetness", true},
 		{"instantaneous-phse", "instantaneous-phase", true},
 		{"kitten", "sitting", false}, // 3 edits in 7 letters: more than a third
 		{"xyz", "sitting", false},
 	} {
-		got, ok := Nearest(c.word, []string{"envelope", "window", "sweetness", "instantaneous-phase", "sitting"})
+		got, ok := Nearest(c.word, []string{"envelope", "window", "sweetness", "instantaneous-phase", "sitting", "pad"})
 		if ok != c.ok || (ok && got != c.want) {
 			t.Errorf("Nearest(%q) = %q, %v; want %q, %v", c.word, got, ok, c.want, c.ok)
 		}

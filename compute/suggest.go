@@ -11,7 +11,8 @@ import (
 // (Levenshtein, 1966: insertions, deletions and substitutions, computed by
 // github.com/agnivade/levenshtein), ignoring case, and whether it is close
 // enough to be a likely slip of the keyboard: at most a third of the longer
-// word's letters differ (at least one). Ties go to the earlier candidate.
+// word's letters differ, or two (a swapped pair) in short words. Ties go to
+// the earlier candidate.
 func Nearest(word string, candidates []string) (string, bool) {
 	best, bestD := "", -1
 	w := strings.ToLower(word)
@@ -24,7 +25,7 @@ func Nearest(word string, candidates []string) (string, bool) {
 	if bestD < 0 {
 		return "", false
 	}
-	limit := max(1, max(len(word), len(best))/3)
+	limit := max(2, max(len(word), len(best))/3)
 	return best, bestD <= limit
 }
 

@@ -55,6 +55,22 @@ type Figure struct {
 	Legends []Legend // base first, overlay second
 	Width   int      // pixels of the whole figure
 	Height  int
+	// Caption is one line under everything else: the file or survey and
+	// the attributes' parameters; "" draws none.
+	Caption string
+	// Geo, for a map whose survey has coordinates, adds a north arrow and
+	// the X/Y coordinates of the map's corners; nil draws neither.
+	Geo *MapGeo
+}
+
+// MapGeo places a map on the ground.
+type MapGeo struct {
+	// NorthDegrees is the direction of grid north on the page, clockwise
+	// from straight up.
+	NorthDegrees float64
+	// Corners label the map's top-left, top-right, bottom-left and
+	// bottom-right cells, e.g. "X 612000 Y 7130000"; "" leaves one out.
+	Corners [4]string
 }
 
 // Colours of the page (common practice for print: black on white).
@@ -79,6 +95,8 @@ type FigureLayout struct {
 	Plot     image.Rectangle // the data area (for a map: the letterboxed map)
 	Title    image.Rectangle // empty without a title
 	ScaleBar ScaleBarLayout  // zero without a scale bar
+	Caption  image.Rectangle // empty without a caption
+	North    image.Rectangle // the north arrow's square; empty without one
 	Legends  []image.Rectangle
 	// LegendText holds, per legend, the box of its heading text.
 	LegendText []image.Rectangle
@@ -160,7 +178,12 @@ func (f Figure) layout() (FigureLayout, typeface, error) {
 	if len(f.Legends) > 0 || f.Scale.MetresPerTrace > 0 {
 		footerH = int(fs * 6)
 	}
-	plotBottom := f.Height - pad - footerH
+	captionH := 0
+	if f.Caption != "" {
+		captionH = lineH
+		lay.Caption = image.Rect(pad, f.Height-pad-lineH, f.Width-pad, f.Height-pad)
+	}
+	plotBottom := f.Height - pad - footerH - captionH
 	if footerH > 0 {
 		plotBottom -= pad
 	}
@@ -181,6 +204,9 @@ func (f Figure) layout() (FigureLayout, typeface, error) {
 		lay.Plot = MapRect(area, nv, nh, f.MapAspect)
 	}
 	p := lay.Plot
+	if f.Geo != nil && f.MapAspect > 0 && !math.IsNaN(f.Geo.NorthDegrees) && !math.IsInf(f.Geo.NorthDegrees, 0) {
+		lay.North = northDisc(tf, p)
+	}
 	lay.HorizontalTicks = axisTicks(tf, f.Horizontal, nh, vp.Trace0, vp.Trace1, float64(p.Dx()), true)
 	for i := range lay.HorizontalTicks {
 		lay.HorizontalTicks[i].Pixel += float64(p.Min.X)
@@ -192,7 +218,7 @@ func (f Figure) layout() (FigureLayout, typeface, error) {
 
 	// Footer: scale bar at the left, legends after it.
 	if footerH > 0 {
-		footer := image.Rect(left, f.Height-pad-footerH, right, f.Height-pad)
+		footer := image.Rect(left, f.Height-pad-captionH-footerH, right, f.Height-pad-captionH)
 		x := footer.Min.X
 		if m := f.Scale.MetresPerTrace; m > 0 {
 			ppm := float64(p.Dx()) / ((vp.Trace1 - vp.Trace0) * m)
@@ -205,7 +231,7 @@ func (f Figure) layout() (FigureLayout, typeface, error) {
 				Bar:   image.Rect(x, y0, x+px, y0+barH),
 				Label: metresLabel(metres),
 			}
-			x += max(px, textWidth(tf.label, lay.ScaleBar.Label)) + int(fs*3)
+			x += px + textWidth(tf.label, lay.ScaleBar.Label)/2 + int(fs*3)
 		}
 		if n := len(f.Legends); n > 0 {
 			w := min(int(fs*20), (footer.Max.X-x)/n-int(fs))
@@ -353,6 +379,12 @@ func (f Figure) Draw() (*image.RGBA, error) {
 	if sb := lay.ScaleBar; sb.Metres > 0 {
 		drawScaleBar(img, tf, sb)
 	}
+	if f.Caption != "" {
+		drawText(img, tf.label, inkColour, f.Caption, lay.Caption.Min.X, lay.Caption.Max.Y-desc, anchorLeft)
+	}
+	if f.Geo != nil && f.MapAspect > 0 {
+		drawGeo(img, tf, *f.Geo, p, lay.North)
+	}
 	for i, l := range f.Legends {
 		if l.Cyclic {
 			drawRingLegend(img, tf, l, lay.Legends[i])
@@ -377,7 +409,8 @@ func strokeRect(img *image.RGBA, r image.Rectangle, c color.RGBA) {
 }
 
 // drawScaleBar draws the bar in four alternating black and white parts
-// with an outline, and its length above it.
+// with an outline, "0" above its left end and its length above its right
+// end.
 func drawScaleBar(img *image.RGBA, tf typeface, sb ScaleBarLayout) {
 	b := sb.Bar
 	fillRect(img, b, inkColour)
@@ -389,7 +422,8 @@ func drawScaleBar(img *image.RGBA, tf typeface, sb ScaleBarLayout) {
 		}
 	}
 	desc := tf.label.Metrics().Descent.Ceil()
-	drawText(img, tf.label, inkColour, sb.Label, b.Min.X, b.Min.Y-desc-3, anchorLeft)
+	drawText(img, tf.label, inkColour, "0", b.Min.X, b.Min.Y-desc-3, anchorCentre)
+	drawText(img, tf.label, inkColour, sb.Label, b.Max.X, b.Min.Y-desc-3, anchorCentre)
 }
 
 // legendHeading is "Name (unit)", or just the name.

@@ -849,3 +849,26 @@ func (f *File) sizeTraces(bin []byte) error {
 	f.info.Traces = int(n)
 	return nil
 }
+
+// RawBinaryHeader returns a copy of the 400 bytes of the binary file
+// header (file bytes 3201-3600) as stored, in the file's byte order.
+func (f *File) RawBinaryHeader() ([]byte, error) {
+	b, err := f.bytesAt(TextHeaderSize, BinaryHeaderSize, nil)
+	if err != nil {
+		return nil, f.errf(-1, TextHeaderSize+1, "reading binary header: %v", err)
+	}
+	return append([]byte(nil), b...), nil
+}
+
+// RawTraceHeader returns a copy of the 240 bytes of trace i's header as
+// stored, in the file's byte order.
+func (f *File) RawTraceHeader(i int) ([]byte, error) {
+	if i < 0 || i >= f.info.Traces {
+		return nil, fmt.Errorf("%s: no trace %d: the traces are 0 to %d", f.path, i, f.info.Traces-1)
+	}
+	h, err := f.traceHeaderBytes(i, nil)
+	if err != nil {
+		return nil, err
+	}
+	return append([]byte(nil), h...), nil
+}

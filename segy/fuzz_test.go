@@ -41,7 +41,7 @@ func malformedSeeds() [][]byte {
 	ext.ExtText = []string{"((SEG: EndText))"}
 	seeds := [][]byte{good, le.Bytes(), ext.Bytes(), good[:3700], good[:3600+272*3+10], nil}
 	for _, c := range segytest.Malformed() {
-		if !c.Dir {
+		if !c.Special() {
 			seeds = append(seeds, c.Bytes)
 		}
 	}

@@ -35,7 +35,10 @@ const (
 	binTrailers       = 3529 // rev 2: int32 number of 3200-byte data trailer stanzas
 
 	// Trace header extension 1 (1-based byte within the second 240-byte
-	// header, SEG-Y rev 2.0 table 4).
+	// header, SEG-Y rev 2.0 table 4). Positions recalled from the standard
+	// (from memory) and cross-checked against the field table of the open
+	// TGSAI "segy" Python library (standards/rev2.py); the binary header's
+	// 3507, 3521 and 3529 likewise (standards/fields/binary.py).
 	ext1SeqLine  = 1   // uint64 extended trace sequence number within line
 	ext1SeqFile  = 9   // uint64 extended trace sequence number within file
 	ext1Samples  = 137 // uint32 extended number of samples in this trace

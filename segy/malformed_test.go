@@ -165,7 +165,7 @@ func TestMalformedFiles(t *testing.T) {
 				t.Fatal(err)
 			}
 			vias := []string{"mmap", "readat"}
-			if c.Dir {
+			if c.Special() {
 				vias = vias[:1]
 			}
 			for _, via := range vias {

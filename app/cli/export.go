@@ -16,56 +16,190 @@ import (
 	"quadtrace/segy"
 )
 
-// Exit statuses of the commands.
-const (
-	exitOK          = 0
-	exitFailed      = 1   // the job failed; the reason is on stderr
-	exitUsage       = 2   // the command line is wrong
-	exitInterrupted = 130 // SIGINT or SIGTERM: 128 + SIGINT, as shells report it (common practice)
-)
-
 // runtimeOverhead is the memory the export process needs beyond its trace
 // block budget: the program and Go runtime, the FFT work buffers of the
 // compute workers, the writers' buffers, the geometry index of the input,
 // and the garbage of finished blocks not yet collected. Export sets the Go
 // runtime's soft memory limit to budget + runtimeOverhead, and the
-// collector's growth ratio to export.GCPercent, so that the process's peak resident
-// memory stays below budget + runtimeOverhead (BenchmarkExportPeakMemory
-// measures it on a 1.25 GB volume).
+// collector's growth ratio to export.GCPercent, so that the process's peak
+// resident memory stays below budget + runtimeOverhead
+// (BenchmarkExportPeakMemory measures it on a 1.25 GB volume).
 const runtimeOverhead = 64 << 20
+
+const exportAbout = `Computes attributes for every trace of the SEG-Y volume FILE and writes one
+SEG-Y volume per attribute: PATH is the file for one attribute, the folder for
+several (files named <FILE stem>-<ID>.sgy; folders are made as needed). Memory
+stays within the budget whatever the size of FILE. The written paths are
+printed on stdout; an output that is the input is refused, and existing
+outputs are replaced only when the new ones are complete.`
+
+// exportArgs is the export command line as read, before the input file is
+// opened. Flags may come before or after FILE.
+type exportArgs struct {
+	input      string
+	attributes []string
+	params     map[string]string
+	condition  string
+	out        string
+	format     int
+	inlines    *export.Range
+	crosslines *export.Range
+	budget     int64
+	progress   progressMode
+	quiet      bool // --quiet: no progress, no list of written paths
+	follow     bool // --follow-links: write at the target of a symbolic link --out
+	segy       segy.Options
+}
+
+// newExportCommand declares the export command's options into a and
+// returns the command and a function that checks and completes a once
+// the flags are parsed.
+func newExportCommand(a *exportArgs, stdout, stderr io.Writer) (*command, func(pos []string) error) {
+	c := newCommand("export", "FILE --attribute ID[,ID...] --out PATH [options]", exportAbout, stdout, stderr)
+	fs := c.fs
+	var (
+		attrs, params                     multiFlag
+		format, inl, xl, budget, progress string
+		quiet                             bool
+	)
+	fs.Var(&attrs, "attribute", "attribute ids, comma-separated (see 'quadtrace attributes'); repeatable")
+	fs.Var(&params, "param", "set a parameter NAME=VALUE of every chosen attribute that has it; repeatable")
+	fs.StringVar(&a.condition, "condition", "", "conditioning before the attributes: bandpass=LOW-HIGH (Hz), agc=WINDOW (ms), comma-separated")
+	fs.StringVar(&a.out, "out", "", "destination file (one attribute) or folder (several)")
+	fs.StringVar(&format, "format", "ieee", "sample format of the outputs: ieee (code 5) or ibm (code 1)")
+	fs.StringVar(&inl, "inlines", "", "export only inlines `A:B` (inclusive)")
+	fs.StringVar(&xl, "crosslines", "", "export only crosslines `A:B` (inclusive)")
+	fs.StringVar(&budget, "budget", "", "memory for trace blocks, e.g. 256M or 1G (default 256M)")
+	fs.StringVar(&progress, "progress", "", "progress on stderr: bar, json or none (default bar, shown only on a terminal)")
+	fs.BoolVar(&quiet, "quiet", false, "no progress and no list of written paths (same as --progress none)")
+	fs.BoolVar(&a.follow, "follow-links", false, "write at the target when --out is a symbolic link")
+	c.segyFlags()
+	return c, func(pos []string) error {
+		switch len(pos) {
+		case 0:
+			return errors.New("no input FILE given")
+		case 1:
+			a.input = pos[0]
+		default:
+			return fmt.Errorf("one input FILE expected, got %d: %s", len(pos), strings.Join(pos, " "))
+		}
+		for _, s := range attrs {
+			for id := range strings.SplitSeq(s, ",") {
+				if id = strings.TrimSpace(id); id != "" {
+					a.attributes = append(a.attributes, id)
+				}
+			}
+		}
+		if len(a.attributes) == 0 {
+			return errors.New("--attribute: no attribute id given")
+		}
+		var err error
+		if a.params, err = compute.ParseParams(params); err != nil {
+			return fmt.Errorf("--param: %w", err)
+		}
+		if a.out == "" {
+			return errors.New("--out: no destination given")
+		}
+		if a.format, err = parseFormat(format); err != nil {
+			return err
+		}
+		if inl != "" {
+			if a.inlines, err = export.ParseRange(inl); err != nil {
+				return fmt.Errorf("--inlines: %w", err)
+			}
+		}
+		if xl != "" {
+			if a.crosslines, err = export.ParseRange(xl); err != nil {
+				return fmt.Errorf("--crosslines: %w", err)
+			}
+		}
+		a.budget = export.DefaultBudget
+		if budget != "" {
+			if a.budget, err = parseBytes(budget); err != nil {
+				return fmt.Errorf("--budget: %w", err)
+			}
+		}
+		switch {
+		case quiet && progress != "" && progress != string(progressNone):
+			return fmt.Errorf("--quiet and --progress %s contradict each other", progress)
+		case quiet:
+			a.progress, a.quiet = progressNone, true
+		case progress == "":
+			a.progress = progressBar
+		default:
+			switch m := progressMode(progress); m {
+			case progressBar, progressJSON, progressNone:
+				a.progress = m
+			default:
+				return fmt.Errorf("--progress %q: want bar, json or none", progress)
+			}
+		}
+		a.segy, err = c.segy()
+		return err
+	}
+}
+
+// parseExportArgs reads the export command line (for tests). done
+// reports help or a reported usage error.
+func parseExportArgs(args []string, stdout, stderr io.Writer) (*exportArgs, int, bool) {
+	a, _, code, done := parseCommand(newExportCommand, args, stdout, stderr)
+	return a, code, done
+}
+
+// parseFormat maps ieee/ibm (or the SEG-Y format codes 5 and 1) to the code.
+func parseFormat(s string) (int, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "ieee", "5":
+		return 5, nil
+	case "ibm", "1":
+		return 1, nil
+	}
+	return 0, fmt.Errorf("--format %q: want ieee (SEG-Y format code 5) or ibm (code 1)", s)
+}
 
 // Export runs `quadtrace export` with args (after the sub-command name) and
 // returns the exit status: 0 when every output was written, 1 when the job
-// failed, 2 for a wrong command line, 130 when interrupted by SIGINT or
-// SIGTERM (then nothing is left at the destinations). The written paths go
-// to stdout, one a line; progress and errors go to stderr.
+// failed, 2 for a wrong command line (unknown attribute ids and parameter
+// names included), 130 when interrupted by SIGINT or SIGTERM (then nothing
+// is left at the destinations). The written paths go to stdout, one a
+// line; progress and errors go to stderr.
 func Export(args []string, stdout, stderr io.Writer) int {
-	a, err := parseExportArgs(args, stderr)
-	if errors.Is(err, errHelp) {
-		return exitOK
+	// Signals are caught from the start, so that one sent while the
+	// arguments are checked or the input is opened still ends the export
+	// with status 130 and nothing written.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	a, c, code, done := parseCommand(newExportCommand, args, stdout, stderr)
+	if done {
+		return code
 	}
-	if err != nil {
-		fmt.Fprintf(stderr, "quadtrace export: %v\n(see quadtrace export --help)\n", err)
-		return exitUsage
+	attrs := make([]*compute.Attribute, len(a.attributes))
+	for i, id := range a.attributes {
+		var err error
+		if attrs[i], err = lookupAttribute("attribute", id); err != nil {
+			return c.usage("%v", err)
+		}
+	}
+	if _, err := compute.ResolveAll(attrs, a.params); err != nil {
+		return c.usage("--param: %v", err)
 	}
 	var cond compute.Conditioning
 	if a.condition != "" {
+		var err error
 		if cond, err = compute.ParseConditioning(a.condition); err != nil {
-			fmt.Fprintf(stderr, "quadtrace export: --condition: %v\n", err)
-			return exitUsage
+			return c.usage("--condition: %v", err)
 		}
 	}
+	if err := prepareExportOutput(a.out, len(a.attributes), a.input, a.follow); err != nil {
+		return c.fail(a.input, err)
+	}
 	job := export.Job{
-		Input: a.input,
-		SegyOptions: segy.Options{InlineByte: a.inlineByte, CrosslineByte: a.crosslineByte,
-			ByteOrder: a.byteOrder},
+		Input: a.input, SegyOptions: a.segy,
 		Attributes: a.attributes, Params: a.params, Conditioning: cond,
 		Output: a.out, Format: a.format, Inlines: a.inlines, Crosslines: a.crosslines,
-		BudgetBytes: a.budget, FollowLinks: a.followLinks,
+		BudgetBytes: a.budget, FollowLinks: a.follow,
 	}
 
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	defer stop()
 	// The process is the export's own: bound its heap by the budget unless
 	// the user tuned the runtime through the environment.
 	if _, set := os.LookupEnv("GOMEMLIMIT"); !set {
@@ -98,8 +232,7 @@ func Export(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintln(stderr, "quadtrace export: interrupted; nothing written, destinations left as they were")
 			return exitInterrupted
 		}
-		fmt.Fprintf(stderr, "quadtrace export: %v\n", err)
-		return exitFailed
+		return c.fail(a.input, err)
 	}
 	if !a.quiet {
 		for _, p := range paths {
@@ -107,4 +240,15 @@ func Export(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	return exitOK
+}
+
+// prepareExportOutput checks --out before the export starts: a single
+// attribute's file goes through prepareOutput; a folder output (several
+// attributes, or an existing folder) is checked file by file by the job,
+// which names the files inside it (app/outfile makes the folder).
+func prepareExportOutput(out string, attributes int, input string, follow bool) error {
+	if st, err := os.Stat(out); (err == nil && st.IsDir()) || attributes > 1 {
+		return nil
+	}
+	return prepareOutput(out, follow, input)
 }

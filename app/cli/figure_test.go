@@ -90,11 +90,15 @@ func TestFigureWrongCalls(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "fig.png")
 	for _, args := range [][]string{
-		{file, "--attribute", "envelope", "--out", out},                                  // no line chosen
-		{file, "--inline", "2", "--crossline", "21", "--out", out},                       // two lines
-		{file, "--inline", "2", "--size", "10x10", "--out", out},                         // too small
-		{file, "--inline", "two", "--out", out},                                          // not a number
-		{file, "--inline", "2"},                                                          // no output
+		{file, "--attribute", "envelope", "--out", out},                                          // no line chosen
+		{file, "--inline", "2", "--crossline", "21", "--out", out},                               // two lines
+		{file, "--inline", "2", "--size", "10x10", "--out", out},                                 // too small
+		{file, "--inline", "two", "--out", out},                                                  // not a number
+		{file, "--inline", "2", "--attribute", "no-such-thing", "--out", out},                    // unknown attribute
+		{file, "--inline", "2", "--attribute", "envelope", "--param", "windw=100", "--out", out}, // unknown parameter
+		{file, "--inline", "2", "--out", filepath.Join(dir, "fig.svg")},                          // no SVG writer
+		{file, "--inline", "2", "--out", filepath.Join(dir, "fig")},                              // no extension
+		{file, "--inline", "2"}, // no output
 		{file, "--inline", "2", "--opacity", "3", "--overlay", "envelope", "--out", out}, // opacity out of range
 	} {
 		if code, _, _ := run(figureCmd, args...); code != 2 {
@@ -102,8 +106,9 @@ func TestFigureWrongCalls(t *testing.T) {
 		}
 	}
 	for _, args := range [][]string{
-		{file, "--inline", "99", "--out", out},                                // no such inline
-		{file, "--inline", "2", "--attribute", "no-such-thing", "--out", out}, // unknown attribute
+		{file, "--inline", "99", "--out", out},                 // no such inline
+		{file, "--time", "999", "--out", out},                  // after the last sample (196 ms)
+		{file, "--inline", "2", "--offset", "5", "--out", out}, // no such offset
 	} {
 		if code, _, _ := run(figureCmd, args...); code != 1 {
 			t.Errorf("figure %v: exit %d, want 1", args, code)

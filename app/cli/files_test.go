@@ -5,7 +5,7 @@ package cli
 import (
 	"bytes"
 	"errors"
-	"fmt"
+	"math"
 	"math/rand/v2"
 	"os"
 	"os/exec"
@@ -88,15 +88,19 @@ func TestOutputKinds(t *testing.T) {
 	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", folder}, &stdout, &stderr); code != exitFailed || !strings.Contains(stderr.String(), "is a folder") {
 		t.Errorf("figure into a folder: exit %d %q", code, stderr.String())
 	}
-	// --follow-links writes at the target.
+	// --follow-links writes at the target (a figure's name ends in .png:
+	// the extension picks the format).
+	pngTarget, pngLink := filepath.Join(dir, "target.png"), filepath.Join(dir, "link.png")
+	os.WriteFile(pngTarget, []byte("kept"), 0o644)
+	os.Symlink(pngTarget, pngLink)
 	stderr.Reset()
-	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", link, "--follow-links"}, &stdout, &stderr); code != exitOK {
+	if code := Figure([]string{in, "--inline", "2", "--size", "800x500", "--out", pngLink, "--follow-links"}, &stdout, &stderr); code != exitOK {
 		t.Fatalf("figure --follow-links: exit %d %q", code, stderr.String())
 	}
-	if b, _ := os.ReadFile(target); !bytes.HasPrefix(b, []byte("\x89PNG")) {
+	if b, _ := os.ReadFile(pngTarget); !bytes.HasPrefix(b, []byte("\x89PNG")) {
 		t.Error("the link's target is not the figure")
 	}
-	if st, _ := os.Lstat(link); st.Mode()&os.ModeSymlink == 0 {
+	if st, _ := os.Lstat(pngLink); st.Mode()&os.ModeSymlink == 0 {
 		t.Error("the link itself was replaced")
 	}
 }
@@ -215,13 +219,12 @@ func TestSignalsDuringOpen(t *testing.T) {
 			if err := cmd.Start(); err != nil {
 				t.Fatal(err)
 			}
-			// Signal once the child holds the input open (its header scan
-			// is under way), not after a fixed sleep: on a loaded machine
-			// the child may not have reached main after any fixed delay.
-			if err := waitInputOpen(cmd.Process.Pid, in, 30*time.Second); err != nil {
+			// The signal goes once the child has the input open (its
+			// handler is installed before the open): found in
+			// /proc/PID/fd, so the signal lands in the header scan.
+			if !waitOpened(cmd.Process.Pid, in, 20*time.Second) {
 				cmd.Process.Kill()
-				cmd.Wait()
-				t.Fatal(err)
+				t.Fatalf("the child never opened %s", in)
 			}
 			sent := time.Now()
 			cmd.Process.Signal(c.sig)
@@ -250,21 +253,85 @@ func TestSignalsDuringOpen(t *testing.T) {
 
 func errorsAs(err error, target any) bool { return errors.As(err, target) }
 
-// waitInputOpen waits until process pid has path open (one of the links in
-// /proc/PID/fd points at it), or fails after timeout.
-func waitInputOpen(pid int, path string, timeout time.Duration) error {
-	want, err := filepath.EvalSymlinks(path)
-	if err != nil {
-		return err
-	}
-	fdDir := filepath.Join("/proc", strconv.Itoa(pid), "fd")
-	for end := time.Now().Add(timeout); time.Now().Before(end); time.Sleep(5 * time.Millisecond) {
-		fds, _ := os.ReadDir(fdDir)
+// waitOpened polls /proc/PID/fd until the process has path open.
+func waitOpened(pid int, path string, limit time.Duration) bool {
+	for end := time.Now().Add(limit); time.Now().Before(end); time.Sleep(2 * time.Millisecond) {
+		fds, _ := os.ReadDir(filepath.Join("/proc", strconv.Itoa(pid), "fd"))
 		for _, fd := range fds {
-			if target, err := os.Readlink(filepath.Join(fdDir, fd.Name())); err == nil && target == want {
-				return nil
+			if target, err := os.Readlink(filepath.Join("/proc", strconv.Itoa(pid), "fd", fd.Name())); err == nil && target == path {
+				return true
 			}
 		}
 	}
-	return fmt.Errorf("process %d did not open %s within %v", pid, path, timeout)
+	return false
+}
+
+// TestExportFullDisk: a three-attribute export to a filesystem that fills
+// up leaves nothing there and says which output failed (issue 18: a full
+// disk on the tenth output left nine finished files). The filesystem is a
+// 1 MiB tmpfs, so the test needs root; otherwise it is skipped.
+func TestExportFullDisk(t *testing.T) {
+	if os.Geteuid() != 0 {
+		t.Skip("needs root to mount a tiny tmpfs")
+	}
+	dir := t.TempDir()
+	in := filepath.Join(dir, "survey.sgy")
+	apptest.WriteVolume(t, in, apptest.VolumeSpec{Inlines: [2]int{1, 10}, Crosslines: [2]int{1, 30}, Samples: 400, IntervalUS: 2000}) // 0.55 MB an output
+	full := filepath.Join(dir, "full")
+	os.Mkdir(full, 0o755)
+	if err := unix.Mount("tmpfs", full, "tmpfs", 0, "size=1m"); err != nil {
+		t.Skipf("root but cannot mount tmpfs: %v", err)
+	}
+	defer unix.Unmount(full, 0)
+	var stdout, stderr bytes.Buffer
+	code := Export([]string{in, "--attribute", "envelope,instantaneous-phase,cosine-phase", "--out", filepath.Join(full, "out"), "--quiet"}, &stdout, &stderr)
+	if code != exitFailed || !strings.Contains(stderr.String(), "no space left on device") {
+		t.Fatalf("exit %d, stderr %q", code, stderr.String())
+	}
+	if es, _ := os.ReadDir(full); len(es) != 0 {
+		t.Errorf("the full filesystem holds %v", es)
+	}
+	t.Logf("stderr: %s", strings.TrimSpace(stderr.String()))
+}
+
+// TestFigureTinyValues: a survey whose amplitudes are denormal (about
+// 1e-40) draws as amplitude and as envelope, with wiggles and an overlay
+// (issue 18: values below about 7.5e-37 panicked in render's colour scale,
+// and the window crashed opening such a file); a constant survey draws too.
+func TestFigureTinyValues(t *testing.T) {
+	dir := t.TempDir()
+	for name, value := range map[string]func(il, xl, k int) float64{
+		"denormal": func(il, xl, k int) float64 { return 1e-40 * math.Sin(float64(k)*0.3+float64(xl)) },
+		"constant": func(il, xl, k int) float64 { return 3 },
+	} {
+		s := segytest.File{Format: 5, Samples: 64, Interval: 4000, TraceSamples: segytest.SameAsBinary, TraceInterval: segytest.SameAsBinary}
+		for il := 1; il <= 3; il++ {
+			for xl := 1; xl <= 20; xl++ {
+				tr := segytest.Trace{Inline: il, Crossline: xl}
+				for k := 0; k < 64; k++ {
+					tr.Values = append(tr.Values, value(il, xl, k))
+				}
+				s.Traces = append(s.Traces, tr)
+			}
+		}
+		in := filepath.Join(dir, name+".sgy")
+		if err := os.WriteFile(in, s.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		for _, args := range [][]string{
+			{"--attribute", "amplitude", "--wiggle"},
+			{"--attribute", "envelope", "--overlay", "instantaneous-phase"},
+			{"--time", "100", "--attribute", "sweetness"},
+		} {
+			out := filepath.Join(dir, name+".png")
+			var stdout, stderr bytes.Buffer
+			full := append([]string{in, "--out", out, "--size", "800x500"}, args...)
+			if !slices.Contains(args, "--time") {
+				full = append(full, "--inline", "2")
+			}
+			if code := Figure(full, &stdout, &stderr); code != exitOK {
+				t.Errorf("%s %v: exit %d %q", name, args, code, stderr.String())
+			}
+		}
+	}
 }

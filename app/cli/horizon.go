@@ -3,7 +3,6 @@ package cli
 import (
 	"context"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -96,8 +95,9 @@ func writeOutput(out string, inputs []string, write func(io.Writer) error) error
 // through a SEG-Y file (or the demo survey) and writes it as a horizon
 // text file.
 func Track(args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("track", flag.ContinueOnError)
-	fs.SetOutput(stderr)
+	c := newCommand("track", "(FILE | --demo) --seed IL,XL,MS [--seed ...] --out HORIZON.txt [options]", `Tracks one horizon from seed points through the SEG-Y file FILE (or the demo
+survey) and writes it as a horizon text file.`, stdout, stderr)
+	fs := c.fs
 	var seeds seedList
 	var demo bool
 	var out string
@@ -110,23 +110,20 @@ func Track(args []string, stdout, stderr io.Writer) int {
 	corr := fs.Float64("min-correlation", 0.8, "smallest waveform correlation with the neighbour, -1 to 1")
 	corrWin := fs.Float64("correlation-window", horizon.DefaultCorrelationMS, "length of the correlation window, ms")
 	fs.StringVar(&out, "out", "", "output horizon file")
-	options := segyFlags(fs)
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, "usage: quadtrace track (FILE | --demo) --seed IL,XL,MS [--seed ...] [--event peak] [--window MS] [--max-phase-jump DEG] [--min-envelope X] [--min-correlation X] --out HORIZON.txt")
-		fs.PrintDefaults()
-	}
-	pos, err := parseArgs(fs, args)
-	if err != nil {
-		return 2
+	c.segyFlags()
+	pos, code, done := c.parse(args)
+	if done {
+		return code
 	}
 	fail := func(code int, err error) int {
-		fmt.Fprintln(stderr, "quadtrace track:", err)
-		return code
+		if code == exitUsage {
+			return c.usage("%v", err)
+		}
+		return c.fail("", err)
 	}
 	switch {
 	case demo && len(pos) != 0, !demo && len(pos) != 1:
-		fs.Usage()
-		return 2
+		return c.usage("want one FILE (or --demo), got %d arguments", len(pos))
 	case out == "":
 		return fail(2, errors.New("--out HORIZON.txt is required"))
 	case len(seeds) == 0:
@@ -140,13 +137,16 @@ func Track(args []string, stdout, stderr io.Writer) int {
 	if err := opt.Check(); err != nil {
 		return fail(2, err)
 	}
-	segyOpt, err := options()
+	segyOpt, err := c.segy()
 	if err != nil {
 		return fail(2, err)
 	}
 	var inputs []string
 	if !demo {
 		inputs = []string{pos[0]}
+	}
+	if err := prepareOutput(out, false, inputs...); err != nil { // refused before any work
+		return c.fail(out, err)
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
@@ -209,11 +209,12 @@ func readHorizon(path string, l horizon.Layout) (*horizon.Horizon, error) {
 // second horizon) and writes the map as a text grid (.txt) or a figure
 // (.png).
 func Map(args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("map", flag.ContinueOnError)
-	fs.SetOutput(stderr)
+	c := newCommand("map", "(FILE | --demo) --horizon HORIZON.txt --attribute ID --out MAP.png|MAP.txt [options]", `Maps an attribute along a tracked horizon (or in a window around it, or
+between two horizons) and writes the map as a text grid or a PNG figure.`, stdout, stderr)
+	fs := c.fs
 	var demo bool
 	var out, top, base string
-	var params paramList
+	var params multiFlag
 	fs.BoolVar(&demo, "demo", false, "use the built-in demo survey instead of a file")
 	fs.StringVar(&top, "horizon", "", "horizon file (from quadtrace track)")
 	fs.StringVar(&base, "base", "", "second, deeper horizon file: the window runs from the horizon to it")
@@ -224,23 +225,20 @@ func Map(args []string, stdout, stderr io.Writer) int {
 	size := fs.String("size", "1400x1100", "figure size WIDTHxHEIGHT in pixels (PNG output)")
 	dpi := fs.Float64("dpi", 150, "resolution recorded in the PNG")
 	fs.StringVar(&out, "out", "", "output map: MAP.txt (text grid) or MAP.png (figure)")
-	options := segyFlags(fs)
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, "usage: quadtrace map (FILE | --demo) --horizon HORIZON.txt [--base HORIZON2.txt] --attribute ID [--param NAME=VALUE] [--window A:B] [--stat rms] --out MAP.png|MAP.txt")
-		fs.PrintDefaults()
-	}
-	pos, err := parseArgs(fs, args)
-	if err != nil {
-		return 2
+	c.segyFlags()
+	pos, code, done := c.parse(args)
+	if done {
+		return code
 	}
 	fail := func(code int, err error) int {
-		fmt.Fprintln(stderr, "quadtrace map:", err)
-		return code
+		if code == exitUsage {
+			return c.usage("%v", err)
+		}
+		return c.fail("", err)
 	}
 	switch {
 	case demo && len(pos) != 0, !demo && len(pos) != 1:
-		fs.Usage()
-		return 2
+		return c.usage("want one FILE (or --demo), got %d arguments", len(pos))
 	case top == "":
 		return fail(2, errors.New("--horizon HORIZON.txt is required"))
 	case out == "":
@@ -264,6 +262,7 @@ func Map(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	if *statName != "" {
+		var err error
 		if spec.Stat, err = horizon.ParseStat(*statName); err != nil {
 			return fail(2, fmt.Errorf("--stat: %w", err))
 		}
@@ -290,7 +289,7 @@ func Map(args []string, stdout, stderr io.Writer) int {
 	if _, err := fmt.Sscanf(*size, "%dx%d", &width, &height); err != nil || width < 200 || height < 150 || width > 20000 || height > 20000 {
 		return fail(2, fmt.Errorf("--size %q: want WIDTHxHEIGHT, 200x150 to 20000x20000", *size))
 	}
-	segyOpt, err := options()
+	segyOpt, err := c.segy()
 	if err != nil {
 		return fail(2, err)
 	}
@@ -300,6 +299,9 @@ func Map(args []string, stdout, stderr io.Writer) int {
 	}
 	if !demo {
 		inputs = append(inputs, pos[0])
+	}
+	if err := prepareOutput(out, false, inputs...); err != nil { // refused before any work
+		return c.fail(out, err)
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()

@@ -5,64 +5,13 @@
 package cli
 
 import (
-	"context"
 	"encoding/json"
-	"flag"
 	"fmt"
 	"io"
-	"os"
-	"os/signal"
 	"strings"
-	"syscall"
 
 	"quadtrace/segy"
 )
-
-// segyFlags registers the header-location and byte-order overrides shared
-// by every command that opens a SEG-Y file, and returns a function that
-// reads them back as segy.Options once the flags are parsed.
-func segyFlags(fs *flag.FlagSet) func() (segy.Options, error) {
-	il := fs.Int("inline-byte", 0, "trace-header byte of the inline number (default 189)")
-	xl := fs.Int("crossline-byte", 0, "trace-header byte of the crossline number (default 193)")
-	off := fs.Int("offset-byte", 0, "trace-header byte of the offset (default 37)")
-	cx := fs.Int("x-byte", 0, "trace-header byte of the CDP X coordinate (default 181)")
-	cy := fs.Int("y-byte", 0, "trace-header byte of the CDP Y coordinate (default 185)")
-	order := fs.String("byte-order", "", "byte order: big or little (default: detect)")
-	return func() (segy.Options, error) {
-		switch *order {
-		case "", "big", "little":
-		default:
-			return segy.Options{}, fmt.Errorf("--byte-order %q: want big or little", *order)
-		}
-		for _, b := range []struct {
-			name string
-			v    int
-		}{{"inline-byte", *il}, {"crossline-byte", *xl}, {"offset-byte", *off}, {"x-byte", *cx}, {"y-byte", *cy}} {
-			if b.v != 0 && (b.v < 1 || b.v > 237) {
-				return segy.Options{}, fmt.Errorf("--%s %d: a 4-byte field starts at byte 1 to 237 of the 240-byte trace header", b.name, b.v)
-			}
-		}
-		return segy.Options{InlineByte: *il, CrosslineByte: *xl, OffsetByte: *off, CDPXByte: *cx, CDPYByte: *cy, ByteOrder: *order}, nil
-	}
-}
-
-// parseArgs parses flags that may stand before or after the positional
-// arguments (Go's flag package stops at the first positional one) and
-// returns the positional arguments in order.
-func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
-	var pos []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			return nil, err
-		}
-		args = fs.Args()
-		if len(args) == 0 {
-			return pos, nil
-		}
-		pos = append(pos, args[0])
-		args = args[1:]
-	}
-}
 
 // scanReport is the JSON form of `quadtrace scan --json`: the keys are part
 // of the command's contract for scripts.
@@ -132,55 +81,28 @@ func newScanReport(path string, in segy.Info) scanReport {
 // Scan runs `quadtrace scan FILE [--json]`: it opens FILE read-only and
 // prints what it holds.
 func Scan(args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("scan", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	asJSON := fs.Bool("json", false, "print one JSON object instead of text")
-	options := segyFlags(fs)
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, "usage: quadtrace scan FILE [--json] [--inline-byte N] [--crossline-byte N] [--offset-byte N] [--x-byte N] [--y-byte N] [--byte-order big|little]")
-		fs.PrintDefaults()
-	}
-	pos, err := parseArgs(fs, args)
-	if err != nil {
-		return 2
-	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return 2
-	}
-	opt, err := options()
-	if err != nil {
-		fmt.Fprintln(stderr, "quadtrace scan:", err)
-		return 2
-	}
-	// SIGINT and SIGTERM stop the header scan of a large file.
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	defer stop()
-	f, err := segy.OpenContext(ctx, pos[0], opt)
-	if ctx.Err() != nil {
-		if f != nil {
-			f.Close()
-		}
-		fmt.Fprintln(stderr, "quadtrace scan: interrupted")
-		return exitInterrupted
-	}
-	if err != nil {
-		fmt.Fprintln(stderr, "quadtrace scan:", err)
-		return 1
+	c := newCommand("scan", "FILE [--json] [options]", `Opens the SEG-Y file FILE read-only and says what it holds: revision, sample
+format, byte order, sampling, geometry (inlines, crosslines, offsets, missing
+and duplicate traces, bin spacing, coordinate extent), amplitudes from a
+sample of traces, warnings, and the textual header.`, stdout, stderr)
+	asJSON := c.fs.Bool("json", false, "print one JSON object instead of text")
+	c.segyFlags()
+	f, code, done := c.openOne(args)
+	if done {
+		return code
 	}
 	defer f.Close()
-	rep := newScanReport(pos[0], f.Info())
+	rep := newScanReport(f.Path(), f.Info())
 	if *asJSON {
 		enc := json.NewEncoder(stdout)
 		enc.SetIndent("", "  ")
 		if err := enc.Encode(rep); err != nil {
-			fmt.Fprintln(stderr, "quadtrace scan:", err)
-			return 1
+			return c.fail("", err)
 		}
-		return 0
+		return exitOK
 	}
 	writeScanText(stdout, rep)
-	return 0
+	return exitOK
 }
 
 // writeScanText prints the report for a person: facts first, the textual

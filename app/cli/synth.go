@@ -2,7 +2,6 @@ package cli
 
 import (
 	"context"
-	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -20,8 +19,9 @@ import (
 // writer (temporary file renamed into place when complete).
 func Synth(args []string, stdout, stderr io.Writer) int {
 	cfg := synth.DefaultConfig()
-	fs := flag.NewFlagSet("synth", flag.ContinueOnError)
-	fs.SetOutput(stderr)
+	c := newCommand("synth", "OUT.sgy [options]", `Generates the invented demo survey (Corrowdeep 3D, Halvane Basin) and writes
+it as a SEG-Y revision 1 file. The same seed gives the same survey.`, stdout, stderr)
+	fs := c.fs
 	fs.IntVar(&cfg.Inlines, "inlines", cfg.Inlines, "number of inlines")
 	fs.IntVar(&cfg.Crosslines, "crosslines", cfg.Crosslines, "number of crosslines")
 	fs.IntVar(&cfg.Samples, "samples", cfg.Samples, "samples per trace")
@@ -29,51 +29,35 @@ func Synth(args []string, stdout, stderr io.Writer) int {
 	fs.Float64Var(&cfg.Noise, "noise", cfg.Noise, "noise level relative to the signal's RMS")
 	fs.Int64Var(&cfg.Seed, "seed", cfg.Seed, "random seed (the same seed gives the same survey)")
 	format := fs.String("format", "ieee", "sample format: ieee (format 5) or ibm (format 1)")
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, "usage: quadtrace synth OUT.sgy [--inlines N] [--crosslines N] [--samples N] [--interval MS] [--noise X] [--seed S] [--format ieee|ibm]")
-		fs.PrintDefaults()
-	}
-	pos, err := parseArgs(fs, args)
-	if err != nil {
-		return 2
-	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return 2
-	}
-	fail := func(code int, err error) int {
-		fmt.Fprintln(stderr, "quadtrace synth:", err)
+	pos, code, done := c.parse(args)
+	if done {
 		return code
 	}
+	if len(pos) != 1 {
+		return c.usage("want one OUT.sgy, got %d arguments", len(pos))
+	}
+	out := pos[0]
 	cfg.IntervalUS = int(*intervalMS*1000 + 0.5)
 	if err := cfg.Validate(); err != nil {
-		return fail(2, err)
+		return c.usage("%v", err)
 	}
-	wopt, err := formatOption(*format)
+	f, err := parseFormat(*format)
 	if err != nil {
-		return fail(2, err)
+		return c.usage("%v", err)
+	}
+	if err := prepareOutput(out, false); err != nil {
+		return c.fail(out, err)
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	s, err := synth.Generate(ctx, cfg, nil)
 	if err != nil {
-		return fail(1, err)
+		return c.fail("", err)
 	}
-	if err := volume.WriteSurvey(ctx, pos[0], s, wopt); err != nil {
-		return fail(1, err)
+	if err := volume.WriteSurvey(ctx, out, s, segy.WriteOptions{Format: f}); err != nil {
+		return c.fail(out, err)
 	}
 	fmt.Fprintf(stdout, "%s: %d inlines x %d crosslines x %d samples at %g ms (%s, %s)\n",
-		pos[0], cfg.Inlines, cfg.Crosslines, cfg.Samples, float64(cfg.IntervalUS)/1000, s.Name, s.Basin)
-	return 0
-}
-
-// formatOption maps a --format word to the writer's options.
-func formatOption(word string) (segy.WriteOptions, error) {
-	switch word {
-	case "ieee":
-		return segy.WriteOptions{Format: 5}, nil
-	case "ibm":
-		return segy.WriteOptions{Format: 1}, nil
-	}
-	return segy.WriteOptions{}, fmt.Errorf("--format %q: want ieee or ibm", word)
+		out, cfg.Inlines, cfg.Crosslines, cfg.Samples, float64(cfg.IntervalUS)/1000, s.Name, s.Basin)
+	return exitOK
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -44,54 +45,97 @@ type plan struct {
 	// followLinks writes at the target of a destination that is a
 	// symbolic link (refused otherwise, see app/outfile)
 	followLinks bool
+	source      Source // when set, read instead of opening input
+	stem        string // names outputs in a folder; "" takes input's stem
+}
+
+// fileSource is a SEG-Y file opened by the export as a Source.
+type fileSource struct{ *segy.File }
+
+func (f fileSource) Name() string { return f.Path() }
+
+// Source is a survey an export can read other than a SEG-Y file it opens
+// itself: the demo survey held in memory by app/volume, for one. Its
+// methods must be safe for concurrent use with the caller's other reads.
+type Source interface {
+	// Name names the survey in the outputs' textual headers.
+	Name() string
+	// Info describes it as segy.File.Info does a file.
+	Info() segy.Info
+	// TraceHeader and ReadTrace read trace i (0 to Info().Traces-1).
+	TraceHeader(i int) (segy.TraceHeader, error)
+	ReadTrace(i int, dst []float32) ([]float32, error)
 }
 
 // runPlan exports the stages of p; see Run for the contract.
 func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []string, err error) {
 	start := time.Now()
 	if len(p.stages) == 0 {
-		return nil, errors.New("export: no attribute chosen")
+		return nil, errors.New("no attribute chosen")
 	}
 	if p.format == 0 {
 		p.format = 5
 	}
 	if p.format != 1 && p.format != 5 {
-		return nil, fmt.Errorf("export: sample format %d: want 5 (IEEE float) or 1 (IBM float)", p.format)
+		return nil, fmt.Errorf("sample format %d: want 5 (IEEE float) or 1 (IBM float)", p.format)
 	}
 	if p.budget == 0 {
 		p.budget = DefaultBudget
 	}
 	if p.budget < 0 {
-		return nil, fmt.Errorf("export: negative memory budget %d", p.budget)
+		return nil, fmt.Errorf("negative memory budget %d", p.budget)
 	}
 
-	// The input is opened read-only and read with ordinary reads rather
-	// than mapped: a mapping of the whole volume would count in the
-	// process's resident memory as it is read, defeating the budget.
-	fh, err := segy.OpenRegular(p.input) // refuses FIFOs, devices, folders without blocking
-	if err != nil {
-		return nil, fmt.Errorf("export: %w", err)
+	var (
+		src       Source
+		newWriter func(w io.Writer, dst string, opt segy.WriteOptions) (*segy.Writer, error)
+		win       *windowReader
+		inputs    []string
+	)
+	if p.source != nil {
+		src, p.input = p.source, p.source.Name()
+		newWriter = func(w io.Writer, dst string, opt segy.WriteOptions) (*segy.Writer, error) {
+			in := src.Info()
+			return segy.NewWriterSpec(w, dst, segy.NewSpec{Samples: in.Samples, IntervalUS: in.IntervalUS, StartMS: in.StartMS}, opt)
+		}
+	} else {
+		// The input is opened read-only and read with ordinary reads
+		// rather than mapped: a mapping of the whole volume would count
+		// in the process's resident memory as it is read, defeating the
+		// budget.
+		fh, err := segy.OpenRegular(p.input) // refuses FIFOs, devices, folders without blocking
+		if err != nil {
+			return nil, err
+		}
+		defer fh.Close()
+		st, err := fh.Stat()
+		if err != nil {
+			return nil, err
+		}
+		win = &windowReader{r: fh}
+		f, err := segy.OpenReaderAtContext(ctx, win, st.Size(), p.input, p.options)
+		if err != nil {
+			return nil, err
+		}
+		defer f.Close()
+		src, inputs = fileSource{f}, []string{p.input}
+		newWriter = func(w io.Writer, dst string, opt segy.WriteOptions) (*segy.Writer, error) {
+			return segy.NewWriter(w, dst, f, opt)
+		}
 	}
-	defer fh.Close()
-	st, err := fh.Stat()
-	if err != nil {
-		return nil, fmt.Errorf("export: %w", err)
-	}
-	win := &windowReader{r: fh}
-	src, err := segy.OpenReaderAtContext(ctx, win, st.Size(), p.input, p.options)
-	if err != nil {
-		return nil, fmt.Errorf("export: %w", err)
-	}
-	defer src.Close()
 	info := src.Info()
 	if info.Traces == 0 {
-		return nil, fmt.Errorf("export: %s: no traces", p.input)
+		return nil, fmt.Errorf("%s: no traces", p.input)
 	}
 	if info.IntervalUS <= 0 {
-		return nil, fmt.Errorf("export: %s: sample interval unknown (0 in the binary and trace headers)", p.input)
+		return nil, fmt.Errorf("%s: sample interval unknown (0 in the binary and trace headers)", p.input)
 	}
 
-	dsts, err := destinations(p.input, p.output, p.stages)
+	stem := p.stem
+	if stem == "" {
+		stem = strings.TrimSuffix(filepath.Base(p.input), filepath.Ext(p.input))
+	}
+	dsts, err := destinations(p.input, stem, p.output, p.stages)
 	if err != nil {
 		return nil, err
 	}
@@ -101,7 +145,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return h.Inline, h.Crossline, err
 	})
 	if err != nil {
-		return nil, fmt.Errorf("export: %s: %w", p.input, err)
+		return nil, fmt.Errorf("%s: %w", p.input, err)
 	}
 	total := selectionSize(runs)
 	// The geometry scan at open and the range selection read only trace
@@ -112,18 +156,18 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	for _, r := range runs {
 		longest = max(longest, r.Count)
 	}
-	traceBytes := segy.TraceHeaderSize + info.Samples*segy.FormatSize(info.Format)
-	if window := min(readWindow, longest*traceBytes); window >= 2*traceBytes {
+	traceBytes := segy.TraceHeaderSize*(1+info.ExtraTraceHeaders) + info.Samples*segy.FormatSize(info.Format)
+	if window := min(readWindow, longest*traceBytes); win != nil && window >= 2*traceBytes {
 		win.enable(window)
 	}
 	perBlock, err := blockSize(p.budget, info.Samples, len(p.stages), p.cond.apply != nil, total)
 	if err != nil {
-		return nil, fmt.Errorf("export: %w", err)
+		return nil, err
 	}
 
 	// The outputs are one outfile.Set: unnamed temporary files until every
 	// one is complete, then all put in place or none (see app/outfile).
-	outs := outfile.NewSet(outfile.Options{Inputs: []string{p.input}, FollowSymlink: p.followLinks})
+	outs := outfile.NewSet(outfile.Options{Inputs: inputs, FollowSymlink: p.followLinks})
 	defer func() {
 		if err != nil {
 			outs.Abort()
@@ -135,11 +179,11 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 			inlines: p.inlines, crosslines: p.crosslines, traces: total, format: p.format})
 		of, err := outs.Create(dsts[k])
 		if err != nil {
-			return nil, fmt.Errorf("export: %w", err)
+			return nil, err
 		}
-		w, err := segy.NewWriter(of, dsts[k], src, segy.WriteOptions{Format: p.format, TextHeader: text})
+		w, err := newWriter(of, dsts[k], segy.WriteOptions{Format: p.format, TextHeader: text})
 		if err != nil {
-			return nil, fmt.Errorf("export: %w", err)
+			return nil, err
 		}
 		writers = append(writers, w)
 	}
@@ -186,18 +230,18 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return nil, err
 		}
-		return nil, fmt.Errorf("export %s: %w", p.input, err)
+		return nil, fmt.Errorf("%s: %w", p.input, err)
 	}
 	for _, w := range writers {
 		if err = w.Finish(); err != nil {
-			return nil, fmt.Errorf("export: %w", err)
+			return nil, err
 		}
 	}
 	if err = ctx.Err(); err != nil {
 		return nil, err
 	}
 	if err = outs.Commit(); err != nil {
-		return nil, fmt.Errorf("export: %w", err)
+		return nil, err
 	}
 	return dsts, nil
 }
@@ -207,8 +251,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 // folder), and output/<stem>-<id>.sgy for several (app/outfile makes the
 // folder when it does not exist, and removes it again on failure). It
 // refuses a destination that is the input file.
-func destinations(input, output string, stages []stage) (dsts []string, err error) {
-	stem := strings.TrimSuffix(filepath.Base(input), filepath.Ext(input))
+func destinations(input, stem, output string, stages []stage) (dsts []string, err error) {
 	named := func(dir string) []string {
 		out := make([]string, len(stages))
 		for k, s := range stages {
@@ -221,27 +264,27 @@ func destinations(input, output string, stages []stage) (dsts []string, err erro
 	switch {
 	case len(stages) == 1 && !isDir:
 		if strings.HasSuffix(output, string(filepath.Separator)) {
-			return nil, fmt.Errorf("export: output folder %s does not exist", output)
+			return nil, fmt.Errorf("output folder %s does not exist", output)
 		}
 		dsts = []string{output}
 	case isDir:
 		dsts = named(output)
 	case statErr == nil:
-		return nil, fmt.Errorf("export: %d attributes need a folder for --out, and %s is a file", len(stages), output)
+		return nil, fmt.Errorf("%d attributes need a folder for --out, and %s is a file", len(stages), output)
 	default:
 		dsts = named(output)
 	}
 	for _, d := range dsts {
-		if sameFile(d, input) {
-			return nil, fmt.Errorf("export: refusing to write %s: it is the input file", d)
+		if SameFile(d, input) {
+			return nil, fmt.Errorf("refusing to write %s: it is the input file", d)
 		}
 	}
 	return dsts, nil
 }
 
-// sameFile reports whether paths a and b name the same file: the same
+// SameFile reports whether paths a and b name the same file: the same
 // absolute path, or (when both exist) the same inode through links.
-func sameFile(a, b string) bool {
+func SameFile(a, b string) bool {
 	aa, err1 := filepath.Abs(a)
 	bb, err2 := filepath.Abs(b)
 	if err1 == nil && err2 == nil && aa == bb {

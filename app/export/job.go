@@ -12,7 +12,15 @@ import (
 
 // Job is one whole-volume attribute export.
 type Job struct {
-	Input       string       // the SEG-Y volume; opened read-only, never written
+	Input string // the SEG-Y volume; opened read-only, never written
+	// Source, when set, is read instead of Input (which is then unused):
+	// a survey already open, such as the demo survey in memory, exports
+	// without being written to a file first. Its outputs get a textual
+	// header of the export's own and a binary header from its sampling.
+	Source Source
+	// Stem names the outputs written into a folder, <Stem>-<id>.sgy; ""
+	// takes the stem of Input's file name (or of Source's name).
+	Stem        string
 	SegyOptions segy.Options // header byte locations and byte order overrides
 
 	// Attributes are attribute ids (see compute.Attributes); one output each.
@@ -79,55 +87,41 @@ func Run(ctx context.Context, job Job, progress func(Progress)) ([]string, error
 	return runPlan(ctx, plan{
 		input: job.Input, options: job.SegyOptions, stages: stages, cond: c,
 		output: job.Output, format: job.Format, inlines: job.Inlines, crosslines: job.Crosslines,
-		budget: job.BudgetBytes, followLinks: job.FollowLinks,
+		budget: job.BudgetBytes, followLinks: job.FollowLinks, source: job.Source, stem: job.Stem,
 	}, progress)
 }
 
 // resolveStages looks the attribute ids up and resolves the parameters of
-// each: every parameter goes to the attributes that have it.
+// each: every parameter goes to the attributes that have it, and one that
+// none has is an error (compute.ResolveAll).
 func resolveStages(ids []string, params map[string]string) ([]stage, error) {
 	if len(ids) == 0 {
-		return nil, fmt.Errorf("export: no attribute chosen")
+		return nil, fmt.Errorf("no attribute chosen")
 	}
-	used := map[string]bool{}
-	stages := make([]stage, 0, len(ids))
-	seen := map[string]bool{}
+	attrs := make([]*compute.Attribute, 0, len(ids))
 	for _, id := range ids {
-		if seen[id] {
-			return nil, fmt.Errorf("export: attribute %s chosen twice", id)
+		if slices.ContainsFunc(attrs, func(a *compute.Attribute) bool { return a.ID == id }) {
+			return nil, fmt.Errorf("attribute %s chosen twice", id)
 		}
-		seen[id] = true
 		a, err := compute.Lookup(id)
 		if err != nil {
-			return nil, fmt.Errorf("export: %w", err)
+			return nil, err
 		}
-		mine := map[string]string{}
-		for _, spec := range a.Params {
-			if v, ok := params[spec.Name]; ok {
-				mine[spec.Name] = v
-				used[spec.Name] = true
-			}
-		}
-		p, err := a.Resolve(mine)
-		if err != nil {
-			return nil, fmt.Errorf("export: %w", err)
-		}
-		stages = append(stages, stage{
+		attrs = append(attrs, a)
+	}
+	resolved, err := compute.ResolveAll(attrs, params)
+	if err != nil {
+		return nil, err
+	}
+	stages := make([]stage, len(attrs))
+	for k, a := range attrs {
+		p := resolved[k]
+		stages[k] = stage{
 			id: a.ID, name: a.Name, params: strings.ReplaceAll(p.Encode(), ",", " "),
 			compute: func(ctx context.Context, in compute.Section) (compute.Section, error) {
 				return a.Compute(ctx, in, p, nil)
 			},
-		})
-	}
-	var unknown []string
-	for name := range params {
-		if !used[name] {
-			unknown = append(unknown, name)
 		}
-	}
-	if len(unknown) > 0 {
-		slices.Sort(unknown)
-		return nil, fmt.Errorf("export: parameter %s: none of the chosen attributes (%s) has it", strings.Join(unknown, ", "), strings.Join(ids, ", "))
 	}
 	return stages, nil
 }

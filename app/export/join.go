@@ -41,7 +41,7 @@ func Join(ctx context.Context, paths []string, out string, opt JoinOptions) (int
 		return 0, errors.New("no part given")
 	}
 	for _, p := range paths {
-		if sameFile(out, p) {
+		if SameFile(out, p) {
 			return 0, fmt.Errorf("refusing to write %s: it is one of the parts", out)
 		}
 	}
@@ -65,7 +65,7 @@ func Join(ctx context.Context, paths []string, out string, opt JoinOptions) (int
 			fh.Close()
 			return 0, err
 		}
-		f, err := segy.OpenReaderAtContext(ctx, fh, st.Size(), path, segy.Options{})
+		f, err := segy.OpenReaderAtContext(ctx, fh, st.Size(), path, opt.Segy)
 		if err != nil {
 			fh.Close()
 			return 0, err
@@ -140,6 +140,8 @@ func Join(ctx context.Context, paths []string, out string, opt JoinOptions) (int
 
 // JoinOptions adjust Join.
 type JoinOptions struct {
+	// Segy gives the header byte locations and byte order of the parts.
+	Segy segy.Options
 	// FollowLinks writes at the target of an output that is a symbolic
 	// link; by default such an output is refused (app/outfile).
 	FollowLinks bool

@@ -4,7 +4,8 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"sync"
+
+	"golang.org/x/sync/errgroup"
 )
 
 // traceRun is a run of consecutive trace indices [First, First+Count) of the
@@ -67,17 +68,9 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 	if p.blockTraces < 1 || p.inFlight < 1 || p.samples < 1 {
 		return fmt.Errorf("export pipeline: bad sizing: %d traces per block, %d blocks, %d samples", p.blockTraces, p.inFlight, p.samples)
 	}
-	ctx, cancel := context.WithCancel(ctx)
-	defer cancel()
-
-	var (
-		errOnce  sync.Once
-		firstErr error
-	)
-	fail := func(err error) {
-		errOnce.Do(func() { firstErr = err })
-		cancel()
-	}
+	// The three stages share one errgroup: the first error cancels ctx for
+	// the others, and Wait returns it once every stage has ended.
+	g, ctx := errgroup.WithContext(ctx)
 
 	free := make(chan *block[H], p.inFlight)
 	for range p.inFlight {
@@ -95,20 +88,17 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 	toCompute := make(chan *block[H], p.inFlight)
 	toWrite := make(chan *block[H], p.inFlight)
 
-	var wg sync.WaitGroup
-	wg.Add(2)
-	go func() { // reader
-		defer wg.Done()
+	g.Go(func() error { // reader
 		defer close(toCompute)
 		var b *block[H]
 		pos := 0
-		send := func() bool {
+		send := func() error {
 			select {
 			case toCompute <- b:
 				b = nil
-				return true
+				return nil
 			case <-ctx.Done():
-				return false
+				return ctx.Err()
 			}
 		}
 		for _, r := range p.runs {
@@ -117,7 +107,7 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 					select {
 					case b = <-free:
 					case <-ctx.Done():
-						return
+						return ctx.Err()
 					}
 					b.first, b.n = pos, 0
 				}
@@ -126,78 +116,73 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 				b.headers[k] = zero
 				tr, err := p.read(i, &b.headers[k], b.buffers[k])
 				if err != nil {
-					fail(err)
-					return
+					return err
 				}
 				b.index[k], b.traces[k] = i, tr
 				b.n++
 				pos++
-				if b.n == p.blockTraces && !send() {
-					return
+				if b.n == p.blockTraces {
+					if err := send(); err != nil {
+						return err
+					}
 				}
 			}
 		}
 		if b != nil && b.n > 0 {
-			send()
+			return send()
 		}
-	}()
-	go func() { // compute
-		defer wg.Done()
+		return nil
+	})
+	g.Go(func() error { // compute
 		defer close(toWrite)
 		for b := range toCompute {
-			if ctx.Err() != nil {
-				continue // drain so the reader never blocks
+			if err := ctx.Err(); err != nil {
+				return err
 			}
 			outs, err := p.compute(ctx, b.traces[:b.n])
 			if err != nil {
-				fail(err)
-				continue
+				return err
 			}
 			for o, out := range outs {
 				if len(out) != b.n {
-					fail(fmt.Errorf("export pipeline: output %d: %d traces computed for a block of %d", o, len(out), b.n))
+					return fmt.Errorf("export pipeline: output %d: %d traces computed for a block of %d", o, len(out), b.n)
 				}
 			}
 			b.outs = outs
 			select {
 			case toWrite <- b:
 			case <-ctx.Done():
+				return ctx.Err()
 			}
 		}
-	}()
-
-	// writer, in this goroutine
+		return nil
+	})
 	done := 0
-	for b := range toWrite {
-		if ctx.Err() != nil {
-			continue
-		}
-		var err error
-	outputs:
-		for o, out := range b.outs {
-			for k := 0; k < b.n; k++ {
-				if err = p.write(o, &b.headers[k], out[k]); err != nil {
-					break outputs
+	g.Go(func() error { // writer
+		for b := range toWrite {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+			for o, out := range b.outs {
+				for k := 0; k < b.n; k++ {
+					if err := p.write(o, &b.headers[k], out[k]); err != nil {
+						return err
+					}
 				}
 			}
+			done += b.n
+			b.outs = nil
+			clear(b.traces) // drop references to slices read may have returned
+			free <- b
+			if p.progress != nil {
+				p.progress(done)
+			}
 		}
-		if err != nil {
-			fail(err)
-			continue
-		}
-		done += b.n
-		b.outs = nil
-		clear(b.traces) // drop references to slices read may have returned
-		free <- b
-		if p.progress != nil {
-			p.progress(done)
-		}
-	}
-	wg.Wait()
-	if firstErr != nil {
-		return firstErr
-	}
-	if err := ctx.Err(); err != nil {
+		return ctx.Err()
+	})
+	// A stage that returns early stops reading its channel; every send
+	// above also waits on ctx, which errgroup cancels, so no stage blocks.
+	if err := g.Wait(); err != nil {
 		return err
 	}
 	if total := selectionSize(p.runs); done != total {

@@ -34,3 +34,7 @@ func writerGone(p string) bool {
 	defer fh.Close()
 	return unix.Flock(int(fh.Fd()), unix.LOCK_EX|unix.LOCK_NB) == nil
 }
+
+// unlinkOpen removes the name of an open file: the data live as long as it
+// is open (POSIX unlink semantics).
+func unlinkOpen(fh *os.File) { os.Remove(fh.Name()) }

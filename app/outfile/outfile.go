@@ -244,11 +244,28 @@ func (s *Set) makeDirs(dir string) error {
 	return nil
 }
 
-// Write writes to the temporary file.
-func (f *File) Write(p []byte) (int, error) { return f.fh.Write(p) }
+// Write writes to the temporary file. Errors are the system's (e.g.
+// syscall.ENOSPC) without the temporary file's name, which means nothing
+// to the user: the caller names the destination.
+func (f *File) Write(p []byte) (int, error) {
+	n, err := f.fh.Write(p)
+	return n, bare(err)
+}
 
-// WriteAt writes to the temporary file at offset off.
-func (f *File) WriteAt(p []byte, off int64) (int, error) { return f.fh.WriteAt(p, off) }
+// WriteAt writes to the temporary file at offset off; errors as Write.
+func (f *File) WriteAt(p []byte, off int64) (int, error) {
+	n, err := f.fh.WriteAt(p, off)
+	return n, bare(err)
+}
+
+// bare strips the path of an *os.PathError.
+func bare(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
 
 // Destination is the path the file will have after Commit.
 func (f *File) Destination() string { return f.dst }
@@ -419,4 +436,23 @@ func removeStale(dir string) {
 			os.Remove(p)
 		}
 	}
+}
+
+// Scratch opens a read-write scratch file in the system's temporary folder
+// that no kill can leave behind: on Linux an unnamed file (O_TMPFILE), on
+// other Unix systems a named one unlinked at once; where neither works
+// (Windows) a named file that the caller removes. Name() is then the path;
+// for an unnamed file it names no directory entry and removing it does
+// nothing. For caches the program writes and reads itself, never outputs.
+func Scratch(pattern string) (*os.File, error) {
+	dir := os.TempDir()
+	if fh, err := openUnnamed(dir); err == nil {
+		return fh, nil
+	}
+	fh, err := os.CreateTemp(dir, pattern)
+	if err != nil {
+		return nil, err
+	}
+	unlinkOpen(fh)
+	return fh, nil
 }

@@ -1,3 +1,5 @@
+//go:build unix
+
 package outfile
 
 import (
@@ -305,5 +307,26 @@ func killChild(dir string) {
 		if err := s.Commit(); err != nil {
 			os.Exit(4)
 		}
+	}
+}
+
+// TestScratchLeavesNothing: a scratch file works as a file and leaves no
+// entry in the temporary folder, even while open.
+func TestScratchLeavesNothing(t *testing.T) {
+	t.Setenv("TMPDIR", t.TempDir())
+	f, err := Scratch("quadtrace-test-*.f32")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if _, err := f.WriteAt([]byte("scratch data"), 1<<20); err != nil {
+		t.Fatal(err)
+	}
+	b := make([]byte, 7)
+	if _, err := f.ReadAt(b, 1<<20); err != nil || string(b) != "scratch" {
+		t.Fatalf("read back %q %v", b, err)
+	}
+	if got := names(t, os.Getenv("TMPDIR")); len(got) != 0 {
+		t.Errorf("temporary folder holds %v", got)
 	}
 }

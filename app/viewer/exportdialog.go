@@ -1,11 +1,10 @@
 package viewer
 
 import (
+	"fmt"
+	"maps"
 	"os"
 	"path/filepath"
-	"quadtrace/app/export"
-	"quadtrace/compute"
-	"quadtrace/segy"
 	"strings"
 
 	"fyne.io/fyne/v2"
@@ -13,6 +12,10 @@ import (
 	"fyne.io/fyne/v2/dialog"
 	"fyne.io/fyne/v2/layout"
 	"fyne.io/fyne/v2/widget"
+
+	"quadtrace/app/export"
+	"quadtrace/compute"
+	"quadtrace/segy"
 )
 
 // showExportDialog lets the user pick attributes, format and folder for a
@@ -71,9 +74,7 @@ func (v *viewer) showExportDialog() {
 		for _, n := range pick.Selected {
 			a := byName[n]
 			ids = append(ids, a.ID)
-			for k, val := range v.state.Params[a.ID] {
-				params[k] = val
-			}
+			maps.Copy(params, v.state.Params[a.ID])
 		}
 		if len(ids) == 0 {
 			v.showError("export: choose at least one attribute")
@@ -138,25 +139,18 @@ func demoStem(info segy.Info) string {
 	return strings.Join(strings.Fields(strings.ToLower(name)), "-")
 }
 
-// runDemoExport exports from the in-memory demo survey: the job first
-// writes the survey as a temporary SEG-Y file in a hidden folder inside the
-// destination folder (the export job reads files), exports from it as from
-// any file, and removes it whatever happens. Outputs are named after stem.
+// runDemoExport exports from the in-memory demo survey, read as the
+// export's trace source (export.Source) without writing it to a file
+// first. Outputs are named after stem.
 func (v *viewer) runDemoExport(ej export.Job, folder, stem string) {
 	cancel := func() { v.jobs.cancel("export") }
-	v.setBusy(v.ui.export, "Writing the demo survey", 0, 0, cancel)
+	v.setBusy(v.ui.export, "Exporting", 0, 0, cancel)
 	v.startWithSurvey("export", func(j *job, vol survey) {
-		// A hidden folder of its own holds stem.sgy, so that the export
-		// names its outputs stem-ID.sgy and records stem.sgy as the source.
-		tmpDir, err := os.MkdirTemp(folder, ".quadtrace-demo-*")
-		input := filepath.Join(tmpDir, stem+".sgy")
-		if err == nil {
-			defer os.RemoveAll(tmpDir)
-			err = vol.WriteDemo(j.ctx, input, segy.WriteOptions{Format: 5})
-		}
 		var paths []string
-		if err == nil {
-			ej.Input = input
+		src, ok := vol.(export.Source)
+		err := fmt.Errorf("the survey in the window cannot be exported (%T is no trace source)", vol)
+		if ok {
+			ej.Source, ej.Stem = src, stem
 			var thr progressThrottle
 			paths, err = export.Run(j.ctx, ej, func(p export.Progress) {
 				if thr.due(p.Done, p.Total) {

@@ -181,7 +181,7 @@ func writeFigure(ctx context.Context, f render.Figure, path string, dpi float64,
 	if err != nil {
 		return fmt.Errorf("figure: %w", err)
 	}
-	return figure.WritePNG(ctx, path, img, dpi, outfile.Options{Inputs: inputs})
+	return figure.Write(ctx, path, img, dpi, outfile.Options{Inputs: inputs})
 }
 
 // figureFileName is the default file name of a figure titled title: lower

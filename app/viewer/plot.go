@@ -6,74 +6,21 @@ import (
 	"image/draw"
 	"math"
 
-	"golang.org/x/image/vector"
+	"quadtrace/render"
 )
 
 // Curve drawing for the trace panel and the spectrum: anti-aliased strokes
 // and fills rasterised with golang.org/x/image/vector into an image.RGBA.
 // These run in background jobs, never on the UI goroutine.
 
-// strokePolyline draws the polyline through (xs[i], ys[i]) (pixel
-// coordinates) with the given width and colour. Points with a NaN coordinate
-// break the line.
+// strokePolyline and fillPositive are render's (render.StrokePolyline,
+// render.FillPositive), kept under these names for the trace panel.
 func strokePolyline(dst *image.RGBA, xs, ys []float64, width float64, c color.RGBA) {
-	b := dst.Bounds()
-	z := vector.NewRasterizer(b.Dx(), b.Dy())
-	hw := width / 2
-	for i := 1; i < len(xs) && i < len(ys); i++ {
-		x0, y0, x1, y1 := xs[i-1], ys[i-1], xs[i], ys[i]
-		if math.IsNaN(x0+y0+x1+y1) || math.IsInf(x0+y0+x1+y1, 0) {
-			continue
-		}
-		dx, dy := x1-x0, y1-y0
-		l := math.Hypot(dx, dy)
-		if l == 0 {
-			continue
-		}
-		// A quad around the segment, extended by half the width at both
-		// ends so consecutive segments join without gaps.
-		nx, ny := -dy/l*hw, dx/l*hw
-		ex, ey := dx/l*hw, dy/l*hw
-		z.MoveTo(f32(x0-ex+nx), f32(y0-ey+ny))
-		z.LineTo(f32(x1+ex+nx), f32(y1+ey+ny))
-		z.LineTo(f32(x1+ex-nx), f32(y1+ey-ny))
-		z.LineTo(f32(x0-ex-nx), f32(y0-ey-ny))
-		z.ClosePath()
-	}
-	z.Draw(dst, b, image.NewUniform(c), image.Point{})
+	render.StrokePolyline(dst, xs, ys, width, c)
 }
 
-// fillPositive fills the area between a vertical wiggle and its zero line
-// where the wiggle lies right of it (variable area): xs are the wiggle's
-// pixel columns at rows ys, zero the column of the zero line.
 func fillPositive(dst *image.RGBA, xs, ys []float64, zero float64, c color.RGBA) {
-	b := dst.Bounds()
-	z := vector.NewRasterizer(b.Dx(), b.Dy())
-	for i := 1; i < len(xs); i++ {
-		x0, y0, x1, y1 := xs[i-1], ys[i-1], xs[i], ys[i]
-		if math.IsNaN(x0 + x1) {
-			continue
-		}
-		// Clip the segment to the positive side of the zero line.
-		if x0 <= zero && x1 <= zero {
-			continue
-		}
-		ox0, oy0, ox1, oy1 := x0, y0, x1, y1
-		if ox0 < zero {
-			t := (zero - ox0) / (ox1 - ox0)
-			x0, y0 = zero, oy0+t*(oy1-oy0)
-		}
-		if ox1 < zero {
-			t := (zero - ox0) / (ox1 - ox0)
-			x1, y1 = zero, oy0+t*(oy1-oy0)
-		}
-		z.MoveTo(f32(zero), f32(y0))
-		z.LineTo(f32(x0), f32(y0))
-		z.LineTo(f32(x1), f32(y1))
-		z.LineTo(f32(zero), f32(y1))
-		z.ClosePath()
-	}
-	z.Draw(dst, b, image.NewUniform(c), image.Point{})
+	render.FillPositive(dst, xs, ys, zero, c)
 }
 
 // fillRect paints r in colour c.
@@ -109,5 +56,3 @@ func ticks(lo, hi float64, n int) []float64 {
 	}
 	return out
 }
-
-func f32(v float64) float32 { return float32(v) }

@@ -134,7 +134,7 @@ func writePNG(path string, img image.Image) error {
 		rgba = image.NewRGBA(img.Bounds())
 		draw.Draw(rgba, rgba.Bounds(), img, img.Bounds().Min, draw.Src)
 	}
-	if err := figure.WritePNG(context.Background(), path, rgba, 96, outfile.Options{}); err != nil {
+	if err := figure.Write(context.Background(), path, rgba, 96, outfile.Options{}); err != nil {
 		return fmt.Errorf("snapshot: %w", err)
 	}
 	return nil

@@ -2,6 +2,7 @@ package viewer
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"sort"
 	"strings"
@@ -106,11 +107,7 @@ func middle(r segy.Range) int {
 func (s *viewState) dataFields() viewState {
 	params := make(map[string]map[string]string, len(s.Params))
 	for id, m := range s.Params {
-		c := make(map[string]string, len(m))
-		for k, v := range m {
-			c[k] = v
-		}
-		params[id] = c
+		params[id] = maps.Clone(m)
 	}
 	return viewState{Orientation: s.Orientation, Inline: s.Inline, Crossline: s.Crossline, SampleIndex: s.SampleIndex,
 		Offset: s.Offset, AttributeID: s.AttributeID, Params: params, Cond: s.Cond, CoRender: s.CoRender, BaseID: s.BaseID}

@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 
+	"quadtrace/app/outfile"
 	"quadtrace/compute"
 )
 
@@ -167,7 +168,8 @@ func newAttributeVolume(ninl, nx, ns int) (*attributeVolume, error) {
 		c.mem = make([]float32, ninl*nx*ns)
 		return c, nil
 	}
-	f, err := os.CreateTemp("", "quadtrace-attribute-*.f32")
+	// a scratch file no crash leaves behind (unnamed where the system allows)
+	f, err := outfile.Scratch("quadtrace-attribute-*.f32")
 	if err != nil {
 		return nil, fmt.Errorf("attribute cache of %d bytes: %w", size, err)
 	}

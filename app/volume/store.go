@@ -28,6 +28,13 @@ func (s fileStore) timeSlice(sample, offset int) ([][]float32, error) {
 
 func (s fileStore) close() error { return s.f.Close() }
 
+func (s fileStore) traceHeader(i int) (segy.TraceHeader, error) { return s.f.TraceHeader(i) }
+
+func (s fileStore) coordinates(i int) (float64, float64, error) {
+	h, err := s.f.TraceHeader(i)
+	return h.CDPX, h.CDPY, err
+}
+
 // surveyStore reads the in-memory demo survey (inline-major traces).
 type surveyStore struct{ s *synth.Survey }
 
@@ -60,6 +67,23 @@ func (s surveyStore) timeSlice(sample, _ int) ([][]float32, error) {
 }
 
 func (s surveyStore) close() error { return nil }
+
+func (s surveyStore) coordinates(i int) (float64, float64, error) {
+	h, err := s.traceHeader(i)
+	return h.CDPX, h.CDPY, err
+}
+
+// traceHeader makes the header the demo survey's SEG-Y file has (see
+// WriteSurvey): inline, crossline and CDP coordinates.
+func (s surveyStore) traceHeader(i int) (segy.TraceHeader, error) {
+	n := s.s.Config.Crosslines
+	if i < 0 || i >= len(s.s.Traces) || n <= 0 {
+		return segy.TraceHeader{}, fmt.Errorf("demo survey: no trace %d", i)
+	}
+	il, xl := s.s.FirstInline+i/n, s.s.FirstCrossline+i%n
+	x, y := s.s.CDP(il, xl)
+	return segy.NewTraceHeader(il, xl, x, y), nil
+}
 
 // surveyInfo describes the demo survey in the terms `scan` uses for a file.
 func surveyInfo(s *synth.Survey) segy.Info {

@@ -79,6 +79,11 @@ type store interface {
 	// traceIndex returns the position of the trace at (inline, crossline,
 	// offset), or -1 where there is none.
 	traceIndex(inline, crossline, offset int) int
+	// coordinates returns the CDP X and Y of trace i (scaled, in the
+	// survey's units).
+	coordinates(i int) (x, y float64, err error)
+	// traceHeader returns trace i's header.
+	traceHeader(i int) (segy.TraceHeader, error)
 	// readTrace reads trace i into dst (reused when large enough).
 	readTrace(i int, dst []float32) ([]float32, error)
 	// timeSlice returns values at one sample on the inline x crossline grid.
@@ -191,6 +196,31 @@ func (v *Volume) Trace(inline, crossline, offset int) ([]float32, error) {
 	}
 	return v.store.readTrace(i, nil)
 }
+
+// Coordinates returns the CDP X and Y of the trace at (inline, crossline)
+// of the first offset; ok is false where there is no trace, or the survey
+// has no coordinates (both zero).
+func (v *Volume) Coordinates(inline, crossline int) (x, y float64, ok bool) {
+	i := v.store.traceIndex(inline, crossline, v.offset(0))
+	if i < 0 {
+		return 0, 0, false
+	}
+	x, y, err := v.store.coordinates(i)
+	if err != nil || (x == 0 && y == 0) || math.IsNaN(x+y) || math.IsInf(x+y, 0) {
+		return 0, 0, false
+	}
+	return x, y, true
+}
+
+// TraceHeader returns the header of trace i in storage order (0 to
+// Info().Traces-1): as read from the file, or for the demo survey one with
+// its inline, crossline and CDP coordinates. With ReadTrace it makes a
+// Volume a trace source for the export (export.Source).
+func (v *Volume) TraceHeader(i int) (segy.TraceHeader, error) { return v.store.traceHeader(i) }
+
+// ReadTrace reads trace i in storage order into dst (reused when large
+// enough).
+func (v *Volume) ReadTrace(i int, dst []float32) ([]float32, error) { return v.store.readTrace(i, dst) }
 
 // Read returns the amplitude section s.
 func (v *Volume) Read(ctx context.Context, s Slice) (Section, error) {

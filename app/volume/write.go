@@ -26,17 +26,19 @@ func WriteSurvey(ctx context.Context, path string, s *synth.Survey, opt segy.Wri
 	if err != nil {
 		return err
 	}
-	for i := 0; i < c.Inlines; i++ {
-		if err := ctx.Err(); err != nil {
-			return err
-		}
-		il := s.FirstInline + i
-		for j := 0; j < c.Crosslines; j++ {
-			xl := s.FirstCrossline + j
-			x, y := s.CDP(il, xl)
-			if err := w.WriteTrace(segy.NewTraceHeader(il, xl, x, y), s.Traces[i*c.Crosslines+j]); err != nil {
+	st := surveyStore{s}
+	for i := range s.Traces {
+		if i%c.Crosslines == 0 {
+			if err := ctx.Err(); err != nil {
 				return err
 			}
+		}
+		h, err := st.traceHeader(i)
+		if err != nil {
+			return err
+		}
+		if err := w.WriteTrace(h, s.Traces[i]); err != nil {
+			return err
 		}
 	}
 	if err := w.Finish(); err != nil {

@@ -64,7 +64,10 @@ type File struct {
 }
 
 // Ext1 is trace header extension 1 of SEG-Y rev 2.0 (table 4): the fields
-// quadtrace reads, at the byte positions of that table.
+// quadtrace reads, at the byte positions of that table (recalled from the
+// standard, cross-checked with the TGSAI "segy" library's transcription;
+// the literals below are written independently of quadtrace/segy's
+// constants).
 type Ext1 struct {
 	SeqLine, SeqFile uint64  // 1-8, 9-16
 	FieldRecord      int64   // 17-24

@@ -38,14 +38,21 @@ type Expect struct {
 // Usable reports whether the case must open.
 func (e Expect) Usable() bool { return e.Err == "" }
 
-// Case is one malformed input. Bytes is the file content, unless Dir is
-// set: then the input is a directory where a file was expected.
+// Case is one malformed input. Bytes is the file content, unless Dir or
+// FIFO is set: then the input is a directory, or a named pipe (which a
+// reader must refuse without opening it for reading: that would block
+// until a writer came), where a file was expected.
 type Case struct {
 	Name   string
 	Bytes  []byte
 	Dir    bool
+	FIFO   bool
 	Expect Expect
 }
+
+// Special reports whether the case is not a regular file (Dir or FIFO):
+// it has no bytes to read through an io.ReaderAt.
+func (c Case) Special() bool { return c.Dir || c.FIFO }
 
 // Create materialises the case in dir (a file, or a directory when Dir is
 // set) and returns its path. The name is derived from Name.
@@ -62,6 +69,9 @@ func (c Case) Create(dir string) (string, error) {
 	p := filepath.Join(dir, name)
 	if c.Dir {
 		return p, os.Mkdir(p, 0o755)
+	}
+	if c.FIFO {
+		return p, mkfifo(p)
 	}
 	return p, os.WriteFile(p, c.Bytes, 0o644)
 }
@@ -118,7 +128,7 @@ func Malformed() []Case {
 		random[i] = byte(rng.Uint32())
 	}
 	be := binary.BigEndian
-	return []Case{
+	return append([]Case{
 		// Cut short.
 		{Name: "empty file", Bytes: []byte{},
 			Expect: fails("file is 0 bytes: truncated inside the 3200-byte textual header", NoTrace, 0)},
@@ -288,7 +298,7 @@ func Malformed() []Case {
 			Expect: fails("unknown sample format", NoTrace, 3225)},
 		{Name: "a directory", Dir: true,
 			Expect: fails("is a directory", NoTrace, 0)},
-	}
+	}, fifoCases()...)
 }
 
 // noisePNG is a real PNG (image/png) of 64 x 64 pixels of seeded noise,

@@ -1,13 +1,13 @@
 package cli
 
 import (
-	"errors"
 	"io"
 	"reflect"
 	"strings"
 	"testing"
 
 	"quadtrace/app/export"
+	"quadtrace/segy"
 )
 
 func TestParseExportArgs(t *testing.T) {
@@ -31,7 +31,7 @@ func TestParseExportArgs(t *testing.T) {
 			with(func(a *exportArgs) {
 				a.attributes = []string{"envelope"}
 				a.format, a.inlines, a.crosslines, a.budget, a.progress = 1, &export.Range{First: 10, Last: 20}, &export.Range{First: 5, Last: 5}, 1<<30, progressJSON
-				a.condition, a.inlineByte, a.crosslineByte, a.byteOrder = "band:8-60", 9, 21, "little"
+				a.condition, a.segy = "band:8-60", segy.Options{InlineByte: 9, CrosslineByte: 21, ByteOrder: "little"}
 			}), ""},
 		{"quiet", "in.sgy --attribute envelope --out o.sgy --quiet",
 			with(func(a *exportArgs) { a.attributes = []string{"envelope"}; a.progress, a.quiet = progressNone, true }), ""},
@@ -52,15 +52,16 @@ func TestParseExportArgs(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			got, err := parseExportArgs(strings.Fields(c.args), io.Discard)
+			var stderr strings.Builder
+			got, code, done := parseExportArgs(strings.Fields(c.args), io.Discard, &stderr)
 			if c.fail != "" {
-				if err == nil || !strings.Contains(err.Error(), c.fail) {
-					t.Fatalf("error %v, want one mentioning %q", err, c.fail)
+				if !done || code != exitUsage || !strings.Contains(stderr.String(), c.fail) {
+					t.Fatalf("exit %d, stderr %q, want %d and a message mentioning %q", code, stderr.String(), exitUsage, c.fail)
 				}
 				return
 			}
-			if err != nil {
-				t.Fatal(err)
+			if done {
+				t.Fatalf("exit %d: %s", code, stderr.String())
 			}
 			if !reflect.DeepEqual(*got, c.want) {
 				t.Errorf("got  %+v\nwant %+v", *got, c.want)
@@ -68,19 +69,19 @@ func TestParseExportArgs(t *testing.T) {
 		})
 	}
 	var help strings.Builder
-	if _, err := parseExportArgs([]string{"--help"}, &help); !errors.Is(err, errHelp) || !strings.Contains(help.String(), "usage: quadtrace export") {
-		t.Errorf("--help: error %v, printed %q", err, help.String())
+	if _, code, done := parseExportArgs([]string{"--help"}, &help, io.Discard); !done || code != exitOK || !strings.Contains(help.String(), "usage: quadtrace export") {
+		t.Errorf("--help: exit %d, printed %q", code, help.String())
 	}
 }
 
 func TestParseJoinArgs(t *testing.T) {
-	parts, out, quiet, _, err := parseJoinArgs(strings.Fields("a.sgy --out all.sgy b.sgy c.sgy --quiet"), io.Discard)
-	if err != nil || !reflect.DeepEqual(parts, []string{"a.sgy", "b.sgy", "c.sgy"}) || out != "all.sgy" || !quiet {
-		t.Errorf("join args: %v %q %v %v", parts, out, quiet, err)
+	a, code, done := parseJoinArgs(strings.Fields("a.sgy --out all.sgy b.sgy c.sgy --quiet --inline-byte 9"), io.Discard, io.Discard)
+	if done || !reflect.DeepEqual(a.parts, []string{"a.sgy", "b.sgy", "c.sgy"}) || a.out != "all.sgy" || !a.quiet || a.segy.InlineByte != 9 {
+		t.Errorf("join args: %+v, exit %d", a, code)
 	}
-	for _, bad := range []string{"--out all.sgy", "a.sgy b.sgy", "a.sgy --out"} {
-		if _, _, _, _, err := parseJoinArgs(strings.Fields(bad), io.Discard); err == nil {
-			t.Errorf("join %q: no error", bad)
+	for _, bad := range []string{"--out all.sgy", "a.sgy b.sgy", "a.sgy --out", "a.sgy --out b.sgy --crossline-byte 400"} {
+		if _, code, done := parseJoinArgs(strings.Fields(bad), io.Discard, io.Discard); !done || code != exitUsage {
+			t.Errorf("join %q: exit %d, want %d", bad, code, exitUsage)
 		}
 	}
 }

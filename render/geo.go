@@ -1,0 +1,75 @@
+package render
+
+import (
+	"image"
+	"image/color"
+	"math"
+
+	"golang.org/x/image/vector"
+)
+
+// northDisc is the square, inside the map rectangle p near its top right
+// corner (below that corner's label), that holds the north arrow.
+func northDisc(tf typeface, p image.Rectangle) image.Rectangle {
+	fs := float64(tf.label.Metrics().Height.Ceil())
+	r := int(fs * 1.6)
+	cx := p.Max.X - r - int(fs*0.6)
+	cy := p.Min.Y + r + int(fs*2.4)
+	return image.Rect(cx-r, cy-r, cx+r, cy+r)
+}
+
+// drawGeo draws, inside the map rectangle p, a north arrow in the disc
+// (see northDisc) and the corners' coordinate labels on white boxes.
+func drawGeo(img *image.RGBA, tf typeface, g MapGeo, p, disc image.Rectangle) {
+	fs := float64(tf.label.Metrics().Height.Ceil())
+	asc := tf.label.Metrics().Ascent.Ceil()
+	desc := tf.label.Metrics().Descent.Ceil()
+	pad := int(fs * 0.3)
+	label := func(s string, x, y int, right, bottom bool) {
+		if s == "" {
+			return
+		}
+		w := textWidth(tf.label, s)
+		x0, y0 := x+pad, y+pad
+		if right {
+			x0 = x - pad - w - 2*pad
+		}
+		if bottom {
+			y0 = y - pad - asc - desc - 2*pad
+		}
+		box := image.Rect(x0, y0, x0+w+2*pad, y0+asc+desc+2*pad)
+		fillRect(img, box, pageColour)
+		strokeRect(img, box, frameColour)
+		drawText(img, tf.label, inkColour, s, box.Min.X+pad, box.Min.Y+pad+asc, anchorLeft)
+	}
+	label(g.Corners[0], p.Min.X, p.Min.Y, false, false)
+	label(g.Corners[1], p.Max.X, p.Min.Y, true, false)
+	label(g.Corners[2], p.Min.X, p.Max.Y, false, true)
+	label(g.Corners[3], p.Max.X, p.Max.Y, true, true)
+	if math.IsNaN(g.NorthDegrees) || math.IsInf(g.NorthDegrees, 0) {
+		return
+	}
+	// The arrow on a white square: shaft and head towards north, "N"
+	// beyond the head.
+	r := float64(disc.Dx()) / 2
+	cx, cy := float64(disc.Min.X)+r, float64(disc.Min.Y)+r
+	a := g.NorthDegrees * math.Pi / 180
+	ux, uy := math.Sin(a), -math.Cos(a) // page direction of north (y down)
+	fillRect(img, disc, pageColour)
+	strokeRect(img, disc, frameColour)
+	tipX, tipY := cx+ux*r*0.45, cy+uy*r*0.45
+	tailX, tailY := cx-ux*r*0.75, cy-uy*r*0.75
+	StrokePolyline(img, []float64{tailX, tipX}, []float64{tailY, tipY}, math.Max(1.5, fs/8), inkColour)
+	// Head: a triangle at the tip.
+	hx, hy := -uy, ux // perpendicular
+	h := r * 0.35
+	b := img.Bounds()
+	z := vector.NewRasterizer(b.Dx(), b.Dy())
+	z.MoveTo(float32(tipX), float32(tipY))
+	z.LineTo(float32(tipX-ux*h+hx*h*0.5), float32(tipY-uy*h+hy*h*0.5))
+	z.LineTo(float32(tipX-ux*h-hx*h*0.5), float32(tipY-uy*h-hy*h*0.5))
+	z.ClosePath()
+	z.Draw(img, b, image.NewUniform(color.RGBA(inkColour)), image.Point{})
+	nx, ny := cx+ux*r*0.72, cy+uy*r*0.72
+	drawText(img, tf.label, inkColour, "N", int(nx), int(ny)+(asc-desc)/2, anchorCentre)
+}
