@@ -208,6 +208,14 @@ func Export(args []string, stdout, stderr io.Writer) int {
 	if _, set := os.LookupEnv("GOGC"); !set {
 		defer debug.SetGCPercent(debug.SetGCPercent(export.GCPercent))
 	}
+	// Only the CPUs a scheduler granted: Slurm's SLURM_CPUS_PER_TASK besides
+	// the affinity and CPU quota Go follows itself.
+	restoreCPUs, err := export.LimitCPUs(os.Getenv)
+	if err != nil {
+		fmt.Fprintf(stderr, "quadtrace export: %v\n", err)
+		return exitUsage
+	}
+	defer restoreCPUs()
 
 	var bar reporter
 	paths, err := export.Run(ctx, job, func(p export.Progress) {

@@ -23,20 +23,16 @@
 // SEG-Y file whose textual header records the source and the range; `join`
 // concatenates the parts in the order given, after checking that they share
 // sampling and format and that no trace is repeated or missing. Any cluster
-// scheduler that runs an indexed array of tasks will do; for example a Slurm
-// job array of ten tasks of 50 inlines each over inlines 1000-1499:
-//
-//	#!/bin/bash
-//	#SBATCH --array=0-9 --cpus-per-task=8 --mem=1G
-//	first=$((1000 + 50 * SLURM_ARRAY_TASK_ID)); last=$((first + 49))
-//	quadtrace export survey.sgy --attribute envelope --inlines $first:$last \
-//	    --budget 512M --quiet --out parts/part-$(printf %03d $SLURM_ARRAY_TASK_ID).sgy
-//
-// then, when all tasks have finished (sbatch --dependency=afterok:JOBID):
-//
-//	quadtrace join parts/part-*.sgy --out survey-envelope.sgy
-//
-// A Kubernetes Job with completionMode: Indexed and completions: 10 does the
-// same with $JOB_COMPLETION_INDEX in place of $SLURM_ARRAY_TASK_ID. The
-// zero-padded part names keep the shell's sorted glob in inline order.
+// scheduler that runs an indexed array of tasks will do. The README
+// ("Large surveys on a cluster") holds the recipe for a Slurm job array
+// (submitted with sbatch --parsable, the join with
+// --dependency=afterok:$JOBID) and names the Kubernetes manifest
+// (testdata/cluster/quadtrace-export-job.yaml: an Indexed Job and the join
+// as a second Job); .ci/cluster-check runs both as written and compares the
+// join with one whole export, byte for byte. The zero-padded part names keep
+// the shell's sorted glob in inline order. Output folders are made by the
+// export; a task that fails leaves nothing under its part's name, and join
+// names the inlines that no part holds. The export command uses only the
+// CPUs it was granted (LimitCPUs: SLURM_CPUS_PER_TASK, and the affinity and
+// CPU quota Go follows).
 package export

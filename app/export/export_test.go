@@ -463,7 +463,8 @@ func TestJoinRefusesBadParts(t *testing.T) {
 		out   string
 		want  string
 	}{
-		{"missing part", []string{a, c}, out, "missing"},
+		{"missing part", []string{a, c}, out, "no part holds inlines 3:4 (their part is missing"},
+		{"missing parts", []string{b}, out, "no part holds inlines 1:2, 5:6 (their part is missing"},
 		{"repeated part", []string{a, b, b, c}, out, "again in part 3"},
 		{"overlapping parts", []string{ab, b, c}, out, "again in part 2"},
 		{"different sample count", []string{a, b, c, other}, out, "81 samples"},

@@ -316,6 +316,10 @@ func checkJoinComplete(parts []*joinPart) (total int, whole bool, err error) {
 	why := ""
 	if sameSource {
 		why = fmt.Sprintf("the parts hold %d of the %d traces of %s, and ", total, a.sourceTraces, a.sourceFile)
+		if gaps := inlinesInNoPart(parts, a.sourceInline); gaps != "" {
+			why = fmt.Sprintf("the parts hold %d of the %d traces of %s; no part holds inlines %s (their part is missing), and ",
+				total, a.sourceTraces, a.sourceFile, gaps)
+		}
 	}
 	step := func(r segy.Range) int { return max(r.Step, 1) }
 	const maxProbe = 50_000_000
@@ -338,6 +342,49 @@ func checkJoinComplete(parts []*joinPart) (total int, whole bool, err error) {
 	}
 	return 0, false, fmt.Errorf("%sthey hold %d traces, not the %d positions of the grid of inlines %d:%d and crosslines %d:%d",
 		why, total, cells, il.Min, il.Max, xl.Min, xl.Max)
+}
+
+// inlinesInNoPart lists, as FIRST:LAST ranges separated by commas, the
+// inlines of the source's range src that no part's recorded inline range
+// ("part: inlines A:B; crosslines all") holds: the inlines of parts that
+// are missing. It returns "" when a part records a crossline range or all
+// inlines (then the gaps are not whole inlines), or when every inline is
+// held.
+func inlinesInNoPart(parts []*joinPart, src segy.Range) string {
+	for _, p := range parts {
+		if p.rec.inlines == nil || p.rec.crosslines != nil {
+			return ""
+		}
+	}
+	step := max(src.Step, 1)
+	var gaps []string
+	first, last := 0, 0
+	open := false
+	flush := func() {
+		if open {
+			gaps = append(gaps, fmt.Sprintf("%d:%d", first, last))
+			open = false
+		}
+	}
+	for i, n := src.Min, 0; i <= src.Max && n < 1_000_000; i, n = i+step, n+1 {
+		held := false
+		for _, p := range parts {
+			if p.rec.inlines.contains(i) {
+				held = true
+				break
+			}
+		}
+		switch {
+		case held:
+			flush()
+		case open:
+			last = i
+		default:
+			first, last, open = i, i, true
+		}
+	}
+	flush()
+	return strings.Join(gaps, ", ")
 }
 
 // gcd is the greatest common divisor of |a| and |b| (gcd(0, b) = |b|).
