@@ -10,7 +10,7 @@ import (
 // noDisplayMessage is the one line printed instead of opening the window
 // when there is no display; it names the commands that need none.
 const noDisplayMessage = "quadtrace: the window needs a display (neither DISPLAY nor WAYLAND_DISPLAY is set); " +
-	"without one, these commands work: scan, attributes, export, join, figure, synth, track, map, version, help"
+	"without one, these commands work: scan, headers, attributes, export, join, figure, synth, track, map, version, help"
 
 // displayMissing reports whether the window cannot open for lack of a
 // display on system goos, reading the environment through getenv. On Linux
