@@ -439,3 +439,35 @@ func TestEncodePNGPhys(t *testing.T) {
 		t.Error("0 dpi accepted")
 	}
 }
+
+// TestScaleBarLabels (issue 12 point 8): the scale bar is labelled in the
+// picture, "0" above its left end and its length ("1 km" here) above its
+// right end, with nothing drawn above its middle between the two. Checked
+// on pixels: ink in a box above each end, none above the centre.
+func TestScaleBarLabels(t *testing.T) {
+	f := testFigure()
+	img, err := f.Draw()
+	if err != nil {
+		t.Fatal(err)
+	}
+	lay, err := f.Layout()
+	if err != nil {
+		t.Fatal(err)
+	}
+	b := lay.ScaleBar.Bar
+	if b.Empty() {
+		t.Fatal("no scale bar laid out")
+	}
+	above := func(x, half int) image.Rectangle {
+		return image.Rect(x-half, b.Min.Y-28, x+half, b.Min.Y-2)
+	}
+	if n := inked(img, above(b.Min.X, 8)); n < 10 {
+		t.Errorf("no \"0\" above the bar's left end (%d dark pixels)", n)
+	}
+	if n := inked(img, above(b.Max.X, 20)); n < 20 {
+		t.Errorf("no length label above the bar's right end (%d dark pixels)", n)
+	}
+	if n := inked(img, above((b.Min.X+b.Max.X)/2, 4)); n != 0 {
+		t.Errorf("%d dark pixels above the bar's middle, where no label belongs", n)
+	}
+}
