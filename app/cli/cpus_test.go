@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"quadtrace/app/apptest"
+	"quadtrace/segy/segytest"
 )
 
 // Checks: the export command applies the CPU grant of a Slurm task
@@ -18,7 +19,7 @@ import (
 // was (the command gives the runtime back its default).
 func TestExportSlurmCPUs(t *testing.T) {
 	if os.Getenv("GOMAXPROCS") != "" {
-		t.Skip("GOMAXPROCS is set in the environment: it decides, by design")
+		segytest.SkipOutsideCI(t, "GOMAXPROCS is set in the environment: it decides, by design")
 	}
 	dir := t.TempDir()
 	in := filepath.Join(dir, "in.sgy")

@@ -275,7 +275,7 @@ func waitOpened(pid int, path string, limit time.Duration) bool {
 // 1 MiB tmpfs, so the test needs root; otherwise it is skipped.
 func TestExportFullDisk(t *testing.T) {
 	if os.Geteuid() != 0 {
-		t.Skip("needs root to mount a tiny tmpfs")
+		segytest.SkipOutsideCI(t, "needs root to mount a tiny tmpfs")
 	}
 	dir := t.TempDir()
 	in := filepath.Join(dir, "survey.sgy")
@@ -283,7 +283,7 @@ func TestExportFullDisk(t *testing.T) {
 	full := filepath.Join(dir, "full")
 	os.Mkdir(full, 0o755)
 	if err := unix.Mount("tmpfs", full, "tmpfs", 0, "size=1m"); err != nil {
-		t.Skipf("root but cannot mount tmpfs: %v", err)
+		segytest.SkipOutsideCI(t, "root but cannot mount tmpfs: %v", err)
 	}
 	defer unix.Unmount(full, 0)
 	var stdout, stderr bytes.Buffer

@@ -18,6 +18,7 @@ import (
 	"golang.org/x/sys/unix"
 
 	"quadtrace/app/apptest"
+	"quadtrace/segy/segytest"
 )
 
 // cpuChildEnv marks the test binary started as the child of
@@ -125,10 +126,10 @@ func runCPUChild(t *testing.T, dir string, oneCPU bool, env ...string) childResu
 func TestExportHonoursCPULimit(t *testing.T) {
 	all := runtime.GOMAXPROCS(0) // this process's CPUs: affinity and quota, as the child's
 	if all < 2 {
-		t.Skip("one CPU: a limit of one cannot be told from no limit")
+		segytest.SkipOutsideCI(t, "one CPU: a limit of one cannot be told from no limit")
 	}
 	if os.Getenv("GOMAXPROCS") != "" {
-		t.Skip("GOMAXPROCS is set in the environment: it decides, by design")
+		segytest.SkipOutsideCI(t, "GOMAXPROCS is set in the environment: it decides, by design")
 	}
 	dir := t.TempDir()
 	apptest.WriteVolume(t, filepath.Join(dir, "in.sgy"), apptest.VolumeSpec{

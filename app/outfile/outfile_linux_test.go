@@ -11,6 +11,8 @@ import (
 	"testing"
 
 	"golang.org/x/sys/unix"
+
+	"quadtrace/segy/segytest"
 )
 
 // TestReadOnlyFolder: creating an output in a folder that cannot be written
@@ -23,7 +25,7 @@ func TestReadOnlyFolder(t *testing.T) {
 	os.Mkdir(ro, 0o755)
 	if os.Geteuid() == 0 {
 		if err := unix.Mount("tmpfs", ro, "tmpfs", unix.MS_RDONLY, "size=64k"); err != nil {
-			t.Skipf("root but cannot mount a read-only tmpfs: %v", err)
+			segytest.SkipOutsideCI(t, "root but cannot mount a read-only tmpfs: %v", err)
 		}
 		defer unix.Unmount(ro, 0)
 	} else {
@@ -47,12 +49,12 @@ func TestReadOnlyFolder(t *testing.T) {
 func tinyFS(t *testing.T, size int) string {
 	t.Helper()
 	if os.Geteuid() != 0 {
-		t.Skip("full-filesystem case skipped: mounting a tiny tmpfs needs root")
+		segytest.SkipOutsideCI(t, "full-filesystem case skipped: mounting a tiny tmpfs needs root")
 	}
 	dir := filepath.Join(t.TempDir(), "tiny")
 	os.Mkdir(dir, 0o755)
 	if err := unix.Mount("tmpfs", dir, "tmpfs", 0, fmt.Sprintf("size=%d", size)); err != nil {
-		t.Skipf("root but cannot mount tmpfs: %v", err)
+		segytest.SkipOutsideCI(t, "root but cannot mount tmpfs: %v", err)
 	}
 	t.Cleanup(func() { unix.Unmount(dir, 0) })
 	return dir
