@@ -122,6 +122,15 @@ func (c *command) trim(msg string) string {
 	return strings.TrimPrefix(msg, c.name+": ")
 }
 
+// end ends the command with err: a usage error when code is exitUsage,
+// otherwise a failure naming no file.
+func (c *command) end(code int, err error) int {
+	if code == exitUsage {
+		return c.usage("%v", err)
+	}
+	return c.fail("", err)
+}
+
 func (c *command) failure(file string, err error) string {
 	msg := c.trim(err.Error())
 	var pe *fs.PathError

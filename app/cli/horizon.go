@@ -115,31 +115,25 @@ survey) and writes it as a horizon text file.`, stdout, stderr)
 	if done {
 		return code
 	}
-	fail := func(code int, err error) int {
-		if code == exitUsage {
-			return c.usage("%v", err)
-		}
-		return c.fail("", err)
-	}
 	switch {
 	case demo && len(pos) != 0, !demo && len(pos) != 1:
 		return c.usage("want one FILE (or --demo), got %d arguments", len(pos))
 	case out == "":
-		return fail(2, errors.New("--out HORIZON.txt is required"))
+		return c.end(2, errors.New("--out HORIZON.txt is required"))
 	case len(seeds) == 0:
-		return fail(2, errors.New("give at least one --seed INLINE,CROSSLINE,MS"))
+		return c.end(2, errors.New("give at least one --seed INLINE,CROSSLINE,MS"))
 	}
 	ev, err := horizon.ParseEvent(*event)
 	if err != nil {
-		return fail(2, fmt.Errorf("--event: %w", err))
+		return c.end(2, fmt.Errorf("--event: %w", err))
 	}
 	opt := horizon.Options{Event: ev, WindowMS: *window, MaxPhaseJumpDeg: *phase, MinEnvelope: *env, MinCorrelation: *corr, CorrelationMS: *corrWin}
 	if err := opt.Check(); err != nil {
-		return fail(2, err)
+		return c.end(2, err)
 	}
 	segyOpt, err := c.segy()
 	if err != nil {
-		return fail(2, err)
+		return c.end(2, err)
 	}
 	var inputs []string
 	if !demo {
@@ -152,27 +146,27 @@ survey) and writes it as a horizon text file.`, stdout, stderr)
 	defer stop()
 	sv, err := openSurvey(ctx, demo, firstOr(pos), segyOpt)
 	if err != nil {
-		return fail(1, err)
+		return c.end(1, err)
 	}
 	defer sv.close()
 	var hs []horizon.Seed
 	for _, s := range seeds {
 		h, err := horizonjob.Seed(sv.layout, int(s[0]), int(s[1]), s[2])
 		if err != nil {
-			return fail(2, err)
+			return c.end(2, err)
 		}
 		hs = append(hs, h)
 	}
 	h, err := horizon.Track(ctx, sv.src, hs, opt, nil)
 	if err != nil {
 		if errors.Is(err, context.Canceled) {
-			return fail(1, errors.New("interrupted; nothing written"))
+			return c.end(1, errors.New("interrupted; nothing written"))
 		}
 		// Option and seed problems are the caller's; anything else is the data's.
-		return fail(1, err)
+		return c.end(1, err)
 	}
 	if err := writeOutput(out, inputs, func(w io.Writer) error { return horizon.Write(w, h.Picks(sv.layout)) }); err != nil {
-		return fail(1, err)
+		return c.end(1, err)
 	}
 	fmt.Fprintf(stdout, "%s: %d of %d traces picked\n", out, h.Picked(), len(h.State))
 	return 0
@@ -230,23 +224,17 @@ between two horizons) and writes the map as a text grid or a PNG figure.`, stdou
 	if done {
 		return code
 	}
-	fail := func(code int, err error) int {
-		if code == exitUsage {
-			return c.usage("%v", err)
-		}
-		return c.fail("", err)
-	}
 	switch {
 	case demo && len(pos) != 0, !demo && len(pos) != 1:
 		return c.usage("want one FILE (or --demo), got %d arguments", len(pos))
 	case top == "":
-		return fail(2, errors.New("--horizon HORIZON.txt is required"))
+		return c.end(2, errors.New("--horizon HORIZON.txt is required"))
 	case out == "":
-		return fail(2, errors.New("--out MAP.png or MAP.txt is required"))
+		return c.end(2, errors.New("--out MAP.png or MAP.txt is required"))
 	}
 	ext := strings.ToLower(filepath.Ext(out))
 	if ext != ".png" && ext != ".txt" {
-		return fail(2, fmt.Errorf("--out %s: want a .png or .txt name", out))
+		return c.end(2, fmt.Errorf("--out %s: want a .png or .txt name", out))
 	}
 	spec := horizon.MapSpec{Stat: horizon.Value}
 	if *window != "" || base != "" {
@@ -258,40 +246,40 @@ between two horizons) and writes the map as a text grid or a PNG figure.`, stdou
 		spec.FromMS, e1 = strconv.ParseFloat(a, 64)
 		spec.ToMS, e2 = strconv.ParseFloat(b, 64)
 		if !ok || e1 != nil || e2 != nil {
-			return fail(2, fmt.Errorf("--window %q: want FROM:TO in ms, e.g. -10:20", *window))
+			return c.end(2, fmt.Errorf("--window %q: want FROM:TO in ms, e.g. -10:20", *window))
 		}
 	}
 	if *statName != "" {
 		var err error
 		if spec.Stat, err = horizon.ParseStat(*statName); err != nil {
-			return fail(2, fmt.Errorf("--stat: %w", err))
+			return c.end(2, fmt.Errorf("--stat: %w", err))
 		}
 	}
 	if spec.Stat == horizon.Value && (*window != "" || base != "") {
-		return fail(2, errors.New("--stat value takes no --window or --base (it reads the attribute on the horizon)"))
+		return c.end(2, errors.New("--stat value takes no --window or --base (it reads the attribute on the horizon)"))
 	}
 	if err := spec.Validate(); err != nil {
-		return fail(2, err)
+		return c.end(2, err)
 	}
 	attr, err := compute.Lookup(*attrID)
 	if err != nil {
-		return fail(2, fmt.Errorf("--attribute: %w", err))
+		return c.end(2, fmt.Errorf("--attribute: %w", err))
 	}
 	raw, err := compute.ParseParams(params)
 	if err != nil {
-		return fail(2, fmt.Errorf("--param: %w", err))
+		return c.end(2, fmt.Errorf("--param: %w", err))
 	}
 	p, err := attr.Resolve(raw)
 	if err != nil {
-		return fail(2, fmt.Errorf("--param: %w", err))
+		return c.end(2, fmt.Errorf("--param: %w", err))
 	}
 	var width, height int
 	if _, err := fmt.Sscanf(*size, "%dx%d", &width, &height); err != nil || width < 200 || height < 150 || width > 20000 || height > 20000 {
-		return fail(2, fmt.Errorf("--size %q: want WIDTHxHEIGHT, 200x150 to 20000x20000", *size))
+		return c.end(2, fmt.Errorf("--size %q: want WIDTHxHEIGHT, 200x150 to 20000x20000", *size))
 	}
 	segyOpt, err := c.segy()
 	if err != nil {
-		return fail(2, err)
+		return c.end(2, err)
 	}
 	inputs := []string{top}
 	if base != "" {
@@ -307,24 +295,24 @@ between two horizons) and writes the map as a text grid or a PNG figure.`, stdou
 	defer stop()
 	sv, err := openSurvey(ctx, demo, firstOr(pos), segyOpt)
 	if err != nil {
-		return fail(1, err)
+		return c.end(1, err)
 	}
 	defer sv.close()
 	h, err := readHorizon(top, sv.layout)
 	if err != nil {
-		return fail(1, err)
+		return c.end(1, err)
 	}
 	if base != "" {
 		if spec.Base, err = readHorizon(base, sv.layout); err != nil {
-			return fail(1, err)
+			return c.end(1, err)
 		}
 	}
 	m, err := horizonjob.MapAttribute(ctx, sv.src, h, attr, p, spec, nil)
 	if err != nil {
 		if errors.Is(err, context.Canceled) {
-			return fail(1, errors.New("interrupted; nothing written"))
+			return c.end(1, errors.New("interrupted; nothing written"))
 		}
-		return fail(1, err)
+		return c.end(1, err)
 	}
 	if ext == ".txt" {
 		err = writeOutput(out, inputs, func(w io.Writer) error { return horizon.WriteMap(w, m, sv.layout) })
@@ -332,7 +320,7 @@ between two horizons) and writes the map as a text grid or a PNG figure.`, stdou
 		err = writeMapFigure(out, inputs, m, sv, attr, spec, width, height, *dpi, filepath.Base(top))
 	}
 	if err != nil {
-		return fail(1, err)
+		return c.end(1, err)
 	}
 	fmt.Fprintln(stdout, out)
 	return 0
