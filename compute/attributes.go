@@ -83,11 +83,11 @@ func analyticRun(ctx context.Context, in Section, p Params, progress func(done, 
 			bdd, bddh, bv = b.ddx, b.ddh, b.v
 		}
 		if needs.second {
-			w.p.apply(w.p.ddx, w.a.ddx, bdd)
-			w.p.apply(w.p.ddh, w.a.ddh, bddh)
+			w.p.apply(&w.p.ddx, w.a.ddx, bdd)
+			w.p.apply(&w.p.ddh, w.a.ddh, bddh)
 		}
 		if needs.op != nil {
-			w.p.apply(w.op, w.a.v, bv)
+			w.p.apply(&w.op, w.a.v, bv)
 		}
 		for k, t := range []*traceWork{&w.a, b} {
 			if t == nil {

@@ -224,7 +224,7 @@ func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done,
 				b, bv = &w.b.analyticTrace, w.b.v
 			}
 			w.p.forward(&w.a.analyticTrace, b)
-			w.p.apply(w.op, w.a.v, bv)
+			w.p.apply(&w.op, w.a.v, bv)
 		}
 		for k, t := range ts {
 			c.finish(t.v, t.sq, t.cnt, t.k, in.Traces[i+k], out.Traces[i+k], bandpass, half)
