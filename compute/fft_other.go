@@ -8,3 +8,7 @@ const haveSIMD = false
 
 // applySIMD runs nothing here: there are no vector passes.
 func (g *fftStage) applySIMD(y, x []complex128) bool { return false }
+
+// instFillVector writes nothing here: InstantaneousSet.fill does every
+// sample in Go.
+func instFillVector(a, ph, f, c []float32, x, h, dx, dh []float64, eps float64) int { return 0 }
