@@ -21,6 +21,12 @@ func radix4SIMD(y, x, tw []complex128, m, s int)
 //go:noescape
 func radix2SIMD(y, x, tw []complex128, m, s int)
 
+// radix3SIMD is fftStage.radix3 for a pass with an even stride s; tw
+// holds W_l^{jp} at [2p + j-1] for every p < m.
+//
+//go:noescape
+func radix3SIMD(y, x, tw []complex128, m, s int)
+
 // radix4FirstSIMD is fftStage.radix4 for the first pass (s = 1) with an
 // even m; tw is the stage's twPair.
 //
@@ -37,6 +43,8 @@ func (g *fftStage) applySIMD(y, x []complex128) bool {
 		radix4SIMD(y, x, g.tw, g.m, g.s)
 	case g.r == 2 && g.s%2 == 0:
 		radix2SIMD(y, x, g.tw, g.m, g.s)
+	case g.r == 3 && g.s%2 == 0:
+		radix3SIMD(y, x, g.tw, g.m, g.s)
 	default:
 		return false
 	}

@@ -223,3 +223,96 @@ loop1:
 done1:
 	VZEROUPPER
 	RET
+
+// Sign mask that negates the imaginary parts: -i·v = swap(v) XOR negim.
+DATA negim<>+0(SB)/8, $0
+DATA negim<>+8(SB)/8, $0x8000000000000000
+DATA negim<>+16(SB)/8, $0
+DATA negim<>+24(SB)/8, $0x8000000000000000
+GLOBL negim<>(SB), RODATA|NOPTR, $32
+
+DATA half3<>+0(SB)/8, $0.5
+DATA half3<>+8(SB)/8, $0.5
+DATA half3<>+16(SB)/8, $0.5
+DATA half3<>+24(SB)/8, $0.5
+GLOBL half3<>(SB), RODATA|NOPTR, $32
+
+DATA sin3<>+0(SB)/8, $0.86602540378443864676
+DATA sin3<>+8(SB)/8, $0.86602540378443864676
+DATA sin3<>+16(SB)/8, $0.86602540378443864676
+DATA sin3<>+24(SB)/8, $0.86602540378443864676
+GLOBL sin3<>(SB), RODATA|NOPTR, $32
+
+// func radix3SIMD(y, x, tw []complex128, m, s int)
+// With a_k = x[q + s(p + k m)], t1 = a1+a2, t2 = a0 - t1/2 and
+// t3 = -i sin(2π/3) (a1-a2): y[q + s(3p)] = a0 + t1,
+// y[q + s(3p+1)] = W1 (t2 + t3), y[q + s(3p+2)] = W2 (t2 - t3),
+// Wj = tw[2p + j-1].
+TEXT ·radix3SIMD(SB), NOSPLIT, $0-88
+	MOVQ y_base+0(FP), DI
+	MOVQ x_base+24(FP), SI
+	MOVQ tw_base+48(FP), R8
+	MOVQ m+72(FP), R9
+	MOVQ s+80(FP), R10
+	MOVQ R9, R11
+	IMULQ R10, R11
+	SHLQ $4, R11
+	MOVQ R10, R12
+	SHLQ $4, R12
+	SHRQ $1, R10
+	TESTQ R9, R9
+	JEQ  done3
+	TESTQ R10, R10
+	JEQ  done3
+
+p3:
+	VBROADCASTF128 0(R8), Y9
+	VBROADCASTF128 16(R8), Y11
+	VMOVDDUP Y9, Y8
+	VPERMILPD $15, Y9, Y9
+	VMOVDDUP Y11, Y10
+	VPERMILPD $15, Y11, Y11
+	MOVQ SI, AX
+	LEAQ (SI)(R11*1), DX
+	MOVQ DI, BX
+	MOVQ R10, CX
+
+q3:
+	VMOVUPD (AX), Y0
+	VMOVUPD (DX), Y1
+	VMOVUPD (AX)(R11*2), Y2
+	VADDPD Y2, Y1, Y3         // t1
+	VSUBPD Y2, Y1, Y4         // a1-a2
+	VMOVAPD Y0, Y5
+	VFNMADD231PD half3<>(SB), Y3, Y5 // t2 = a0 - t1/2
+	VADDPD Y3, Y0, Y0         // y0
+	VPERMILPD $5, Y4, Y4
+	VXORPD negim<>(SB), Y4, Y4
+	VMULPD sin3<>(SB), Y4, Y4 // t3
+	VADDPD Y4, Y5, Y6
+	VSUBPD Y4, Y5, Y7
+	VMOVUPD Y0, (BX)
+	VPERMILPD $5, Y6, Y1
+	VMULPD Y9, Y1, Y1
+	VFMADDSUB231PD Y8, Y6, Y1
+	VMOVUPD Y1, (BX)(R12*1)
+	VPERMILPD $5, Y7, Y2
+	VMULPD Y11, Y2, Y2
+	VFMADDSUB231PD Y10, Y7, Y2
+	VMOVUPD Y2, (BX)(R12*2)
+	ADDQ $32, AX
+	ADDQ $32, DX
+	ADDQ $32, BX
+	DECQ CX
+	JNE  q3
+
+	ADDQ $32, R8
+	ADDQ R12, SI
+	LEAQ (DI)(R12*2), DI
+	ADDQ R12, DI
+	DECQ R9
+	JNE  p3
+
+done3:
+	VZEROUPPER
+	RET
