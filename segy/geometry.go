@@ -127,7 +127,7 @@ func (f *File) scanGeometry(bin []byte) error {
 		default:
 			f.info.HeaderInline, f.info.HeaderCrossline = extent(il), extent(xl)
 			f.fileOrder(fmt.Sprintf("no inline/crossline numbering in bytes %d/%d, 9, 13 or 21: traces numbered 1..%d by position", f.ilByte, f.xlByte, n))
-			f.finishGeometry(cx, cy, coordUnits, bin)
+			f.finishGeometry(coordExtentOf(cx, cy), arrayCoords(cx, cy), coordUnits, bin)
 			return nil
 		}
 	}
@@ -135,7 +135,7 @@ func (f *File) scanGeometry(bin []byte) error {
 	if fromRecords && f.info.Layout != LayoutUnstructured {
 		f.info.Layout = LayoutPrestack
 	}
-	f.finishGeometry(cx, cy, coordUnits, bin)
+	f.finishGeometry(coordExtentOf(cx, cy), arrayCoords(cx, cy), coordUnits, bin)
 	return nil
 }
 
@@ -478,21 +478,49 @@ func (f *File) offIndex(off int) int {
 	return -1
 }
 
-// finishGeometry computes the coordinate extent and bin spacing.
-func (f *File) finishGeometry(cx, cy []float64, coordUnits int, bin []byte) {
-	hasCoords := false
-	minX, maxX, minY, maxY := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
-	for i := range cx {
-		if cx[i] != 0 || cy[i] != 0 {
-			hasCoords = true
-		}
-		minX, maxX = math.Min(minX, cx[i]), math.Max(maxX, cx[i])
-		minY, maxY = math.Min(minY, cy[i]), math.Max(maxY, cy[i])
+// coordExtent is the extent of the CDP coordinates of a set of traces;
+// has is false when every one is (0, 0).
+type coordExtent struct {
+	has                    bool
+	minX, maxX, minY, maxY float64
+}
+
+func newCoordExtent() coordExtent {
+	return coordExtent{minX: math.Inf(1), maxX: math.Inf(-1), minY: math.Inf(1), maxY: math.Inf(-1)}
+}
+
+// add takes one trace's coordinates into the extent.
+func (e *coordExtent) add(x, y float64) {
+	if x != 0 || y != 0 {
+		e.has = true
 	}
-	if !hasCoords {
+	e.minX, e.maxX = math.Min(e.minX, x), math.Max(e.maxX, x)
+	e.minY, e.maxY = math.Min(e.minY, y), math.Max(e.maxY, y)
+}
+
+// coordExtentOf is the extent of every trace's coordinates.
+func coordExtentOf(cx, cy []float64) coordExtent {
+	e := newCoordExtent()
+	for i := range cx {
+		e.add(cx[i], cy[i])
+	}
+	return e
+}
+
+// arrayCoords gives trace i's coordinates from arrays of every trace.
+func arrayCoords(cx, cy []float64) func(i int) (float64, float64) {
+	return func(i int) (float64, float64) { return cx[i], cy[i] }
+}
+
+// finishGeometry records the coordinate extent and computes the bin
+// spacing from the coordinates of the first and last traces of up to 256
+// lines each way (coord gives trace i's coordinates: from the arrays of a
+// full scan, or read on demand for a sampled hypothesis).
+func (f *File) finishGeometry(ext coordExtent, coord func(i int) (x, y float64), coordUnits int, bin []byte) {
+	if !ext.has {
 		return
 	}
-	f.info.MinX, f.info.MaxX, f.info.MinY, f.info.MaxY = minX, maxX, minY, maxY
+	f.info.MinX, f.info.MaxX, f.info.MinY, f.info.MaxY = ext.minX, ext.maxX, ext.minY, ext.maxY
 	g := &f.geo
 	if g.grid == nil {
 		return
@@ -541,7 +569,9 @@ func (f *File) finishGeometry(cx, cy []float64, coordUnits int, bin []byte) {
 			if a < 0 || b < 0 {
 				continue
 			}
-			est = append(est, math.Hypot(cx[b]-cx[a], cy[b]-cy[a])/float64(pb-pa))
+			xa, ya := coord(a)
+			xb, yb := coord(b)
+			est = append(est, math.Hypot(xb-xa, yb-ya)/float64(pb-pa))
 		}
 		if len(est) == 0 {
 			return 0
