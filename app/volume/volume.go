@@ -11,6 +11,7 @@ import (
 	"math"
 	"slices"
 	"sync"
+	"sync/atomic"
 
 	"quadtrace/app/indexcache"
 	"quadtrace/compute"
@@ -114,6 +115,8 @@ type fastOpen struct {
 	opt     segy.Options
 	indices *indexcache.Cache
 	stamp   string
+	// checked is set when Check found the hypothesis exact
+	checked atomic.Bool
 }
 
 // Open opens a SEG-Y file read-only.
@@ -161,7 +164,9 @@ func openFast(ctx context.Context, path string, opt segy.Options, indices *index
 // Exact reports whether the volume's geometry index is exact: the demo
 // survey, a file opened with Open, or with OpenFast from every header or
 // a matching saved index. False means a sampled hypothesis (see Check).
-func (v *Volume) Exact() bool { return v.fast == nil || v.fast.file.Exact() }
+func (v *Volume) Exact() bool {
+	return v.fast == nil || v.fast.file.Exact() || v.fast.checked.Load()
+}
 
 // IndexSource says where a file's geometry index came from (segy.IndexFull
 // for the demo survey and Open).
@@ -187,7 +192,7 @@ func (v *Volume) Check(ctx context.Context, progress func(done, total int)) (exa
 		return nil, nil, nil
 	}
 	fo := v.fast
-	if fo.file.Exact() {
+	if fo.file.Exact() || fo.checked.Load() {
 		return nil, &segy.Checked{Info: v.info}, nil
 	}
 	ch, err := fo.file.Check(ctx, progress)
@@ -196,6 +201,7 @@ func (v *Volume) Check(ctx context.Context, progress func(done, total int)) (exa
 	}
 	fo.indices.Store(v.path, fo.opt, ch.Index) // best effort, as at open
 	if !ch.Refined {
+		fo.checked.Store(true)
 		return nil, ch, nil
 	}
 	nv, err := openFast(ctx, v.path, fo.opt, fo.indices, segy.FastOptions{Saved: ch.Index, Stamp: fo.stamp})
@@ -207,6 +213,52 @@ func (v *Volume) Check(ctx context.Context, progress func(done, total int)) (exa
 		return nil, nil, fmt.Errorf("%s: the file changed while its headers were checked; open it again", v.path)
 	}
 	return nv, ch, nil
+}
+
+// Confirm reports whether the traces of section s are where the geometry
+// index puts them, reading the header of each (next to the samples a
+// section reads anyway): true for an exact volume; for a hypothesis, true
+// when every position of an inline or crossline holds a trace whose
+// header carries that position's numbers. False for a time slice, or a
+// line with a position the hypothesis leaves empty (a trace for it may
+// lie anywhere): the caller then checks the whole file (Check). It cannot
+// see a trace elsewhere in the file that repeats a position of the line
+// (the full check would show the earlier of the two); Check can.
+func (v *Volume) Confirm(ctx context.Context, s Slice) (bool, error) {
+	if v.Exact() {
+		return true, nil
+	}
+	var positions []int
+	var at func(k int) (il, xl int)
+	switch s.Orientation {
+	case Inline:
+		positions = Numbers(v.info.Crossline)
+		at = func(k int) (int, int) { return s.Number, k }
+	case Crossline:
+		positions = Numbers(v.info.Inline)
+		at = func(k int) (int, int) { return k, s.Number }
+	default:
+		return false, nil
+	}
+	off := v.offset(s.Offset)
+	for j, k := range positions {
+		if j%256 == 0 && ctx.Err() != nil {
+			return false, ctx.Err()
+		}
+		il, xl := at(k)
+		i := v.store.traceIndex(il, xl, off)
+		if i < 0 {
+			return false, nil
+		}
+		h, err := v.store.traceHeader(i)
+		if err != nil {
+			return false, err
+		}
+		if h.Inline != il || h.Crossline != xl {
+			return false, nil
+		}
+	}
+	return true, nil
 }
 
 // Demo generates the built-in demo survey in memory with cfg
