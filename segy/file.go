@@ -471,7 +471,7 @@ func (f *File) parse(opt Options, fast *FastOptions) error {
 		f.exact, f.source = true, IndexSaved
 		return nil
 	}
-	if fast != nil {
+	if fast != nil && !fast.ReadAll {
 		ok, err := f.sampleGeometry(bin, fast.sampleSize())
 		if err != nil {
 			return err

@@ -20,6 +20,10 @@ type FastOptions struct {
 	// modification time, say); a saved index is used only with the same
 	// stamp, and Checked.Index records it.
 	Stamp string
+	// ReadAll reads every trace header when the saved index is not used,
+	// as Open does (an exact index at once, recorded under Stamp): for a
+	// caller that needs the exact geometry before anything else.
+	ReadAll bool
 	// sample is the number of trace headers sampled through the file
 	// (0: defaultSample); tests lower it to exercise the sampled path on
 	// small files.
