@@ -224,6 +224,12 @@ func Open(path string, opt Options) (*File, error) {
 // every few thousand traces, and an open stopped that way returns an error
 // wrapping ctx.Err().
 func OpenContext(ctx context.Context, path string, opt Options) (*File, error) {
+	return openPath(ctx, path, opt, nil)
+}
+
+// openPath opens a regular file, mapped when the system allows, as Open
+// (fast == nil) or OpenFast does.
+func openPath(ctx context.Context, path string, opt Options, fast *FastOptions) (*File, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
@@ -237,7 +243,7 @@ func OpenContext(ctx context.Context, path string, opt Options) (*File, error) {
 		return nil, err
 	}
 	data := mapFile(fh, st.Size())
-	f, err := open(ctx, path, fh, data, st.Size(), opt)
+	f, err := openMode(ctx, path, fh, data, st.Size(), opt, fast)
 	if err != nil {
 		unmapFile(data)
 		fh.Close()

@@ -67,27 +67,7 @@ func (o *FastOptions) sampleSize() int {
 // hypothesis; the File itself never changes, so a caller reopens with
 // Checked.Index to use the exact index.
 func OpenFast(ctx context.Context, path string, opt Options, fo FastOptions) (*File, error) {
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-	fh, err := OpenRegular(path)
-	if err != nil {
-		return nil, err
-	}
-	st, err := fh.Stat()
-	if err != nil {
-		fh.Close()
-		return nil, err
-	}
-	data := mapFile(fh, st.Size())
-	f, err := openMode(ctx, path, fh, data, st.Size(), opt, &fo)
-	if err != nil {
-		unmapFile(data)
-		fh.Close()
-		return nil, err
-	}
-	f.osf = fh
-	return f, nil
+	return openPath(ctx, path, opt, &fo)
 }
 
 // OpenReaderAtFast is OpenFast over data read through r (see

@@ -18,17 +18,6 @@ import (
 	"quadtrace/segy/segytest"
 )
 
-// sampledByOpen reports whether segy.OpenFast's default sample (4096
-// headers spread evenly through n traces) reads trace i.
-func sampledByOpen(i, n int) bool {
-	for j := 0; j < 4096; j++ {
-		if int(int64(j)*int64(n)/4096) == i {
-			return true
-		}
-	}
-	return false
-}
-
 // A file whose first section comes from a sampled geometry that is wrong
 // on the shown inline (a trace carrying its neighbour's crossline, not
 // among the sampled headers): the window shows the first section at once,
@@ -40,7 +29,7 @@ func TestHeaderCheckCorrectsShownSurvey(t *testing.T) {
 	const nil_, nx = 100, 90
 	g := segytest.Grid(nil_, nx, 8)
 	k := 49*nx + 30 // inline 149, the middle one the window opens on
-	for sampledByOpen(k, nil_*nx) {
+	for segytest.SampledByFastOpen(k, nil_*nx) {
 		k++
 	}
 	xl := g.Traces[k].Crossline

@@ -52,15 +52,7 @@ func openFullT(t *testing.T, p string) *Volume {
 // sample of 4096 spread evenly, the first line, the last trace and the
 // first of the last line).
 func sampledByOpen(i, n, nx int) bool {
-	if i < nx || i == n-1 || i == (n-1)/nx*nx {
-		return true
-	}
-	for j := 0; j < 4096; j++ {
-		if int(int64(j)*int64(n)/4096) == i {
-			return true
-		}
-	}
-	return false
+	return i < nx || i == n-1 || i == (n-1)/nx*nx || segytest.SampledByFastOpen(i, n)
 }
 
 // A regular file opens from the sample; its check changes nothing and

@@ -75,3 +75,16 @@ func Irregulars() []Irregular {
 		}},
 	}
 }
+
+// SampledByFastOpen reports whether trace i is among the 4096 trace
+// headers spread evenly through n traces that segy.OpenFast samples by
+// default (trace j*n/4096 for j = 0..4095), so a test can put an
+// irregularity where the sample does not see it.
+func SampledByFastOpen(i, n int) bool {
+	for j := 0; j < 4096; j++ {
+		if int(int64(j)*int64(n)/4096) == i {
+			return true
+		}
+	}
+	return false
+}
