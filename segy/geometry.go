@@ -583,11 +583,25 @@ func (f *File) finishGeometry(ext coordExtent, coord func(i int) (x, y float64),
 	f.info.CrosslineSpacingM = along(nxl, nIl, func(l, p int) int { return at(p, l) })
 }
 
+// amplitudeTraces lists the traces of the amplitude summary: at most 1000
+// spread evenly through n.
+func amplitudeTraces(n int) []int {
+	k := min(n, 1000)
+	out := make([]int, k)
+	for j := range out {
+		out[j] = amplitudeTrace(j, n)
+	}
+	return out
+}
+
+// amplitudeTrace is the j-th trace of amplitudeTraces(n).
+func amplitudeTrace(j, n int) int { return int(int64(j) * int64(n) / int64(min(n, 1000))) }
+
 // sampleAmplitudes fills the amplitude summary from at most 1000 traces
 // spread evenly through the file.
 func (f *File) sampleAmplitudes() error {
 	n := f.ntraces
-	k := min(n, 1000)
+	k := len(amplitudeTraces(n))
 	buf := make([]float32, f.samples)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	var sum2 float64
@@ -596,7 +610,7 @@ func (f *File) sampleAmplitudes() error {
 		if err := f.scanCancelled(j * 16); err != nil { // every 64 sampled traces
 			return err
 		}
-		i := int(int64(j) * int64(n) / int64(k))
+		i := amplitudeTrace(j, n)
 		var err error
 		buf, err = f.ReadTrace(i, buf)
 		if err != nil {

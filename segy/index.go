@@ -66,6 +66,11 @@ func (f *File) fingerprint(probes []int) (head, sum [32]byte, err error) {
 		return head, sum, f.errf(-1, 1, "reading headers: %v", err)
 	}
 	head = sha256.Sum256(b)
+	want := make([][2]int64, len(probes))
+	for k, i := range probes {
+		want[k] = [2]int64{f.dataStart + int64(i)*f.traceSize, f.hdrSize}
+	}
+	prefetch(f.data, want) // the probes' pages requested together (cold cache)
 	h := sha256.New()
 	var buf []byte
 	if f.data == nil {

@@ -106,6 +106,20 @@ func (f *File) sampleGeometry(bin []byte, sample int) (ok bool, err error) {
 	if n <= 2*sample {
 		return false, nil
 	}
+	// Ask for every page the sample and the amplitude summary will read at
+	// once, without read-ahead around each: on a cold cache the disk then
+	// serves them together instead of one fault at a time.
+	adviseScattered(f.data, true)
+	defer adviseScattered(f.data, false)
+	var want [][2]int64
+	for j := 0; j < sample; j++ {
+		want = append(want, [2]int64{f.dataStart + int64(j)*int64(n)/int64(sample)*f.traceSize, f.hdrSize})
+	}
+	want = append(want, [2]int64{f.dataStart + int64(n-1)*f.traceSize, f.hdrSize})
+	for _, i := range amplitudeTraces(n) {
+		want = append(want, [2]int64{f.dataStart + int64(i)*f.traceSize, f.traceSize})
+	}
+	prefetch(f.data, want)
 	var buf []byte
 	if f.data == nil {
 		buf = make([]byte, f.hdrSize)
