@@ -186,6 +186,8 @@ type File struct {
 	fileSize int64   // the file's size as opened (size less trailers is f.size)
 	opt      Options // the options given, for Check's scan and saved indices
 	stamp    string  // the caller's identity of the file version (FastOptions.Stamp)
+	// scatter serves the scattered reads of a sampled open (nil: f.r)
+	scatter io.ReaderAt
 	// headerWarnings counts the warnings of the headers, before geometry
 	headerWarnings int
 }
@@ -243,6 +245,12 @@ func openPath(ctx context.Context, path string, opt Options, fast *FastOptions) 
 		return nil, err
 	}
 	data := mapFile(fh, st.Size())
+	if fast != nil && !fast.ReadAll {
+		if sc := openScattered(path); sc != nil {
+			defer sc.Close()
+			fast.scatter = sc
+		}
+	}
 	f, err := openMode(ctx, path, fh, data, st.Size(), opt, fast)
 	if err != nil {
 		unmapFile(data)
@@ -453,7 +461,8 @@ func openMode(ctx context.Context, path string, r io.ReaderAt, data []byte, size
 	f := &File{path: path, r: r, data: data, size: size, fileSize: size, ctx: ctx, opt: opt}
 	defer func() { f.ctx = nil }() // only the open is cancellable
 	if fast != nil {
-		f.stamp = fast.Stamp
+		f.stamp, f.scatter = fast.Stamp, fast.scatter
+		defer func() { f.scatter = nil }() // only the open reads through it
 	}
 	f.info.Warnings = []string{}
 	// The scan reads the mapping: a file cut short meanwhile faults.

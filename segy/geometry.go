@@ -535,6 +535,36 @@ func (f *File) finishGeometry(ext coordExtent, coord func(i int) (x, y float64),
 		unit = 0.3048 // international foot
 		f.warnf("measurement system is feet (binary header byte 3255 = 2): bin spacing converted to metres")
 	}
+	// spacing along one line: distance between its first and last traces
+	// over the number of steps between them; median over up to 256 lines.
+	along := func(pairs []spacingPair) float64 {
+		var est []float64
+		for _, p := range pairs {
+			xa, ya := coord(p.a)
+			xb, yb := coord(p.b)
+			est = append(est, math.Hypot(xb-xa, yb-ya)/float64(p.steps))
+		}
+		if len(est) == 0 {
+			return 0
+		}
+		slices.Sort(est)
+		return est[len(est)/2] * unit
+	}
+	alongIl, alongXl := f.spacingPairs()
+	f.info.InlineSpacingM = along(alongIl)
+	f.info.CrosslineSpacingM = along(alongXl)
+}
+
+// spacingPair is a line's first and last traces and the grid steps
+// between them.
+type spacingPair struct{ a, b, steps int }
+
+// spacingPairs picks the traces the bin spacing is measured between: on up
+// to 256 inlines (alongIl) and crosslines (alongXl) spread evenly, the
+// first and the last position holding a trace (the first offset that has
+// one).
+func (f *File) spacingPairs() (alongIl, alongXl []spacingPair) {
+	g := &f.geo
 	nIl, nxl := g.ilR.Count, g.xlR.Count
 	at := func(ili, xli int) int {
 		noff := max(1, len(g.offsets))
@@ -546,10 +576,8 @@ func (f *File) finishGeometry(ext coordExtent, coord func(i int) (x, y float64),
 		}
 		return -1
 	}
-	// spacing along one line: distance between its first and last traces
-	// over the number of steps between them; median over up to 256 lines.
-	along := func(lines, positions int, get func(line, pos int) int) float64 {
-		var est []float64
+	pairs := func(lines, positions int, get func(line, pos int) int) []spacingPair {
+		var out []spacingPair
 		stride := max(1, lines/256)
 		for l := 0; l < lines; l += stride {
 			a, b := -1, -1
@@ -566,21 +594,13 @@ func (f *File) finishGeometry(ext coordExtent, coord func(i int) (x, y float64),
 					break
 				}
 			}
-			if a < 0 || b < 0 {
-				continue
+			if a >= 0 && b >= 0 {
+				out = append(out, spacingPair{a, b, pb - pa})
 			}
-			xa, ya := coord(a)
-			xb, yb := coord(b)
-			est = append(est, math.Hypot(xb-xa, yb-ya)/float64(pb-pa))
 		}
-		if len(est) == 0 {
-			return 0
-		}
-		slices.Sort(est)
-		return est[len(est)/2] * unit
+		return out
 	}
-	f.info.InlineSpacingM = along(nIl, nxl, func(l, p int) int { return at(l, p) })
-	f.info.CrosslineSpacingM = along(nxl, nIl, func(l, p int) int { return at(p, l) })
+	return pairs(nIl, nxl, func(l, p int) int { return at(l, p) }), pairs(nxl, nIl, func(l, p int) int { return at(p, l) })
 }
 
 // amplitudeTraces lists the traces of the amplitude summary: at most 1000

@@ -66,23 +66,15 @@ func (f *File) fingerprint(probes []int) (head, sum [32]byte, err error) {
 		return head, sum, f.errf(-1, 1, "reading headers: %v", err)
 	}
 	head = sha256.Sum256(b)
-	want := make([][2]int64, len(probes))
-	for k, i := range probes {
-		want[k] = [2]int64{f.dataStart + int64(i)*f.traceSize, f.hdrSize}
+	got, err := f.readHeaders(probes) // many reads in flight (cold cache)
+	if err != nil {
+		return head, sum, err
 	}
-	prefetch(f.data, want) // the probes' pages requested together (cold cache)
 	h := sha256.New()
-	var buf []byte
-	if f.data == nil {
-		buf = make([]byte, f.hdrSize)
-	}
 	for _, i := range probes {
-		if i < 0 || i >= f.ntraces {
+		r, ok := got[i]
+		if !ok {
 			return head, sum, fmt.Errorf("probe trace %d outside 0..%d", i, f.ntraces-1)
-		}
-		r, err := f.traceHeaderBytes(i, buf)
-		if err != nil {
-			return head, sum, err
 		}
 		h.Write(r)
 	}

@@ -24,6 +24,9 @@ type FastOptions struct {
 	// as Open does (an exact index at once, recorded under Stamp): for a
 	// caller that needs the exact geometry before anything else.
 	ReadAll bool
+	// scatter, when set, serves the sample's scattered reads (see
+	// openScattered)
+	scatter io.ReaderAt
 	// sample is the number of trace headers sampled through the file
 	// (0: defaultSample); tests lower it to exercise the sampled path on
 	// small files.
@@ -31,8 +34,10 @@ type FastOptions struct {
 }
 
 // defaultSample is how many trace headers spread through the file the
-// sampled open reads (besides the first line and the last trace).
-const defaultSample = 4096
+// sampled open reads (besides the first line and the last trace): trace
+// j*n/4000 for j = 0..3999, a multiple of the amplitude summary's 1000
+// traces (amplitudeTraces), which are therefore among them.
+const defaultSample = 4000
 
 // maxLineSearch bounds the headers read to find the length of the first
 // line; a longer first line is not guessed (every header is read).
@@ -106,29 +111,45 @@ func (f *File) sampleGeometry(bin []byte, sample int) (ok bool, err error) {
 	if n <= 2*sample {
 		return false, nil
 	}
-	// Ask for every page the sample and the amplitude summary will read at
-	// once, without read-ahead around each: on a cold cache the disk then
-	// serves them together instead of one fault at a time.
-	adviseScattered(f.data, true)
-	defer adviseScattered(f.data, false)
-	var want [][2]int64
-	for j := 0; j < sample; j++ {
-		want = append(want, [2]int64{f.dataStart + int64(j)*int64(n)/int64(sample)*f.traceSize, f.hdrSize})
-	}
-	want = append(want, [2]int64{f.dataStart + int64(n-1)*f.traceSize, f.hdrSize})
+	// The headers of the first lines, the last trace and the spread
+	// sample are read at once, many reads in flight (on a cold cache the
+	// disk serves them together instead of one page fault at a time), and
+	// the traces of the amplitude summary are brought into the page cache
+	// the same way.
+	var traces [][2]int64
 	for _, i := range amplitudeTraces(n) {
-		want = append(want, [2]int64{f.dataStart + int64(i)*f.traceSize, f.traceSize})
+		traces = append(traces, [2]int64{f.dataStart + int64(i)*f.traceSize, f.traceSize})
 	}
-	prefetch(f.data, want)
+	fetched := make(chan struct{})
+	go func() {
+		defer close(fetched)
+		prefetch(f.scatterReader(), traces)
+	}()
+	want := make([]int, 0, sample+1)
+	for j := 0; j < sample; j++ {
+		want = append(want, int(int64(j)*int64(n)/int64(sample)))
+	}
+	want = append(want, n-1)
+	got, err := f.readHeaders(want)
+	if err == nil {
+		err = f.firstHeaders(got, min(n, 1024))
+	}
+	<-fetched
+	if err != nil {
+		return false, err
+	}
 	var buf []byte
 	if f.data == nil {
 		buf = make([]byte, f.hdrSize)
 	}
 	type key struct{ il, xl, off int32 }
 	read := func(i int) (key, []byte, error) {
-		h, err := f.traceHeaderBytes(i, buf)
-		if err != nil {
-			return key{}, nil, err
+		h, ok := got[i]
+		if !ok {
+			var err error
+			if h, err = f.traceHeaderBytes(i, buf); err != nil {
+				return key{}, nil, err
+			}
 		}
 		o := f.order
 		return key{int32(o.Uint32(h[f.ilByte-1:])), int32(o.Uint32(h[f.xlByte-1:])), int32(o.Uint32(h[f.offByte-1:]))}, h, nil
@@ -244,10 +265,25 @@ func (f *File) sampleGeometry(bin []byte, sample int) (ok bool, err error) {
 	}
 	f.geoBytes = [2]int{f.ilByte, f.xlByte}
 	f.buildGrid(il, xl, off)
+	// the headers the bin spacing is measured between, read at once
+	var ends []int
+	if ext.has {
+		a, b := f.spacingPairs()
+		for _, p := range append(a, b...) {
+			ends = append(ends, p.a, p.b)
+		}
+	}
+	more, err := f.readHeaders(ends)
+	if err != nil {
+		return false, err
+	}
 	coord := func(i int) (float64, float64) {
-		h, err := f.traceHeaderBytes(i, buf)
-		if err != nil {
-			return 0, 0
+		h, ok := more[i]
+		if !ok {
+			var err error
+			if h, err = f.traceHeaderBytes(i, buf); err != nil {
+				return 0, 0
+			}
 		}
 		return f.headerCoords(h)
 	}

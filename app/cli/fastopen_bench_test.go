@@ -56,6 +56,7 @@ func cpuTime() time.Duration {
 // QUADTRACE_BIG_SEGY, with the page cache emptied of the file before each
 // "cold" iteration:
 //
+//   - open: volume.OpenFast alone (sampled cold; cached index warm);
 //   - open-inline: volume.OpenFast and figure.Draw of the middle inline's
 //     amplitude (1200x800), with no geometry cache (the sampled open), or
 //     with the file's index in the cache;
@@ -124,6 +125,19 @@ func BenchmarkOpenLarge(b *testing.B) {
 		v.Check(ctx, nil) // fills the cache
 		v.Close()
 	}
+	openOnly := func(b *testing.B, c *indexcache.Cache, want segy.IndexSource) {
+		v, err := volume.OpenFast(ctx, path, segy.Options{}, c)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if v.IndexSource() != want {
+			b.Fatalf("index from %v, want %v", v.IndexSource(), want)
+		}
+		v.Close()
+	}
+	run("cold/open/sampled", true, func(b *testing.B) { openOnly(b, nil, segy.IndexSampled) })
+	run("warm/open/sampled", false, func(b *testing.B) { openOnly(b, nil, segy.IndexSampled) })
+	run("warm/open/cached-index", false, func(b *testing.B) { openOnly(b, cached, segy.IndexSaved) })
 	run("cold/open-inline/sampled", true, func(b *testing.B) { openDraw(b, nil, segy.IndexSampled) })
 	run("cold/open-inline/cached-index", true, func(b *testing.B) { openDraw(b, cached, segy.IndexSaved) })
 	run("warm/open-inline/cached-index", false, func(b *testing.B) { openDraw(b, cached, segy.IndexSaved) })

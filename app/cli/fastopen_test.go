@@ -39,7 +39,7 @@ func TestFigureFastOpenExactLine(t *testing.T) {
 	const nil_, nx = 100, 90 // 9000 traces: the open samples
 	g := segytest.Grid(nil_, nx, 8)
 	// inline 150: a trace carries its left neighbour's crossline; one the
-	// open's sample (segy.OpenFast: 4096 spread evenly) does not read
+	// open's sample (segy.OpenFast: 4000 spread evenly) does not read
 	k := nil_/2*nx + 41
 	for segytest.SampledByFastOpen(k, nil_*nx) {
 		k++

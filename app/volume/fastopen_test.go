@@ -49,7 +49,7 @@ func openFullT(t *testing.T, p string) *Volume {
 
 // sampledByOpen reports whether trace i is among the headers segy.OpenFast
 // samples in a file of n traces with lines of nx traces (the default
-// sample of 4096 spread evenly, the first line, the last trace and the
+// sample of 4000 spread evenly, the first line, the last trace and the
 // first of the last line).
 func sampledByOpen(i, n, nx int) bool {
 	return i < nx || i == n-1 || i == (n-1)/nx*nx || segytest.SampledByFastOpen(i, n)

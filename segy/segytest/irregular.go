@@ -76,13 +76,13 @@ func Irregulars() []Irregular {
 	}
 }
 
-// SampledByFastOpen reports whether trace i is among the 4096 trace
+// SampledByFastOpen reports whether trace i is among the 4000 trace
 // headers spread evenly through n traces that segy.OpenFast samples by
-// default (trace j*n/4096 for j = 0..4095), so a test can put an
+// default (trace j*n/4000 for j = 0..3999), so a test can put an
 // irregularity where the sample does not see it.
 func SampledByFastOpen(i, n int) bool {
-	for j := 0; j < 4096; j++ {
-		if int(int64(j)*int64(n)/4096) == i {
+	for j := 0; j < 4000; j++ {
+		if int(int64(j)*int64(n)/4000) == i {
 			return true
 		}
 	}
