@@ -8,6 +8,7 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"time"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/test"
@@ -106,6 +107,71 @@ func TestHeaderCheckRegularFile(t *testing.T) {
 		}
 		if msg := v.ui.message.Text; strings.Contains(msg, "Checked") {
 			t.Errorf("round %d: status %q for a regular file", round, msg)
+		}
+		v.jobs.close()
+		v.jobs.wait()
+		v.vol.Close()
+	}
+}
+
+// startUntilShown starts the viewer and runs its UI functions until a
+// survey is shown (the header check has then just started), without
+// waiting for the jobs.
+func startUntilShown(t *testing.T, v *viewer) {
+	t.Helper()
+	v.start()
+	deadline := time.Now().Add(time.Minute)
+	for v.vol == nil {
+		if time.Now().After(deadline) {
+			t.Fatal("no survey shown within a minute")
+		}
+		if v.jobs.drain() == 0 {
+			time.Sleep(time.Millisecond)
+		}
+	}
+}
+
+// Cancel on the check's progress stops it: the survey opened from the
+// sample stays, the status bar says the lines follow a sample; opening
+// another file while a check runs stops that check too, and the new file
+// is shown without any note about the first.
+func TestHeaderCheckCancelAndSwitch(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "regular.sgy")
+	if err := os.WriteFile(path, segytest.Grid(100, 90, 8).Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, how := range []string{"cancel", "switch"} {
+		a := test.NewTempApp(t)
+		v := newViewer(a, Options{Path: path, IndexCache: indexcache.New(filepath.Join(t.TempDir(), "cache"))}, newQueuedJobs())
+		v.win.Resize(fyne.NewSize(1400, 900))
+		startUntilShown(t, v)
+		first := v.vol
+		if !v.ui.check.box.Visible() {
+			t.Fatalf("%s: no check progress shown after the sampled open", how)
+		}
+		switch how {
+		case "cancel":
+			v.ui.check.onStop()
+		case "switch":
+			v.openFile(segytest.CorpusFile(t, "small.sgy"))
+		}
+		v.jobs.wait()
+		if v.ui.check.box.Visible() {
+			t.Errorf("%s: the check's progress is still shown", how)
+		}
+		switch how {
+		case "cancel":
+			if v.vol != first || v.vol.(checkable).Exact() {
+				t.Errorf("cancel: the survey changed or became exact")
+			}
+			if msg := v.ui.message.Text; !strings.Contains(msg, "stopped") {
+				t.Errorf("cancel: status %q", msg)
+			}
+		case "switch":
+			if v.info.Traces != 25 || strings.Contains(v.ui.message.Text, "Checked") {
+				t.Errorf("switch: %d traces shown (want small.sgy's 25), status %q", v.info.Traces, v.ui.message.Text)
+			}
 		}
 		v.jobs.close()
 		v.jobs.wait()
