@@ -305,3 +305,29 @@ func TestCheckCancelled(t *testing.T) {
 		t.Fatalf("Check after cancel: %v, want context.Canceled", err)
 	}
 }
+
+// Every single-byte change of a saved index (each 5th byte, every bit
+// pattern 0x01 and 0x80) is caught: the index is not used, the open
+// samples or reads the file instead and nothing panics.
+func TestSavedIndexAnyByteChanged(t *testing.T) {
+	p := writeGrid(t, segytest.Grid(12, 10, 2))
+	f := openFastT(t, p, Options{}, FastOptions{Stamp: "s", sample: 2})
+	ch, err := f.Check(context.Background(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for at := 0; at < len(ch.Index); at += 5 {
+		for _, bit := range []byte{0x01, 0x80} {
+			bad := append([]byte(nil), ch.Index...)
+			bad[at] ^= bit
+			g, err := OpenFast(context.Background(), p, Options{}, FastOptions{Saved: bad, Stamp: "s", sample: 2})
+			if err != nil {
+				t.Fatalf("byte %d changed: %v", at, err)
+			}
+			if g.IndexSource() == IndexSaved {
+				t.Errorf("byte %d of %d changed (^%#x): the index was used", at, len(ch.Index), bit)
+			}
+			g.Close()
+		}
+	}
+}
