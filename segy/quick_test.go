@@ -5,6 +5,7 @@ import (
 	"errors"
 	"os"
 	"reflect"
+	"slices"
 	"strings"
 	"sync"
 	"testing"
@@ -329,5 +330,24 @@ func TestSavedIndexAnyByteChanged(t *testing.T) {
 			}
 			g.Close()
 		}
+	}
+}
+
+// A crossline-sorted file (inline varying fastest) and a 2D line (one
+// inline) are guessed from the sample as the full scan finds them.
+func TestFastOpenCrosslineSortedAnd2D(t *testing.T) {
+	g := segytest.Grid(30, 40, 2)
+	byXl := slices.Clone(g.Traces)
+	slices.SortStableFunc(byXl, func(a, b segytest.Trace) int { return a.Crossline - b.Crossline })
+	g.Traces = byXl
+	p := writeGrid(t, g)
+	fast, ch := checkAgainstOpen(t, p, Options{}, 4)
+	if fast.Exact() || ch.Geometry || fast.Info().Layout != Layout3DCrosslineSorted {
+		t.Errorf("crossline-sorted: exact %v, changed %v, layout %s", fast.Exact(), ch.Geometry, fast.Info().Layout)
+	}
+	line := writeGrid(t, segytest.Grid(1, 300, 2))
+	fast, ch = checkAgainstOpen(t, line, Options{}, 4)
+	if fast.Exact() || ch.Geometry || fast.Info().Layout != Layout2D {
+		t.Errorf("2D line: exact %v, changed %v, layout %s", fast.Exact(), ch.Geometry, fast.Info().Layout)
 	}
 }
