@@ -19,6 +19,22 @@ import (
 	"quadtrace/segy/segytest"
 )
 
+// newCheckViewer makes a window on fyne's test driver with opt, not yet
+// started; its jobs are stopped and its survey closed when the test ends.
+func newCheckViewer(t *testing.T, opt Options) *viewer {
+	t.Helper()
+	v := newViewer(test.NewTempApp(t), opt, newQueuedJobs())
+	v.win.Resize(fyne.NewSize(1400, 900))
+	t.Cleanup(func() {
+		v.jobs.close()
+		v.jobs.wait()
+		if v.vol != nil {
+			v.vol.Close()
+		}
+	})
+	return v
+}
+
 // A file whose first section comes from a sampled geometry that is wrong
 // on the shown inline (a trace carrying its neighbour's crossline, not
 // among the sampled headers): the window shows the first section at once,
@@ -40,16 +56,7 @@ func TestHeaderCheckCorrectsShownSurvey(t *testing.T) {
 	if err := os.WriteFile(path, g.Bytes(), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	a := test.NewTempApp(t)
-	v := newViewer(a, Options{Path: path, IndexCache: indexcache.New(filepath.Join(dir, "cache"))}, newQueuedJobs())
-	v.win.Resize(fyne.NewSize(1400, 900))
-	t.Cleanup(func() {
-		v.jobs.close()
-		v.jobs.wait()
-		if v.vol != nil {
-			v.vol.Close()
-		}
-	})
+	v := newCheckViewer(t, Options{Path: path, IndexCache: indexcache.New(filepath.Join(dir, "cache"))})
 	v.start()
 	v.jobs.wait()
 	if v.vol == nil {
@@ -93,9 +100,7 @@ func TestHeaderCheckRegularFile(t *testing.T) {
 	}
 	cache := indexcache.New(filepath.Join(dir, "cache"))
 	for round := 0; round < 2; round++ {
-		a := test.NewTempApp(t)
-		v := newViewer(a, Options{Path: path, IndexCache: cache}, newQueuedJobs())
-		v.win.Resize(fyne.NewSize(1400, 900))
+		v := newCheckViewer(t, Options{Path: path, IndexCache: cache})
 		v.start()
 		v.jobs.wait()
 		vol, _ := v.vol.(*volume.Volume)
@@ -108,9 +113,6 @@ func TestHeaderCheckRegularFile(t *testing.T) {
 		if msg := v.ui.message.Text; strings.Contains(msg, "Checked") {
 			t.Errorf("round %d: status %q for a regular file", round, msg)
 		}
-		v.jobs.close()
-		v.jobs.wait()
-		v.vol.Close()
 	}
 }
 
@@ -142,9 +144,7 @@ func TestHeaderCheckCancelAndSwitch(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, how := range []string{"cancel", "switch"} {
-		a := test.NewTempApp(t)
-		v := newViewer(a, Options{Path: path, IndexCache: indexcache.New(filepath.Join(t.TempDir(), "cache"))}, newQueuedJobs())
-		v.win.Resize(fyne.NewSize(1400, 900))
+		v := newCheckViewer(t, Options{Path: path, IndexCache: indexcache.New(filepath.Join(t.TempDir(), "cache"))})
 		startUntilShown(t, v)
 		first := v.vol
 		if !v.ui.check.box.Visible() {
@@ -173,8 +173,5 @@ func TestHeaderCheckCancelAndSwitch(t *testing.T) {
 				t.Errorf("switch: %d traces shown (want small.sgy's 25), status %q", v.info.Traces, v.ui.message.Text)
 			}
 		}
-		v.jobs.close()
-		v.jobs.wait()
-		v.vol.Close()
 	}
 }
