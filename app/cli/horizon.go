@@ -109,6 +109,7 @@ survey) and writes it as a horizon text file.`, stdout, stderr)
 	env := fs.Float64("min-envelope", 0, "smallest envelope as a fraction of the local level (0: off)")
 	corr := fs.Float64("min-correlation", 0.8, "smallest waveform correlation with the neighbour, -1 to 1")
 	corrWin := fs.Float64("correlation-window", horizon.DefaultCorrelationMS, "length of the correlation window, ms")
+	minSep := fs.Float64("min-separation", 0, "interference rule: leave empty where a strong event of the opposite polarity lies closer than this, ms; the tuning thickness stops a thinning bed at tuning (0: off)")
 	fs.StringVar(&out, "out", "", "output horizon file")
 	c.segyFlags()
 	pos, code, done := c.parse(args)
@@ -127,7 +128,7 @@ survey) and writes it as a horizon text file.`, stdout, stderr)
 	if err != nil {
 		return c.end(2, fmt.Errorf("--event: %w", err))
 	}
-	opt := horizon.Options{Event: ev, WindowMS: *window, MaxPhaseJumpDeg: *phase, MinEnvelope: *env, MinCorrelation: *corr, CorrelationMS: *corrWin}
+	opt := horizon.Options{Event: ev, WindowMS: *window, MaxPhaseJumpDeg: *phase, MinEnvelope: *env, MinCorrelation: *corr, CorrelationMS: *corrWin, MinSeparationMS: *minSep}
 	if err := opt.Check(); err != nil {
 		return c.end(2, err)
 	}

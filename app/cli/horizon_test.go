@@ -130,6 +130,8 @@ func TestHorizonCommandErrors(t *testing.T) {
 		{"track seed off the grid", trackCmd, []string{"--demo", "--seed", "999,2100,91", "--out", out}, 2, "not on the survey's grid"},
 		{"track bad window", trackCmd, []string{"--demo", "--seed", "1075,2100,91", "--window", "-1", "--out", out}, 2, "search window"},
 		{"track correlation above one", trackCmd, []string{"--demo", "--seed", "1075,2100,91", "--min-correlation", "2", "--out", out}, 2, "minimum correlation 2"},
+		{"track negative separation", trackCmd, []string{"--demo", "--seed", "1075,2100,91", "--min-separation", "-1", "--out", out}, 2, "minimum separation -1 ms"},
+		{"track separation on a zero crossing", trackCmd, []string{"--demo", "--seed", "1075,2100,91", "--event", "zero-falling", "--min-separation", "14", "--out", out}, 2, "peak and trough events, not zero-falling"},
 		{"track missing file", trackCmd, []string{filepath.Join(dir, "none.sgy"), "--seed", "1,1,1", "--out", out}, 1, "none.sgy"},
 		{"track onto a directory", trackCmd, []string{"--demo", "--seed", "1075,2100,91", "--out", dir}, 1, ""},
 		{"map without horizon", mapCmd, []string{"--demo", "--out", out}, 2, "--horizon"},
