@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"strings"
+	"sync"
 	"testing"
 
 	"quadtrace/compute"
@@ -207,6 +208,83 @@ func TestSlabRefusals(t *testing.T) {
 	for k := range before.Values {
 		if b, a := before.Values[k], after.Values[k]; b != a && !(math.IsNaN(float64(a)) && math.IsNaN(float64(b))) {
 			t.Fatalf("trace %d: the map changed with the horizon the slab was built on (%g, then %g)", k, b, a)
+		}
+	}
+}
+
+// A slab serves several goroutines at once (the window may recompute an
+// attribute while the map of the last one is redrawn): attributes and maps
+// computed concurrently equal those computed one at a time (run with
+// -race). A horizon with no picks gives a slab whose maps are all empty.
+func TestSlabConcurrentAndEmpty(t *testing.T) {
+	_, src, hs := slabDemo(t)
+	ctx := context.Background()
+	slab, err := horizon.NewSlab(ctx, src, hs[1], horizon.SlabSpec{AboveMS: 20, BelowMS: 20, MarginMS: 84}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec := horizon.MapSpec{Stat: horizon.RMS, FromMS: -20, ToMS: 20}
+	ids := []string{"envelope", "sweetness", "instantaneous-frequency", "cosine-phase"}
+	want := make([]*horizon.AttributeMap, len(ids))
+	for i, id := range ids {
+		a, _ := compute.Lookup(id)
+		p, _ := a.Resolve(nil)
+		as, err := slab.Attribute(ctx, a, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want[i], err = as.Map(spec); err != nil {
+			t.Fatal(err)
+		}
+	}
+	got := make([]*horizon.AttributeMap, len(ids))
+	errs := make([]error, len(ids))
+	var wg sync.WaitGroup
+	for i, id := range ids {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			a, _ := compute.Lookup(id)
+			p, _ := a.Resolve(nil)
+			as, err := slab.Attribute(ctx, a, p)
+			if err != nil {
+				errs[i] = err
+				return
+			}
+			got[i], errs[i] = as.Map(spec)
+		}()
+	}
+	wg.Wait()
+	for i := range ids {
+		if errs[i] != nil {
+			t.Fatalf("%s: %v", ids[i], errs[i])
+		}
+		for k := range want[i].Values {
+			w, g := want[i].Values[k], got[i].Values[k]
+			if w != g && !(math.IsNaN(float64(w)) && math.IsNaN(float64(g))) {
+				t.Fatalf("%s, trace %d: %g concurrently, %g alone", ids[i], k, g, w)
+			}
+		}
+	}
+
+	empty := horizon.New(hs[0].Inlines, hs[0].Crosslines)
+	es, err := horizon.NewSlab(ctx, src, empty, horizon.SlabSpec{AboveMS: 10, BelowMS: 10}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := compute.Lookup("envelope")
+	p, _ := a.Resolve(nil)
+	eas, err := es.Attribute(ctx, a, p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := eas.Map(horizon.MapSpec{Stat: horizon.Value})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, v := range m.Values {
+		if !math.IsNaN(float64(v)) {
+			t.Fatalf("trace %d: %g on the map of an empty horizon", k, v)
 		}
 	}
 }
