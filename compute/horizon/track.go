@@ -86,9 +86,9 @@ type Options struct {
 // is recalled from memory of Kallweit and Wood 1982), where the composite
 // amplitude is largest (Widess 1973's tuning).
 // TestTuningThicknessClosedForm checks it against a brute-force search
-// for that maximum, which is what this value rests on. (The expression
-// 1/(2.31 f) sometimes quoted gives 11 % more; it did not survive that
-// check.)
+// for that maximum, which is what this value rests on. (1/(2.31 f), a
+// figure sometimes quoted, gives 11 % more with f the peak frequency: it
+// may take f in another sense; unverified.)
 func TuningThicknessMS(peakHz float64) float64 {
 	return 1000 * math.Sqrt(1.5) / (math.Pi * peakHz)
 }
