@@ -211,7 +211,8 @@ func readHorizon(path string, l horizon.Layout) (*horizon.Horizon, error) {
 // (.png).
 func Map(args []string, stdout, stderr io.Writer) int {
 	c := newCommand("map", "(FILE | --demo) --horizon HORIZON.txt --attribute ID --out MAP.png|MAP.txt [options]", `Maps an attribute along a tracked horizon (or in a window around it, or
-between two horizons) and writes the map as a text grid or a PNG figure.`, stdout, stderr)
+between two horizons) and writes the map as a text grid or a PNG figure
+(legend, scale bar, north arrow and the survey's outline).`, stdout, stderr)
 	fs := c.fs
 	var demo bool
 	var out, top, base string
