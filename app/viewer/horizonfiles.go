@@ -10,6 +10,10 @@ import (
 	"quadtrace/compute/horizon"
 )
 
+// Horizon files are small (one row per picked trace): they are read and
+// written in the background without a progress bar; the status bar says
+// when they are done.
+
 // saveHorizon writes h as a horizon text file (horizon.Write: one row per
 // picked trace with its line numbers, coordinates, time, quality and
 // origin) in the background, through app/outfile like the window's other
@@ -28,11 +32,9 @@ func (v *viewer) saveHorizon(h *namedHorizon, path string) {
 	if p := v.vol.Path(); p != "" {
 		inputs = []string{p}
 	}
-	v.setBusy(v.hzEdit.progress, "Saving "+name, 0, 0, func() { v.jobs.cancel("horizon-file"); v.setIdle(v.hzEdit.progress) })
 	v.startWithSurvey("horizon-file", func(j *job, vol survey) {
 		err := writeHorizonFile(vol, offset, surface, path, inputs)
 		v.onUI(j, func() {
-			v.setIdle(v.hzEdit.progress)
 			if err != nil {
 				v.showError(fmt.Sprintf("Saving %s: %v", name, err))
 				return
@@ -71,11 +73,9 @@ func (v *viewer) loadHorizon(path string) {
 		return
 	}
 	offset := v.state.Offset
-	v.setBusy(v.hzEdit.progress, "Reading "+filepath.Base(path), 0, 0, func() { v.jobs.cancel("horizon-file"); v.setIdle(v.hzEdit.progress) })
 	v.startWithSurvey("horizon-file", func(j *job, vol survey) {
 		h, err := readHorizonFile(vol, offset, path)
 		v.onUI(j, func() {
-			v.setIdle(v.hzEdit.progress)
 			if err != nil {
 				v.showError(err.Error())
 				return
