@@ -133,11 +133,33 @@ func TestSeedClickLandsOnTraceAndTime(t *testing.T) {
 	if !found {
 		t.Errorf("the seed at (%v, %v) is not marked on the section: %+v", x, y, v.ui.section.marks)
 	}
-	// A click where no peak lies within the window places nothing.
+	// A click where no peak lies within reach (the search window, here
+	// 0.5 ms, or seedReachPixels on the screen) places nothing. The time
+	// is found on the generated trace: no sample within reach that is
+	// larger than the one before, not less than the one after, and positive.
 	v.hzEdit.panel.window.SetText("0.5")
-	clickSeed(t, v, xl, truth+20)
+	p, _ := v.place()
+	reach := v.seedReachMS(p) + 2*p.dtMS // and the parabola's reach beyond a sample
+	tr := s.Traces[il*s.Config.Crosslines+xl]
+	empty := -1.0
+	for j := 0; j < len(tr) && empty < 0; j++ {
+		ms := p.t0MS + float64(j)*p.dtMS
+		clear := true
+		for i := 1; i+1 < len(tr); i++ {
+			if math.Abs(p.t0MS+float64(i)*p.dtMS-ms) <= reach && tr[i] > tr[i-1] && tr[i] >= tr[i+1] && tr[i] > 0 {
+				clear = false
+			}
+		}
+		if clear && ms-reach > p.t0MS {
+			empty = ms
+		}
+	}
+	if empty < 0 {
+		t.Fatalf("no stretch of %v ms without a peak on the trace", 2*reach)
+	}
+	clickSeed(t, v, xl, empty)
 	if len(h.seeds) != 1 || !strings.Contains(v.ui.message.Text, "no seed placed") {
-		t.Errorf("a click with no peak in reach: %d seeds, status %q", len(h.seeds), v.ui.message.Text)
+		t.Errorf("a click at %v ms with no peak in reach: %d seeds, status %q", empty, len(h.seeds), v.ui.message.Text)
 	}
 }
 

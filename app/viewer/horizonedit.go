@@ -101,8 +101,10 @@ func (v *viewer) activeOrNew() *namedHorizon {
 
 // placeSeed puts a seed on the active horizon at the point (trace, sample)
 // of the shown view, snapped in the background to the nearest event of the
-// tracking settings' kind within their window; the status bar says when
-// there is none.
+// tracking settings' kind within their search window or within
+// seedReachPixels of the click on the screen, whichever reaches further (a
+// pointer cannot hit a time to a few ms on a section of seconds); the status
+// bar says when there is none.
 func (v *viewer) placeSeed(trace, sample float64) {
 	p, ok := v.place()
 	if !ok {
@@ -115,9 +117,10 @@ func (v *viewer) placeSeed(trace, sample float64) {
 	}
 	target := v.activeOrNew()
 	opts := v.hzEdit.opts
+	reach := max(opts.WindowMS, v.seedReachMS(p))
 	offset := v.state.Offset
 	v.startWithSurvey(laneSeed, func(j *job, vol survey) {
-		seed, err := snapSeed(vol, offset, il, xl, ms, opts)
+		seed, err := snapSeed(vol, offset, il, xl, ms, opts.Event, reach)
 		v.onUI(j, func() {
 			if err != nil {
 				v.showStatus(err.Error())
@@ -140,10 +143,30 @@ func (v *viewer) seedName(s horizon.Seed) string {
 	return fmt.Sprintf("IL %d XL %d %s ms", il, xl, formatMS(s.TimeMS))
 }
 
+// seedReachPixels is how far, in screen units, a click may be from the event
+// its seed snaps to.
+const seedReachPixels = 10
+
+// seedReachMS is seedReachPixels as time on the shown view at p: on a
+// section, the time those units span at the current zoom; on a time slice,
+// five samples.
+func (v *viewer) seedReachMS(p sectionPlace) float64 {
+	if p.orientation == volume.TimeSlice {
+		return 5 * p.dtMS
+	}
+	s := v.ui.section
+	_, ps := s.plotRect(s.Size())
+	if ps.Height <= 0 {
+		return 0
+	}
+	return seedReachPixels * (s.vp.Sample1 - s.vp.Sample0) * p.dtMS / float64(ps.Height)
+}
+
 // snapSeed reads the trace at grid index (il, xl) of vol and returns the
-// seed on the event of opts nearest to ms within opts.WindowMS, the same
-// event horizon.Track snaps that seed to.
-func snapSeed(vol survey, offset, il, xl int, ms float64, opts horizon.Options) (horizon.Seed, error) {
+// seed on the event e nearest to ms within reach ms. A seed on an event is
+// one horizon.Track keeps where it is (it snaps a seed to the nearest event
+// within its window).
+func snapSeed(vol survey, offset, il, xl int, ms float64, e horizon.Event, reach float64) (horizon.Seed, error) {
 	src, err := newSurveySource(vol, offset)
 	if err != nil {
 		return horizon.Seed{}, err
@@ -154,15 +177,15 @@ func snapSeed(vol survey, offset, il, xl int, ms float64, opts horizon.Options) 
 		return horizon.Seed{}, err
 	}
 	at := (ms/1000 - g.T0) / g.DT
-	half := opts.WindowMS / (g.DT * 1000)
+	half := reach / (g.DT * 1000)
 	best := math.NaN()
-	for _, x := range opts.Event.Locate(tr, at-half, at+half, nil) {
+	for _, x := range e.Locate(tr, at-half, at+half, nil) {
 		if !(math.Abs(x-at) >= math.Abs(best-at)) {
 			best = x
 		}
 	}
 	if math.IsNaN(best) {
-		return horizon.Seed{}, fmt.Errorf("No %v within %g ms of %s ms on this trace: no seed placed", opts.Event, opts.WindowMS, formatMS(ms))
+		return horizon.Seed{}, fmt.Errorf("No %v within %s ms of %s ms on this trace: no seed placed", e, formatMS(reach), formatMS(ms))
 	}
 	return horizon.Seed{Inline: il, Crossline: xl, TimeMS: (g.T0 + best*g.DT) * 1000}, nil
 }

@@ -99,12 +99,14 @@ func (l *horizonList) current() *namedHorizon {
 }
 
 // horizonColours are the colours offered to new horizons in turn: strong,
-// well-separated hues that stand out on grey and on colour palettes.
+// well-separated hues that stand out on grey and on colour palettes (green
+// first: it is in none of the default palettes, and the picked trace's line
+// is yellow).
 var horizonColours = [...]color.NRGBA{
-	{R: 0xff, G: 0xd0, B: 0x00, A: 0xff}, // yellow
-	{R: 0x00, G: 0xe0, B: 0xff, A: 0xff}, // cyan
-	{R: 0xff, G: 0x30, B: 0xc0, A: 0xff}, // magenta
 	{R: 0x40, G: 0xff, B: 0x40, A: 0xff}, // green
+	{R: 0xff, G: 0x30, B: 0xc0, A: 0xff}, // magenta
+	{R: 0x00, G: 0xe0, B: 0xff, A: 0xff}, // cyan
+	{R: 0xff, G: 0xd0, B: 0x00, A: 0xff}, // yellow
 	{R: 0xff, G: 0x80, B: 0x20, A: 0xff}, // orange
 	{R: 0x90, G: 0x60, B: 0xff, A: 0xff}, // violet
 }
