@@ -227,6 +227,7 @@ func (v *viewer) trackActive() {
 	v.startWithSurvey(laneHorizon, func(j *job, vol survey) {
 		var thr progressThrottle
 		var merged *horizon.Horizon
+		added := 0
 		src, err := newSurveySource(vol, offset)
 		if err == nil {
 			var h *horizon.Horizon
@@ -236,7 +237,7 @@ func (v *viewer) trackActive() {
 				}
 			})
 			if err == nil {
-				merged = mergeHorizons(start, h)
+				merged, added = mergeHorizons(start, h)
 			}
 		}
 		if j.ctx.Err() != nil {
@@ -253,8 +254,16 @@ func (v *viewer) trackActive() {
 				v.showStatus(target.Name + " changed while it was tracked: its tracking was dropped")
 				return
 			}
+			if added == 0 {
+				// The seeds lie where the horizon is picked already:
+				// nothing changes (another reflector needs a new horizon).
+				target.seeds = nil
+				v.showStatus(fmt.Sprintf("Tracked %s: nothing new, its seeds lie on traces it has picked already (use a new horizon for another reflector)", target.Name))
+				v.horizons.notify()
+				return
+			}
 			target.replace(merged, nil, "tracking")
-			v.showStatus(fmt.Sprintf("Tracked %s: %d traces picked", target.Name, merged.Picked()))
+			v.showStatus(fmt.Sprintf("Tracked %s: %d traces added, %d picked in all", target.Name, added, merged.Picked()))
 			v.horizons.notify()
 		})
 	})
@@ -272,18 +281,22 @@ func (v *viewer) cancelHorizonJob() {
 }
 
 // mergeHorizons returns a new horizon holding the picks of old and, where
-// old has none, those of fresh (old may be nil).
-func mergeHorizons(old, fresh *horizon.Horizon) *horizon.Horizon {
+// old has none, those of fresh (old may be nil), with the number of picks
+// fresh added.
+func mergeHorizons(old, fresh *horizon.Horizon) (*horizon.Horizon, int) {
 	out := cloneHorizon(fresh)
 	if old == nil || old.Inlines != fresh.Inlines || old.Crosslines != fresh.Crosslines {
-		return out
+		return out, out.Picked()
 	}
+	added := 0
 	for k, s := range old.State {
 		if s != horizon.Empty {
 			out.TimeMS[k], out.Quality[k], out.State[k] = old.TimeMS[k], old.Quality[k], s
+		} else if out.State[k] != horizon.Empty {
+			added++
 		}
 	}
-	return out
+	return out, added
 }
 
 // cloneHorizon returns a copy of h that shares nothing with it.
