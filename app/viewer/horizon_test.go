@@ -34,9 +34,23 @@ func horizonDemo() synth.Config {
 func openHorizonViewer(t *testing.T) (*viewer, *synth.Survey) {
 	t.Helper()
 	cfg := horizonDemo()
-	a := test.NewTempApp(t)
-	v := newViewer(a, Options{Demo: &cfg}, newQueuedJobs())
-	v.win.Resize(fyne.NewSize(1400, 900))
+	v := openDemoViewer(t, cfg, fyne.NewSize(1400, 900))
+	if v.data.amp == nil {
+		t.Fatalf("the demo survey shows nothing; status %q", v.ui.message.Text)
+	}
+	s, err := synth.Generate(context.Background(), cfg, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return v, s
+}
+
+// openDemoViewer starts a viewer of the given size on the fyne test driver
+// with the demo survey of cfg, and waits until its jobs are done.
+func openDemoViewer(t *testing.T, cfg synth.Config, size fyne.Size) *viewer {
+	t.Helper()
+	v := newViewer(test.NewTempApp(t), Options{Demo: &cfg}, newQueuedJobs())
+	v.win.Resize(size)
 	t.Cleanup(func() {
 		v.jobs.close()
 		v.jobs.wait()
@@ -46,14 +60,7 @@ func openHorizonViewer(t *testing.T) (*viewer, *synth.Survey) {
 	})
 	v.start()
 	v.jobs.wait()
-	if v.data.amp == nil {
-		t.Fatalf("the demo survey shows nothing; status %q", v.ui.message.Text)
-	}
-	s, err := synth.Generate(context.Background(), cfg, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v, s
+	return v
 }
 
 // screenAt is the position on the section view of cell coordinates

@@ -329,19 +329,28 @@ func (v *viewer) chooseHorizonColour(h *namedHorizon) {
 	d.Show()
 }
 
-func (v *viewer) showHorizonSaveDialog(h *namedHorizon) {
-	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
+// chosenPath turns a file dialog's answer into a call of use with the
+// chosen path (none when the dialog was dismissed; an error is shown).
+func chosenPath[T interface {
+	URI() fyne.URI
+	Close() error
+}](v *viewer, use func(path string)) func(T, error) {
+	return func(f T, err error) {
 		if err != nil {
 			v.showError(err.Error())
 			return
 		}
-		if wc == nil {
+		if any(f) == nil {
 			return
 		}
-		path := wc.URI().Path()
-		wc.Close()
-		v.saveHorizon(h, path)
-	}, v.win)
+		path := f.URI().Path()
+		f.Close()
+		use(path)
+	}
+}
+
+func (v *viewer) showHorizonSaveDialog(h *namedHorizon) {
+	d := dialog.NewFileSave(chosenPath[fyne.URIWriteCloser](v, func(path string) { v.saveHorizon(h, path) }), v.win)
 	d.SetFileName(strings.TrimSuffix(figureFileName(h.Name), ".png") + ".txt")
 	d.SetFilter(storage.NewExtensionFileFilter([]string{".txt"}))
 	d.Resize(fyne.NewSize(900, 600))
@@ -349,18 +358,7 @@ func (v *viewer) showHorizonSaveDialog(h *namedHorizon) {
 }
 
 func (v *viewer) showHorizonOpenDialog() {
-	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if err != nil {
-			v.showError(err.Error())
-			return
-		}
-		if r == nil {
-			return
-		}
-		path := r.URI().Path()
-		r.Close()
-		v.loadHorizon(path)
-	}, v.win)
+	d := dialog.NewFileOpen(chosenPath[fyne.URIReadCloser](v, v.loadHorizon), v.win)
 	d.SetFilter(storage.NewExtensionFileFilter([]string{".txt"}))
 	d.Resize(fyne.NewSize(900, 600))
 	d.Show()

@@ -113,12 +113,20 @@ var horizonColours = [...]color.NRGBA{
 
 // add appends a new, empty horizon with a fresh name and the next colour,
 // makes it the active one and announces the change.
-func (l *horizonList) add() *namedHorizon {
-	h := &namedHorizon{Name: l.freshName(), Colour: horizonColours[len(l.items)%len(horizonColours)]}
-	l.items = append(l.items, h)
+func (l *horizonList) add() *namedHorizon { return l.addSurface(l.freshName(), nil) }
+
+// addSurface appends a horizon called name (a fresh name when another
+// horizon has it) with surface h (may be nil) in the next colour, makes it
+// the active one and announces the change.
+func (l *horizonList) addSurface(name string, h *horizon.Horizon) *namedHorizon {
+	if name == "" || l.named(name) {
+		name = l.freshName()
+	}
+	n := &namedHorizon{Name: name, Colour: horizonColours[len(l.items)%len(horizonColours)], H: h}
+	l.items = append(l.items, n)
 	l.active = len(l.items) - 1
 	l.notify()
-	return h
+	return n
 }
 
 // freshName returns "Horizon N" for the smallest N no horizon is named.

@@ -2,11 +2,11 @@ package viewer
 
 import (
 	"fmt"
-	"math"
 	"image/color"
+	"math"
 	"math/rand"
-	"path/filepath"
 	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -81,19 +81,8 @@ func TestRandomInteraction(t *testing.T) {
 		}
 		paths = append(paths, p)
 	}
-	a := test.NewTempApp(t)
 	demo := synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3}
-	v := newViewer(a, Options{Demo: &demo}, newQueuedJobs())
-	v.win.Resize(fyne.NewSize(1000, 700))
-	t.Cleanup(func() {
-		v.jobs.close()
-		v.jobs.wait()
-		if v.vol != nil {
-			v.vol.Close()
-		}
-	})
-	v.start()
-	v.jobs.wait()
+	v := openDemoViewer(t, demo, fyne.NewSize(1000, 700))
 
 	attrs := compute.Attributes()
 	hzDir := t.TempDir()
