@@ -610,6 +610,10 @@ func TestHorizonListEdits(t *testing.T) {
 	if err := v.renameHorizon(a, "Top sand"); err != nil || a.Name != "Top sand" {
 		t.Errorf("rename: %v, name %q", err, a.Name)
 	}
+	// Without the map view in this build there is no Map button to press.
+	if _, ok := mapViewOf(v); !ok && v.hzEdit.panel.rows[a].mapBtn.Visible() {
+		t.Error("a Map button shows with no map view")
+	}
 	test.Tap(v.hzEdit.panel.rows[a].name)
 	if v.horizons.current() != a {
 		t.Error("tapping the name does not make it the one edited")

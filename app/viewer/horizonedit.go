@@ -227,7 +227,7 @@ func (v *viewer) trackActive() {
 	v.startWithSurvey(laneHorizon, func(j *job, vol survey) {
 		var thr progressThrottle
 		var merged *horizon.Horizon
-		added := 0
+		added, picked := 0, 0
 		src, err := newSurveySource(vol, offset)
 		if err == nil {
 			var h *horizon.Horizon
@@ -238,6 +238,7 @@ func (v *viewer) trackActive() {
 			})
 			if err == nil {
 				merged, added = mergeHorizons(start, h)
+				picked = merged.Picked()
 			}
 		}
 		if j.ctx.Err() != nil {
@@ -262,8 +263,8 @@ func (v *viewer) trackActive() {
 				v.horizons.notify()
 				return
 			}
-			target.replace(merged, nil, "tracking")
-			v.showStatus(fmt.Sprintf("Tracked %s: %d traces added, %d picked in all", target.Name, added, merged.Picked()))
+			target.replace(merged, picked, nil, "tracking")
+			v.showStatus(fmt.Sprintf("Tracked %s: %d traces added, %d picked in all", target.Name, added, picked))
 			v.horizons.notify()
 		})
 	})
@@ -379,6 +380,10 @@ func (v *viewer) eraseBoxAt(t0, s0, t1, s1 float64) {
 	v.setBusy(v.hzEdit.progress, "Erasing in "+target.Name, 0, 0, v.cancelHorizonJob)
 	v.jobs.start(laneHorizon, func(j *job) {
 		h, keep, n := eraseIn(start, seeds, b)
+		picked := 0
+		if h != nil {
+			picked = h.Picked()
+		}
 		v.onUI(j, func() {
 			v.hzEdit.running = nil
 			v.setIdle(v.hzEdit.progress)
@@ -389,7 +394,7 @@ func (v *viewer) eraseBoxAt(t0, s0, t1, s1 float64) {
 				v.showStatus("Nothing of " + target.Name + " in that box")
 				return
 			}
-			target.replace(h, keep, "erase")
+			target.replace(h, picked, keep, "erase")
 			v.showStatus(fmt.Sprintf("Erased %d picks and seeds of %s", n, target.Name))
 			v.horizons.notify()
 		})

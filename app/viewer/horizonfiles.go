@@ -75,6 +75,10 @@ func (v *viewer) loadHorizon(path string) {
 	offset := v.state.Offset
 	v.startWithSurvey("horizon-file", func(j *job, vol survey) {
 		h, err := readHorizonFile(vol, offset, path)
+		picked := 0
+		if err == nil {
+			picked = h.Picked()
+		}
 		v.onUI(j, func() {
 			if err != nil {
 				v.showError(err.Error())
@@ -83,8 +87,8 @@ func (v *viewer) loadHorizon(path string) {
 			if v.vol != vol {
 				return // another survey was opened meanwhile
 			}
-			v.showStatus(fmt.Sprintf("Read %s: %d traces picked", filepath.Base(path), h.Picked()))
-			v.horizons.addSurface(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)), h)
+			v.showStatus(fmt.Sprintf("Read %s: %d traces picked", filepath.Base(path), picked))
+			v.horizons.addSurface(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)), h, picked)
 		})
 	})
 }

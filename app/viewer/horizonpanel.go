@@ -216,11 +216,7 @@ func (p *horizonPanel) refresh() {
 	p.list.Objects = objs
 	p.list.Refresh()
 	if h := l.current(); h != nil {
-		picked := 0
-		if h.H != nil {
-			picked = h.H.Picked()
-		}
-		p.active.SetText(fmt.Sprintf("Editing %s: %d traces picked, %d seeds waiting, %d edits to undo", h.Name, picked, len(h.seeds), len(h.undo)))
+		p.active.SetText(fmt.Sprintf("Editing %s: %d traces picked, %d seeds waiting, %d edits to undo", h.Name, h.picked, len(h.seeds), len(h.undo)))
 		p.track.Enable()
 		if len(h.undo) > 0 {
 			p.undo.Enable()

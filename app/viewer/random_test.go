@@ -435,6 +435,9 @@ func checkHorizons(v *viewer, fail func(string, ...any)) {
 				fail("%s: seed %+v off the grid", h.Name, s)
 			}
 		}
+		if h.H != nil && h.picked != h.H.Picked() || h.H == nil && h.picked != 0 {
+			fail("%s: %d picks counted, %v on the surface", h.Name, h.picked, h.H != nil)
+		}
 		if len(h.undo) > maxUndo {
 			fail("%s: %d undo entries", h.Name, len(h.undo))
 		}
