@@ -27,6 +27,10 @@ type horizonEditor struct {
 	panel    *horizonPanel
 	// running is the horizon the "horizon" lane edits, nil when idle.
 	running *namedHorizon
+	// marksPlace and marksVersion say what the marks over the section were
+	// last asked for: the view's place and the list's version (-1: none).
+	marksPlace   sectionPlace
+	marksVersion int
 }
 
 // defaultTrackOptions are the tracking settings a window starts with (the

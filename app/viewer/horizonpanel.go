@@ -364,6 +364,7 @@ func (v *viewer) showHorizonOpenDialog() {
 // buildUI once the section view exists) and returns the Horizons tab.
 func (v *viewer) buildHorizonUI() fyne.CanvasObject {
 	v.hzEdit.opts = defaultTrackOptions()
+	v.hzEdit.marksVersion = -1
 	v.hzEdit.progress = newProgressItem()
 	s := v.ui.section
 	s.onSeed = func(trace, sample float64) {
@@ -388,5 +389,6 @@ func (v *viewer) resetHorizons() {
 	v.setIdle(v.hzEdit.progress)
 	v.hzEdit.running = nil
 	v.horizons.clear()
+	v.hzEdit.marksVersion = -1
 	v.ui.section.setMarks(nil)
 }

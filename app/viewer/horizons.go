@@ -78,6 +78,8 @@ type horizonList struct {
 	// changed are called, in order, after every change of the list, of a
 	// horizon's name, colour, visibility or surface, or of the active one.
 	changed []func()
+	// version counts the changes (notify calls).
+	version int
 }
 
 // onChange registers f to be called on the UI goroutine after every change
@@ -86,6 +88,7 @@ func (l *horizonList) onChange(f func()) { l.changed = append(l.changed, f) }
 
 // notify calls the changed callbacks; the caller is on the UI goroutine.
 func (l *horizonList) notify() {
+	l.version++
 	for _, f := range l.changed {
 		f()
 	}
