@@ -49,15 +49,8 @@ func openHorizonViewer(t *testing.T) (*viewer, *synth.Survey) {
 // with the demo survey of cfg, and waits until its jobs are done.
 func openDemoViewer(t *testing.T, cfg synth.Config, size fyne.Size) *viewer {
 	t.Helper()
-	v := newViewer(test.NewTempApp(t), Options{Demo: &cfg}, newQueuedJobs())
+	v := newCheckViewer(t, Options{Demo: &cfg})
 	v.win.Resize(size)
-	t.Cleanup(func() {
-		v.jobs.close()
-		v.jobs.wait()
-		if v.vol != nil {
-			v.vol.Close()
-		}
-	})
 	v.start()
 	v.jobs.wait()
 	return v
