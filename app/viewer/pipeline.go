@@ -80,6 +80,16 @@ func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cac
 		if progress != nil {
 			pf = progress(label)
 		}
+		if req.slice.Orientation != volume.TimeSlice && out.amp != nil {
+			// The amplitude of this section is in hand (read above):
+			// computing from it spares the survey a second read and copy
+			// of the section (fresh memory, a page fault per 4 KiB).
+			s, err := attributeOf(ctx, *out.amp, a, p, c, pf)
+			if err != nil {
+				return nil, fmt.Errorf("%s: %s %d: %s: %w", vol.Name(), req.slice.Orientation, req.slice.Number, a.ID, err)
+			}
+			return &s, nil
+		}
 		s, err := vol.Attribute(ctx, req.slice, a, p, c, pf)
 		return &s, err
 	}
@@ -100,6 +110,25 @@ func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cac
 	}
 	out.plan, out.baseParams, out.overParams, out.cond = req.plan, req.baseParams, req.overParams, req.cond
 	return out, nil
+}
+
+// attributeOf computes attribute a of the amplitude section amp, after
+// conditioning c, keeping amp's axes: what survey.Attribute does for an
+// inline or crossline after reading the section. amp is not changed.
+func attributeOf(ctx context.Context, amp volume.Section, a *compute.Attribute, p compute.Params, c compute.Conditioning, progress func(done, total int)) (volume.Section, error) {
+	in := amp.Section
+	if !c.IsZero() {
+		var err error
+		if in, err = c.Apply(ctx, in, nil); err != nil {
+			return volume.Section{}, err
+		}
+	}
+	out, err := a.Compute(ctx, in, p, progress)
+	if err != nil {
+		return volume.Section{}, err
+	}
+	amp.Section = out
+	return amp, nil
 }
 
 // requestData starts a job that reads and computes whatever the state needs
