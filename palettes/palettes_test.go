@@ -390,3 +390,18 @@ func TestCatalogue(t *testing.T) {
 		t.Errorf("unknown name error = %v", err)
 	}
 }
+
+// BenchmarkGenerate times generating each built-in palette from its
+// design (what the first ByName of that name costs a process; All
+// generates every one).
+//
+// Run: go test -run '^$' -bench Generate ./palettes/
+func BenchmarkGenerate(b *testing.B) {
+	for _, d := range designs() {
+		b.Run(d.name, func(b *testing.B) {
+			for b.Loop() {
+				d.build()
+			}
+		})
+	}
+}
