@@ -27,17 +27,22 @@ func PercentileRange(data [][]float32, pct float64, symmetric bool) (lo, hi floa
 	}
 	stride := max(1, (total+percentileSampleCap-1)/percentileSampleCap)
 	vals := make([]float32, 0, min(total, percentileSampleCap)+1)
-	k := 0
+	// the values at k = 0, stride, 2*stride, ... counting through the
+	// traces in order; each trace starts at the first such k in it (no
+	// division per value: this loop is most of a figure's range)
+	start := 0 // index of the trace's first value
 	for _, tr := range data {
-		for _, v := range tr {
-			if k%stride == 0 && !math.IsNaN(float64(v)) && !math.IsInf(float64(v), 0) {
+		first := (start + stride - 1) / stride * stride
+		for j := first - start; j < len(tr); j += stride {
+			v := tr[j]
+			if !math.IsNaN(float64(v)) && !math.IsInf(float64(v), 0) {
 				if symmetric && v < 0 {
 					v = -v
 				}
 				vals = append(vals, v)
 			}
-			k++
 		}
+		start += len(tr)
 	}
 	if len(vals) == 0 {
 		return 0, 0
