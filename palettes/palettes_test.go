@@ -4,6 +4,7 @@ import (
 	"image/color"
 	"math"
 	"strings"
+	"sync"
 	"testing"
 
 	colorful "github.com/lucasb-eyer/go-colorful"
@@ -403,5 +404,37 @@ func BenchmarkGenerate(b *testing.B) {
 				d.build()
 			}
 		})
+	}
+}
+
+// TestConcurrentFirstUse: palettes generated on first use are the same
+// whichever goroutines ask first and in what order (run with -race).
+func TestConcurrentFirstUse(t *testing.T) {
+	names := []string{"lumbry", "kestrine", "orbel", "slatine", "pyrrel"}
+	got := make([][]*Palette, 8)
+	var wg sync.WaitGroup
+	for g := range got {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := range names {
+				p, err := ByName(names[(k+g)%len(names)])
+				if err != nil {
+					t.Error(err)
+					return
+				}
+				got[g] = append(got[g], p)
+			}
+		}()
+	}
+	wg.Wait()
+	for _, p := range All() {
+		for g := range got {
+			for _, q := range got[g] {
+				if q.Name == p.Name && q.Table != p.Table {
+					t.Errorf("%s: goroutine %d got another table", p.Name, g)
+				}
+			}
+		}
 	}
 }
