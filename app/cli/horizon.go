@@ -189,20 +189,7 @@ func firstOr(pos []string) string {
 // readHorizon reads a horizon file onto the survey's grid; errors name
 // the file and the line.
 func readHorizon(path string, l horizon.Layout) (*horizon.Horizon, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	picks, err := horizon.Read(f)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	h, err := horizon.FromPicks(l, picks)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	return h, nil
+	return horizonjob.ReadFile(path, l)
 }
 
 // Map runs `quadtrace map`: it maps an attribute along a horizon (its value

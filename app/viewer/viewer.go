@@ -128,6 +128,10 @@ type viewer struct {
 
 	holds surveyHolds // the jobs reading each survey
 
+	// horizons are the window's horizons (see horizons.go).
+	horizons horizonList
+	hzEdit   horizonEditor // seeds, tracking, erasing (horizonedit.go)
+
 	// wantPick is the trace to pick in the next data shown (set by a change
 	// of view); history and histPos are the Back/Forward history.
 	wantPick    *pickKeys
@@ -139,7 +143,7 @@ type viewer struct {
 // newViewer builds the window on app a, with its background work run by js;
 // start opens the survey. The caller shows the window.
 func newViewer(a fyne.App, opt Options, js *jobs) *viewer {
-	v := &viewer{histPending: -1, app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
+	v := &viewer{horizons: horizonList{active: -1}, histPending: -1, app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
 	v.win = a.NewWindow("quadtrace")
 	v.buildUI()
 	v.restoreWindowSize()
@@ -264,7 +268,8 @@ func (v *viewer) setSurvey(vol survey) {
 	v.ranges = map[string][2]float32{}
 	v.state = newViewState(v.info)
 	v.wantPick, v.history, v.histPos, v.histPending = nil, nil, 0, -1
-	v.showStatus("") // errors about the survey before do not apply
+	v.resetHorizons() // horizons belong to the survey they were picked on
+	v.showStatus("")  // errors about the survey before do not apply
 	if v.info.IntervalUS <= 0 {
 		// Without a sample interval no attribute can be computed; the
 		// amplitude can still be looked at.
