@@ -121,6 +121,9 @@ type viewer struct {
 
 	holds surveyHolds // the jobs reading each survey
 
+	// horizons are the window's horizons (see horizons.go).
+	horizons horizonList
+
 	// wantPick is the trace to pick in the next data shown (set by a change
 	// of view); history and histPos are the Back/Forward history.
 	wantPick    *pickKeys
@@ -132,7 +135,7 @@ type viewer struct {
 // newViewer builds the window on app a, with its background work run by js;
 // start opens the survey. The caller shows the window.
 func newViewer(a fyne.App, opt Options, js *jobs) *viewer {
-	v := &viewer{histPending: -1, app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
+	v := &viewer{horizons: horizonList{active: -1}, histPending: -1, app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
 	v.win = a.NewWindow("quadtrace")
 	v.buildUI()
 	v.restoreWindowSize()
