@@ -32,7 +32,7 @@ const stripMarginMS = 40
 // the strip holds every sample the window can reach, and samples past the
 // end of the survey's trace are NaN (gaps, left out of every statistic).
 type mapStrips struct {
-	key                string  // attribute, parameters, conditioning, offset (attrKey)
+	key                string // attribute, parameters, conditioning, offset (attrKey)
 	top, base          *horizon.Horizon
 	keepFrom, keepTo   float64 // ms, relative to top (keepFrom) and to base or top (keepTo)
 	start              []int   // first survey sample of each trace's strip
