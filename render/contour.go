@@ -16,11 +16,13 @@ import (
 type Segment struct{ X0, Y0, X1, Y1 float64 }
 
 // MapLines is a set of segments drawn over a map in one colour and width
-// (pixels).
+// (pixels), solid, or dashed when Dash > 0 (dashes and gaps Dash pixels
+// long).
 type MapLines struct {
 	Segments []Segment
 	Colour   color.RGBA
 	Width    float64
+	Dash     float64
 }
 
 // maxContourLevels bounds the levels ContourLevels returns, so a tiny
@@ -180,8 +182,19 @@ func DrawMapLines(dst *image.RGBA, p image.Rectangle, nh, nv int, sets []MapLine
 		ys := make([]float64, 0, 3*len(set.Segments))
 		nan := math.NaN()
 		for _, s := range set.Segments {
-			xs = append(xs, float64(p.Min.X)+s.X0*sx, float64(p.Min.X)+s.X1*sx, nan)
-			ys = append(ys, float64(p.Min.Y)+s.Y0*sy, float64(p.Min.Y)+s.Y1*sy, nan)
+			x0, y0 := float64(p.Min.X)+s.X0*sx, float64(p.Min.Y)+s.Y0*sy
+			x1, y1 := float64(p.Min.X)+s.X1*sx, float64(p.Min.Y)+s.Y1*sy
+			l := math.Hypot(x1-x0, y1-y0)
+			if set.Dash <= 0 || l <= set.Dash {
+				xs = append(xs, x0, x1, nan)
+				ys = append(ys, y0, y1, nan)
+				continue
+			}
+			for a := 0.0; a < l; a += 2 * set.Dash {
+				b := math.Min(a+set.Dash, l)
+				xs = append(xs, x0+(x1-x0)*a/l, x0+(x1-x0)*b/l, nan)
+				ys = append(ys, y0+(y1-y0)*a/l, y0+(y1-y0)*b/l, nan)
+			}
 		}
 		w := set.Width
 		if !(w > 0) {

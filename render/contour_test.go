@@ -200,3 +200,15 @@ func TestDrawMapLines(t *testing.T) {
 		t.Errorf("pixel outside the map rectangle is %v", c)
 	}
 }
+
+// A dashed line alternates Dash pixels of ink and Dash pixels of gap.
+func TestDrawMapLinesDashed(t *testing.T) {
+	img := image.NewRGBA(image.Rect(0, 0, 100, 20))
+	DrawMapLines(img, img.Bounds(), 100, 20, []MapLines{{Segments: []Segment{{0, 10.5, 100, 10.5}}, Colour: color.RGBA{0, 0, 255, 255}, Width: 1, Dash: 10}})
+	for x := 0; x < 100; x++ {
+		inked := img.RGBAAt(x, 10).B > 100
+		if (x%20 >= 1 && x%20 <= 8) != inked && x%20 >= 1 && x%20 <= 8 || x%20 >= 11 && x%20 <= 18 && inked {
+			t.Fatalf("pixel %d: inked %v, want dashes on [0,10) and gaps on [10,20) of every 20 pixels", x, inked)
+		}
+	}
+}

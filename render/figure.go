@@ -349,7 +349,18 @@ func (f Figure) Draw() (*image.RGBA, error) {
 		nh, nv, _ := f.cells()
 		DrawMapLines(img, p, nh, nv, f.Lines)
 		if f.Ground != nil {
-			drawGroundGrid(img, tf, *f.Ground, p, nh, nv)
+			var avoid []image.Rectangle
+			if f.Geo != nil {
+				for _, b := range geoLabelBoxes(tf, *f.Geo, p) {
+					if !b.Empty() {
+						avoid = append(avoid, b.Inset(-2))
+					}
+				}
+			}
+			if !lay.North.Empty() {
+				avoid = append(avoid, lay.North.Inset(-2))
+			}
+			drawGroundGrid(img, tf, *f.Ground, p, nh, nv, avoid)
 		}
 	} else {
 		drawSection(img, p, f.Base, f.Overlay, f.Wiggle, f.View)

@@ -22,9 +22,12 @@ type GroundGrid struct {
 	SpacingM float64
 }
 
-// gridInk is the colour of the ground grid: a dark grey drawn thin, so it
-// reads over every palette without hiding the data.
-var gridInk = color.RGBA{40, 40, 40, 200}
+// gridInk is the colour of the ground grid: a light grey, dashed and thin,
+// apart from the contours (dark, solid) and readable over dark palettes.
+var gridInk = color.RGBA{235, 235, 235, 190}
+
+// gridDash is the length in pixels of the ground grid's dashes and gaps.
+const gridDash = 6
 
 // valid reports whether g maps cells onto a non-degenerate ground grid.
 func (g GroundGrid) valid() bool {
@@ -126,17 +129,19 @@ func clipLine(a, b, c, w, h float64) (Segment, bool) {
 
 // drawGroundGrid draws g's lines over the map in p (nh x nv cells) with a
 // label at the end of each line that lies lower or, on a tie, further
-// right, inside the map on a white box.
-func drawGroundGrid(img *image.RGBA, tf typeface, g GroundGrid, p image.Rectangle, nh, nv int) {
+// right, inside the map on a white box; a label that would overlap one of
+// avoid (the corner labels, the north arrow) or an earlier one is left
+// out.
+func drawGroundGrid(img *image.RGBA, tf typeface, g GroundGrid, p image.Rectangle, nh, nv int, avoid []image.Rectangle) {
 	segs, labels := g.GroundLines(nh, nv)
 	if len(segs) == 0 {
 		return
 	}
-	DrawMapLines(img, p, nh, nv, []MapLines{{Segments: segs, Colour: gridInk, Width: 1}})
+	DrawMapLines(img, p, nh, nv, []MapLines{{Segments: segs, Colour: gridInk, Width: 1.2, Dash: gridDash}})
 	sx, sy := float64(p.Dx())/float64(nh), float64(p.Dy())/float64(nv)
 	asc := tf.label.Metrics().Ascent.Ceil()
 	desc := tf.label.Metrics().Descent.Ceil()
-	var placed []image.Rectangle
+	placed := append([]image.Rectangle(nil), avoid...)
 	for i, s := range segs {
 		x, y := s.X1, s.Y1
 		if s.Y0 > s.Y1 || (s.Y0 == s.Y1 && s.X0 > s.X1) {
@@ -170,6 +175,7 @@ func drawGroundGrid(img *image.RGBA, tf typeface, g GroundGrid, p image.Rectangl
 		}
 		placed = append(placed, box)
 		fillRect(img, box, pageColour)
+		strokeRect(img, box, frameColour)
 		drawText(img, tf.label, inkColour, labels[i], (box.Min.X+box.Max.X)/2, box.Max.Y-desc-2, anchorCentre)
 	}
 }
