@@ -87,6 +87,7 @@ type mapPanel struct {
 	stripsVol survey
 	shownMap  *horizon.AttributeMap // the values shown, inline-major
 	shownTop  *horizon.Horizon      // the surface they were made along
+	madeFor   survey                // the survey the map was asked for
 	content0  mapContent            // the content last drawn
 	outline   []render.Segment
 	outlineOf survey
@@ -444,6 +445,12 @@ func (p *mapPanel) request() {
 		return
 	}
 	h := p.hz.H
+	if p.madeFor != v.vol {
+		// Another survey: nothing made for the one before applies.
+		p.shownMap, p.shownTop, p.strips, p.stripsVol = nil, nil, nil, nil
+		p.view.setMessage("Computing the map…")
+	}
+	p.madeFor = v.vol
 	switch {
 	case v.vol == nil:
 		p.fail("No survey is open")
@@ -583,6 +590,9 @@ func (p *mapPanel) mapContentNow() (mapContent, error) {
 	if m == nil || p.hz == nil || p.shownTop == nil || v.vol == nil {
 		return mapContent{}, fmt.Errorf("no map is shown")
 	}
+	if m.Inlines != v.info.Inline.Count || m.Crosslines != v.info.Crossline.Count {
+		return mapContent{}, fmt.Errorf("the map was made for another survey")
+	}
 	pal, err := palettes.ByName(p.paletteName())
 	if err != nil {
 		return mapContent{}, err
@@ -685,12 +695,17 @@ func drawMap(c mapContent, w, h int) (*image.RGBA, image.Rectangle, error) {
 }
 
 // refreshMarks places the section's line and the pick on the map from the
-// data the window shows.
+// data the window shows. The window calls it whenever the navigation
+// changes, also when another survey is opened: then the map is asked for
+// again (the horizon may not fit the new survey's grid).
 func (p *mapPanel) refreshMarks() {
 	if p == nil || !p.open {
 		return
 	}
 	v := p.v
+	if p.madeFor != v.vol {
+		p.request()
+	}
 	lineRow, lineCol, pc, pr := math.NaN(), math.NaN(), math.NaN(), math.NaN()
 	inlines, crosslines := surveyNumbers(v.info)
 	if d := v.data.amp; d != nil {
