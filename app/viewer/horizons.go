@@ -20,6 +20,46 @@ type namedHorizon struct {
 	H      *horizon.Horizon // nil until something is tracked or loaded
 	// Hidden keeps the horizon off the sections (it stays in the list).
 	Hidden bool
+
+	// seeds are the seed points placed since the last tracking: the next
+	// tracking grows from them (horizonedit.go).
+	seeds []horizon.Seed
+	// undo holds the states before the last trackings and erases, oldest
+	// first, at most maxUndo of them.
+	undo []horizonState
+}
+
+// horizonState is what an undo brings back: the surface and the seeds
+// waiting to be tracked.
+type horizonState struct {
+	h     *horizon.Horizon
+	seeds []horizon.Seed
+	what  string // the edit it undoes: "tracking", "erase", "load"
+}
+
+// maxUndo is how many edits of one horizon can be undone.
+const maxUndo = 16
+
+// replace makes h the horizon's surface after an edit called what, keeping
+// the state before it for undo, and sets the waiting seeds.
+func (n *namedHorizon) replace(h *horizon.Horizon, seeds []horizon.Seed, what string) {
+	n.undo = append(n.undo, horizonState{h: n.H, seeds: n.seeds, what: what})
+	if len(n.undo) > maxUndo {
+		n.undo = append(n.undo[:0:0], n.undo[len(n.undo)-maxUndo:]...)
+	}
+	n.H, n.seeds = h, seeds
+}
+
+// undoLast brings back the state before the last edit and says which edit
+// it undid ("" when there was none).
+func (n *namedHorizon) undoLast() string {
+	if len(n.undo) == 0 {
+		return ""
+	}
+	last := n.undo[len(n.undo)-1]
+	n.undo = n.undo[:len(n.undo)-1]
+	n.H, n.seeds = last.h, last.seeds
+	return last.what
 }
 
 // horizonList is the window's horizons, in the order the user added them,
@@ -59,12 +99,14 @@ func (l *horizonList) current() *namedHorizon {
 }
 
 // horizonColours are the colours offered to new horizons in turn: strong,
-// well-separated hues that stand out on grey and on colour palettes.
+// well-separated hues that stand out on grey and on colour palettes (green
+// first: it is in none of the default palettes, and the picked trace's line
+// is yellow).
 var horizonColours = [...]color.NRGBA{
-	{R: 0xff, G: 0xd0, B: 0x00, A: 0xff}, // yellow
-	{R: 0x00, G: 0xe0, B: 0xff, A: 0xff}, // cyan
-	{R: 0xff, G: 0x30, B: 0xc0, A: 0xff}, // magenta
 	{R: 0x40, G: 0xff, B: 0x40, A: 0xff}, // green
+	{R: 0xff, G: 0x30, B: 0xc0, A: 0xff}, // magenta
+	{R: 0x00, G: 0xe0, B: 0xff, A: 0xff}, // cyan
+	{R: 0xff, G: 0xd0, B: 0x00, A: 0xff}, // yellow
 	{R: 0xff, G: 0x80, B: 0x20, A: 0xff}, // orange
 	{R: 0x90, G: 0x60, B: 0xff, A: 0xff}, // violet
 }
@@ -97,6 +139,15 @@ func (l *horizonList) named(name string) bool {
 		}
 	}
 	return false
+}
+
+// clear removes every horizon (a new survey has another grid).
+func (l *horizonList) clear() {
+	if len(l.items) == 0 {
+		return
+	}
+	l.items, l.active = nil, -1
+	l.notify()
 }
 
 // remove deletes horizon h from the list; the active horizon becomes its

@@ -490,7 +490,7 @@ func TestMapLoadsHorizonFile(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := horizon.Write(f, src.Picks(surveyLayout(v.vol, v.info))); err != nil {
+	if err := horizon.Write(f, src.Picks(layoutOf(t, v))); err != nil {
 		t.Fatal(err)
 	}
 	f.Close()
@@ -521,4 +521,14 @@ func TestMapPalettesAreOurs(t *testing.T) {
 			t.Errorf("palette choice %q: %v", n, err)
 		}
 	}
+}
+
+// layoutOf is the survey's numbering for horizon files.
+func layoutOf(t *testing.T, v *viewer) horizon.Layout {
+	t.Helper()
+	src, err := newSurveySource(v.vol, v.state.Offset)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return src.layout()
 }

@@ -4,7 +4,6 @@ import (
 	"bufio"
 	"context"
 	"fmt"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -12,10 +11,8 @@ import (
 	"fyne.io/fyne/v2/dialog"
 	"fyne.io/fyne/v2/storage"
 
-	"quadtrace/app/figure"
 	"quadtrace/app/outfile"
 	"quadtrace/compute/horizon"
-	"quadtrace/segy"
 )
 
 // Files of the map view: horizon files read into the window's list (and
@@ -29,61 +26,18 @@ const (
 	mapFigureDPI                    = 200
 )
 
-// surveyLayout numbers and places the survey's grid for horizon and map
-// files: its inline and crossline ranges, with the bins' coordinates where
-// the survey has them.
-func surveyLayout(vol survey, info segy.Info) horizon.Layout {
-	inlines, crosslines := surveyNumbers(info)
-	step := func(r segy.Range) int {
-		if r.Step == 0 {
-			return 1
-		}
-		return r.Step
-	}
-	l := horizon.Layout{
-		Inlines: len(inlines), Crosslines: len(crosslines),
-		FirstInline: info.Inline.Min, InlineStep: step(info.Inline),
-		FirstCrossline: info.Crossline.Min, CrosslineStep: step(info.Crossline),
-	}
-	if located, ok := vol.(figure.Located); ok {
-		l.XY = func(il, xl int) (float64, float64) {
-			x, y, _ := located.Coordinates(inlines[il], crosslines[xl])
-			return x, y
-		}
-	}
-	return l
-}
-
-// readHorizonFile reads a horizon file onto the survey's grid.
-func readHorizonFile(path string, l horizon.Layout) (*horizon.Horizon, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	picks, err := horizon.Read(bufio.NewReader(f))
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", filepath.Base(path), err)
-	}
-	h, err := horizon.FromPicks(l, picks)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", filepath.Base(path), err)
-	}
-	return h, nil
-}
-
-// loadHorizonFile reads a horizon file in the background, adds it to the
-// window's horizons under its file name and shows its map.
+// loadHorizonFile reads a horizon file in the background (readHorizonFile,
+// as the Horizons tab), adds it to the window's horizons under its file
+// name and shows its map.
 func (v *viewer) loadHorizonFile(path string) {
 	if v.vol == nil {
 		v.showError("Open a survey before loading a horizon")
 		return
 	}
-	l := surveyLayout(v.vol, v.info)
-	vol := v.vol
+	offset := v.state.Offset
 	v.setBusy(v.ui.work, "Reading "+filepath.Base(path), 0, 0, func() { v.jobs.cancel("horizon-file"); v.setIdle(v.ui.work) })
-	v.jobs.start("horizon-file", func(j *job) {
-		h, err := readHorizonFile(path, l)
+	v.startWithSurvey("horizon-file", func(j *job, vol survey) {
+		h, err := readHorizonFile(vol, offset, path)
 		v.onUI(j, func() {
 			v.setIdle(v.ui.work)
 			if err != nil {
@@ -91,11 +45,12 @@ func (v *viewer) loadHorizonFile(path string) {
 				return
 			}
 			if v.vol != vol {
-				v.showError(filepath.Base(path) + " was read for the survey open before")
-				return
+				return // another survey was opened meanwhile
 			}
 			nh := v.horizons.add()
-			nh.Name = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
+			if name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)); !v.horizons.named(name) {
+				nh.Name = name
+			}
 			nh.H = h
 			v.horizons.notify()
 			v.showMap(nh)
@@ -227,7 +182,12 @@ func (p *mapPanel) saveGrid(path string) {
 	if filepath.Ext(path) == "" {
 		path += ".txt"
 	}
-	l := surveyLayout(v.vol, v.info)
+	src, err := newSurveySource(v.vol, v.state.Offset)
+	if err != nil {
+		v.showError(err.Error())
+		return
+	}
+	l := src.layout()
 	inputs := p.inputs()
 	v.setBusy(v.ui.work, "Saving the map", 0, 0, func() { v.jobs.cancel("figure"); v.setIdle(v.ui.work) })
 	v.startWithSurvey("figure", func(j *job, _ survey) {

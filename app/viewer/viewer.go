@@ -123,6 +123,7 @@ type viewer struct {
 
 	// horizons are the window's horizons (see horizons.go).
 	horizons horizonList
+	hzEdit   horizonEditor // seeds, tracking, erasing (horizonedit.go)
 
 	// wantPick is the trace to pick in the next data shown (set by a change
 	// of view); history and histPos are the Back/Forward history.
@@ -256,7 +257,8 @@ func (v *viewer) setSurvey(vol survey) {
 	v.ranges = map[string][2]float32{}
 	v.state = newViewState(v.info)
 	v.wantPick, v.history, v.histPos, v.histPending = nil, nil, 0, -1
-	v.showStatus("") // errors about the survey before do not apply
+	v.resetHorizons() // horizons belong to the survey they were picked on
+	v.showStatus("")  // errors about the survey before do not apply
 	if v.info.IntervalUS <= 0 {
 		// Without a sample interval no attribute can be computed; the
 		// amplitude can still be looked at.

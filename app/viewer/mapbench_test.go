@@ -1,0 +1,107 @@
+package viewer
+
+import (
+	"context"
+	"testing"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/test"
+
+	"quadtrace/app/horizonjob"
+	"quadtrace/compute/horizon"
+	"quadtrace/compute/synth"
+)
+
+// mapBenchViewer opens the full demo survey (150 x 200 traces of 751
+// samples) in a window on the test driver and shows the map of the
+// seafloor tracked from one seed, RMS of the envelope over -10..10 ms.
+func mapBenchViewer(b *testing.B) (*viewer, *mapPanel) {
+	b.Helper()
+	cfg := synth.DefaultConfig()
+	s, err := synth.Generate(context.Background(), cfg, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	src, _, err := horizonjob.SurveySource(s)
+	if err != nil {
+		b.Fatal(err)
+	}
+	sf, _ := s.Surface(synth.SurfaceSeafloor)
+	k := 75*cfg.Crosslines + 100
+	h, err := horizon.Track(context.Background(), src, []horizon.Seed{{Inline: 75, Crossline: 100, TimeMS: float64(sf.PeakMS[k])}}, horizon.Options{Event: horizon.Peak, WindowMS: 4}, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	a := test.NewTempApp(b)
+	v := newViewer(a, Options{Demo: &cfg}, newQueuedJobs())
+	v.win.Resize(fyne.NewSize(1500, 900))
+	v.start()
+	v.jobs.wait()
+	b.Cleanup(func() {
+		v.jobs.close()
+		v.jobs.wait()
+		if v.vol != nil {
+			v.vol.Close()
+		}
+	})
+	nh := v.horizons.add()
+	nh.Name, nh.H = "Seafloor", h
+	v.horizons.notify()
+	v.showMap(nh)
+	p := v.ui.mapPanel
+	p.showPick.SetSelected(mapShowAttribute)
+	p.attrPick.SetSelected(lookup("envelope").Name)
+	p.statPick.SetSelected(statLabels[horizon.RMS-1])
+	v.jobs.wait()
+	if p.strips == nil || p.drawn == 0 {
+		b.Fatalf("no attribute map (message %q)", p.view.message)
+	}
+	return v, p
+}
+
+// BenchmarkMapStatisticChange is the time from a change of statistic to
+// the redrawn attribute map in the window (map from the kept strips,
+// figure drawn at the view's size, handed to the view), for the envelope
+// along the demo's tracked seafloor. Compare with
+// BenchmarkMapAttributeChange, which computes the attribute again.
+func BenchmarkMapStatisticChange(b *testing.B) {
+	v, p := mapBenchViewer(b)
+	strips := p.strips
+	stats := []horizon.Stat{horizon.Mean, horizon.MaxAbs, horizon.RMS, horizon.MinAbs, horizon.MeanAbs, horizon.Value}
+	i := 0
+	for b.Loop() {
+		p.statPick.SetSelected(statLabels[stats[i%len(stats)]-1])
+		v.jobs.wait()
+		i++
+	}
+	if p.strips != strips {
+		b.Fatal("a change of statistic computed the attribute again")
+	}
+}
+
+// BenchmarkMapPaletteChange is the time from a change of palette to the
+// redrawn map (the figure alone).
+func BenchmarkMapPaletteChange(b *testing.B) {
+	v, p := mapBenchViewer(b)
+	names := []string{"lumbry", "pyrrel", "lumbry-r", "slatine"}
+	i := 0
+	for b.Loop() {
+		p.palettePick.SetSelected(names[i%len(names)])
+		v.jobs.wait()
+		i++
+	}
+}
+
+// BenchmarkMapAttributeChange is the time from a change of attribute to
+// the redrawn map: the attribute computed inline by inline through the
+// survey's attribute path and the strips cut again, then the map.
+func BenchmarkMapAttributeChange(b *testing.B) {
+	v, p := mapBenchViewer(b)
+	ids := []string{"instantaneous-frequency", "envelope"}
+	i := 0
+	for b.Loop() {
+		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
+		v.jobs.wait()
+		i++
+	}
+}
