@@ -73,6 +73,13 @@ func planeHorizon(v *viewer) *namedHorizon {
 // numpy in compute/horizon (testdata/horizon/map_stats.py).
 func wholeTraceMap(t *testing.T, v *viewer, id string, h *horizon.Horizon, spec horizon.MapSpec) *horizon.AttributeMap {
 	t.Helper()
+	return wholeTraceMapCond(t, v, id, compute.Conditioning{}, h, spec)
+}
+
+// wholeTraceMapCond is wholeTraceMap with conditioning before the
+// attribute.
+func wholeTraceMapCond(t *testing.T, v *viewer, id string, cond compute.Conditioning, h *horizon.Horizon, spec horizon.MapSpec) *horizon.AttributeMap {
+	t.Helper()
 	a := lookup(id)
 	p, err := a.Resolve(nil)
 	if err != nil {
@@ -81,7 +88,7 @@ func wholeTraceMap(t *testing.T, v *viewer, id string, h *horizon.Horizon, spec 
 	inlines, _ := surveyNumbers(v.info)
 	var data [][]float32
 	for _, il := range inlines {
-		sec, err := v.vol.Attribute(context.Background(), volume.Slice{Orientation: volume.Inline, Number: il}, a, p, compute.Conditioning{}, nil)
+		sec, err := v.vol.Attribute(context.Background(), volume.Slice{Orientation: volume.Inline, Number: il}, a, p, cond, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -111,6 +118,36 @@ func sameMap(t *testing.T, what string, got, want *horizon.AttributeMap) {
 	}
 }
 
+// nearMap checks a map made on a horizon slab (the attribute on stretches
+// around the horizon) against the whole-trace map by the slab's own
+// documented agreement (compute/horizon's TestSlabMatchesWholeTraces): on
+// at least 99 % of the traces within 2 % of size, the largest absolute
+// value of the whole-trace attribute near the horizon; empty on the same
+// traces.
+func nearMap(t *testing.T, what string, got, want, size *horizon.AttributeMap) {
+	t.Helper()
+	if got == nil || len(got.Values) != len(want.Values) {
+		t.Fatalf("%s: map %v, want %d values", what, got, len(want.Values))
+	}
+	bad, n := 0, 0
+	for k := range want.Values {
+		a, e := float64(got.Values[k]), float64(want.Values[k])
+		if math.IsNaN(a) != math.IsNaN(e) {
+			t.Fatalf("%s: trace %d shows %v, horizon.Map gives %v", what, k, a, e)
+		}
+		if math.IsNaN(e) {
+			continue
+		}
+		n++
+		if math.Abs(a-e) > 0.02*float64(size.Values[k]) {
+			bad++
+		}
+	}
+	if n == 0 || bad > n/100 {
+		t.Fatalf("%s: %d of %d traces differ from the whole-trace map by more than 2 %% of the attribute's size", what, bad, n)
+	}
+}
+
 // canvasAt is the colour the map view's image shows at the centre of cell
 // coordinates (col, row) (fractional), and the exact cell coordinates of
 // that pixel's centre.
@@ -126,9 +163,11 @@ func imagePixelAt(p *mapPanel, col, row float64) (x, y int, cx, cy float64) {
 // TestMapShowsHorizonValues maps a known (plane) horizon: its time map
 // holds the horizon's times and the picture shows, at the pixels of chosen
 // cells, the palette's colour of the plane's time there (the bilinear
-// interpolation of a plane is the plane); the attribute maps equal
-// horizon.Map over the whole attribute traces, and a change of statistic
-// or of the window inside the kept strips reuses them.
+// interpolation of a plane is the plane). Attribute maps equal horizon.Map
+// over the whole attribute traces (exactly for the amplitude and for
+// conditioned attributes, within the slab's documented agreement for the
+// envelope), and a change of statistic or of the window inside what is
+// kept computes nothing again.
 func TestMapShowsHorizonValues(t *testing.T) {
 	v := openDemoViewer(t)
 	nh := planeHorizon(v)
@@ -191,18 +230,21 @@ func TestMapShowsHorizonValues(t *testing.T) {
 		t.Fatalf("only %d cells checked", checked)
 	}
 
-	// The attribute along the horizon: RMS of the envelope over -10..10 ms.
+	// The attribute along the horizon. The amplitude itself is mapped from
+	// the slab's stretches exactly as from whole traces, for every
+	// statistic; a change of statistic or of the window inside the slab
+	// computes nothing again.
 	p.showPick.SetSelected(mapShowAttribute)
-	p.attrPick.SetSelected(lookup("envelope").Name)
+	p.attrPick.SetSelected(lookup("amplitude").Name)
 	p.statPick.SetSelected(statLabels[horizon.RMS-1])
 	p.fromEntry.SetText("-10")
 	p.toEntry.SetText("10")
 	p.applyWindow()
 	v.jobs.wait()
-	sameMap(t, "envelope RMS -10..10 ms", p.shownMap, wholeTraceMap(t, v, "envelope", nh.H, horizon.MapSpec{Stat: horizon.RMS, FromMS: -10, ToMS: 10}))
-	strips := p.strips
-	if strips == nil {
-		t.Fatal("no strips kept")
+	sameMap(t, "amplitude RMS -10..10 ms", p.shownMap, wholeTraceMap(t, v, "amplitude", nh.H, horizon.MapSpec{Stat: horizon.RMS, FromMS: -10, ToMS: 10}))
+	slab, attrSlab := p.slab, p.attrSlab
+	if slab == nil || attrSlab == nil {
+		t.Fatal("no slab kept")
 	}
 	for stat := horizon.Value; stat <= horizon.MinAbs; stat++ {
 		p.statPick.SetSelected(statLabels[stat-1])
@@ -211,8 +253,8 @@ func TestMapShowsHorizonValues(t *testing.T) {
 		if stat == horizon.Value {
 			spec = horizon.MapSpec{Stat: stat}
 		}
-		sameMap(t, "envelope "+stat.String(), p.shownMap, wholeTraceMap(t, v, "envelope", nh.H, spec))
-		if p.strips != strips {
+		sameMap(t, "amplitude "+stat.String(), p.shownMap, wholeTraceMap(t, v, "amplitude", nh.H, spec))
+		if p.slab != slab || p.attrSlab != attrSlab {
 			t.Fatalf("a change of statistic to %v computed the attribute again", stat)
 		}
 	}
@@ -220,17 +262,38 @@ func TestMapShowsHorizonValues(t *testing.T) {
 	p.toEntry.SetText("4")
 	p.applyWindow()
 	v.jobs.wait()
-	if p.strips != strips {
-		t.Errorf("a window inside the kept strips computed the attribute again")
+	if p.attrSlab != attrSlab {
+		t.Errorf("a window inside the kept slab computed the attribute again")
 	}
-	sameMap(t, "envelope min-abs -30..4", p.shownMap, wholeTraceMap(t, v, "envelope", nh.H, horizon.MapSpec{Stat: horizon.MinAbs, FromMS: -30, ToMS: 4}))
-	// Another attribute is computed anew.
-	p.attrPick.SetSelected(lookup("instantaneous-frequency").Name)
+	sameMap(t, "amplitude min-abs -30..4", p.shownMap, wholeTraceMap(t, v, "amplitude", nh.H, horizon.MapSpec{Stat: horizon.MinAbs, FromMS: -30, ToMS: 4}))
+	// Another attribute is computed on the same slab (no trace read again)
+	// and agrees with the whole traces as the slab promises.
+	p.statPick.SetSelected(statLabels[horizon.RMS-1])
+	p.attrPick.SetSelected(lookup("envelope").Name)
 	v.jobs.wait()
-	if p.strips == strips {
-		t.Errorf("a change of attribute kept the envelope's strips")
+	if p.slab != slab || p.attrSlab == attrSlab {
+		t.Errorf("a change of attribute: slab kept %v, attribute kept %v", p.slab == slab, p.attrSlab == attrSlab)
 	}
-	sameMap(t, "frequency min-abs", p.shownMap, wholeTraceMap(t, v, "instantaneous-frequency", nh.H, horizon.MapSpec{Stat: horizon.MinAbs, FromMS: -30, ToMS: 4}))
+	size := wholeTraceMap(t, v, "envelope", nh.H, horizon.MapSpec{Stat: horizon.MaxAbs, FromMS: -30, ToMS: 30})
+	nearMap(t, "envelope RMS -30..4", p.shownMap, wholeTraceMap(t, v, "envelope", nh.H, horizon.MapSpec{Stat: horizon.RMS, FromMS: -30, ToMS: 4}), size)
+	// With conditioning the attribute comes from whole traces through the
+	// survey's attribute path (as the section shows it): equal to
+	// horizon.Map over those traces.
+	cond := compute.Conditioning{AGCWindowMS: 120}
+	v.state.Cond = cond
+	v.requestData()
+	v.jobs.wait()
+	if p.strips == nil {
+		t.Fatal("conditioning: the map did not follow the window's conditioning")
+	}
+	sameMap(t, "envelope RMS -30..4 after AGC", p.shownMap, wholeTraceMapCond(t, v, "envelope", cond, nh.H, horizon.MapSpec{Stat: horizon.RMS, FromMS: -30, ToMS: 4}))
+	strips := p.strips
+	p.statPick.SetSelected(statLabels[horizon.MaxAbs-1])
+	v.jobs.wait()
+	if p.strips != strips {
+		t.Errorf("conditioning: a change of statistic computed the attribute again")
+	}
+	sameMap(t, "envelope max-abs -30..4 after AGC", p.shownMap, wholeTraceMapCond(t, v, "envelope", cond, nh.H, horizon.MapSpec{Stat: horizon.MaxAbs, FromMS: -30, ToMS: 4}))
 	// A bad window is refused with its reason and the map kept.
 	p.fromEntry.SetText("abc")
 	p.applyWindow()

@@ -1,6 +1,7 @@
 package viewer
 
 import (
+	"context"
 	"fmt"
 	"image"
 	"math"
@@ -83,15 +84,23 @@ type mapPanel struct {
 	work         *progressItem
 
 	// What the map shows, and what it was made from.
-	strips    *mapStrips
+	strips    *mapStrips // conditioned attributes (whole traces)
 	stripsVol survey
-	shownMap  *horizon.AttributeMap // the values shown, inline-major
-	shownTop  *horizon.Horizon      // the surface they were made along
-	madeFor   survey                // the survey the map was asked for
-	content0  mapContent            // the content last drawn
-	outline   []render.Segment
-	outlineOf survey
-	drawn     int // maps drawn so far (tests)
+	// Unconditioned attributes: the amplitude slab along slabTop and the
+	// attribute computed on it (attrSlabKey: attribute and parameters).
+	slab        *horizon.Slab
+	slabVol     survey
+	slabTop     *horizon.Horizon
+	attrSlab    *horizon.AttributeSlab
+	attrSlabKey string
+	shownMap    *horizon.AttributeMap // the values shown, inline-major
+	shownTop    *horizon.Horizon      // the surface they were made along
+	madeFor     survey                // the survey the map was asked for
+	madeKey     string                // the attribute key it was asked with (attrKey)
+	content0    mapContent            // the content last drawn
+	outline     []render.Segment
+	outlineOf   survey
+	drawn       int // maps drawn so far (tests)
 }
 
 // showMap shows horizon h as a map beside the section (the seam the
@@ -448,6 +457,7 @@ func (p *mapPanel) request() {
 	if p.madeFor != v.vol {
 		// Another survey: nothing made for the one before applies.
 		p.shownMap, p.shownTop, p.strips, p.stripsVol = nil, nil, nil, nil
+		p.slab, p.slabVol, p.slabTop, p.attrSlab = nil, nil, nil, nil
 		p.view.setMessage("Computing the map…")
 	}
 	p.madeFor = v.vol
@@ -477,46 +487,34 @@ func (p *mapPanel) request() {
 		p.fail(err.Error())
 		return
 	}
-	strips := p.strips
-	if p.stripsVol != v.vol || !strips.serves(key, h, spec) {
-		strips = nil
-	}
-	info := v.info
-	g := horizon.Grid{Inlines: info.Inline.Count, Crosslines: info.Crossline.Count, Samples: info.Samples, DT: float64(info.IntervalUS) * 1e-6, T0: info.StartMS * 1e-3}
-	if info.IntervalUS <= 0 {
+	p.madeKey = key
+	if v.info.IntervalUS <= 0 {
 		p.fail("The survey gives no sample interval: attributes cannot be mapped")
 		return
 	}
-	inlines, _ := surveyNumbers(info)
-	offset := v.state.Offset
-	from, to := spec.FromMS, spec.ToMS
 	cancel := func() {
 		v.jobs.cancel("map")
 		v.setIdle(p.work)
 		p.view.setMessage("Map cancelled: change a setting to compute it again")
 	}
-	if strips == nil {
-		v.setBusy(p.work, "Computing "+strings.ToLower(a.Name)+" along "+p.hz.Name, 0, 0, cancel)
+	label := "Computing " + strings.ToLower(a.Name) + " along " + p.hz.Name
+	var mapper mapJob
+	var heavy bool
+	if cond.IsZero() {
+		mapper, heavy = p.slabMaker(h, spec, a, params, key)
+	} else {
+		mapper, heavy = p.stripsMaker(h, spec, a, params, cond, key)
+	}
+	if heavy {
+		v.setBusy(p.work, label, 0, 0, cancel)
 	}
 	v.startWithSurvey("map", func(j *job, vol survey) {
-		if strips == nil {
-			var thr progressThrottle
-			var err error
-			strips, err = computeStrips(j.ctx, g, key, h, spec.Base, from, to, surveyInlines(vol, inlines, offset, a, params, cond), func(done, total int) {
-				if thr.due(done, total) {
-					v.onUI(j, func() {
-						v.setBusy(p.work, "Computing "+strings.ToLower(a.Name)+" along "+p.hz.Name, done, total, cancel)
-					})
-				}
-			})
-			if err != nil {
-				if j.ctx.Err() == nil {
-					v.onUI(j, func() { v.setIdle(p.work); p.fail(err.Error()) })
-				}
-				return
+		var thr progressThrottle
+		m, keep, err := mapper(j.ctx, vol, func(done, total int) {
+			if thr.due(done, total) {
+				v.onUI(j, func() { v.setBusy(p.work, label, done, total, cancel) })
 			}
-		}
-		m, err := strips.mapOf(j.ctx, spec)
+		})
 		if j.ctx.Err() != nil {
 			return
 		}
@@ -526,11 +524,114 @@ func (p *mapPanel) request() {
 				p.fail(err.Error())
 				return
 			}
-			p.strips, p.stripsVol = strips, vol
+			keep()
 			p.shownMap, p.shownTop = m, h
 			p.render()
 		})
 	})
+}
+
+// slabMaker returns the job that maps an unconditioned attribute along h
+// through compute/horizon's slab: the amplitude read once around the
+// horizon (kept while the horizon, the window's reach and the attribute's
+// margin allow), the attribute computed on its stretches (kept per
+// attribute and parameters), and the map made from that (a change of
+// statistic or window only runs AttributeSlab.Map). Inside the window the
+// slab's attribute agrees with the whole traces' (horizon.SlabMarginMS,
+// TestSlabMatchesWholeTraces); the amplitude itself is identical.
+func (p *mapPanel) slabMaker(h *horizon.Horizon, spec horizon.MapSpec, a *compute.Attribute, params compute.Params, key string) (mapJob, bool) {
+	v := p.v
+	above, below := float64(stripMarginMS), float64(stripMarginMS)
+	if spec.Stat != horizon.Value {
+		above, below = math.Max(above, -spec.FromMS), math.Max(below, spec.ToMS)
+		if spec.Base != nil {
+			below = math.Max(below, maxThicknessMS(h, spec.Base)+spec.ToMS)
+		}
+	}
+	margin := horizon.SlabMarginMS(a, params)
+	slab, attrSlab := p.slab, p.attrSlab
+	if slab != nil {
+		ss := slab.Spec()
+		if p.slabVol != v.vol || p.slabTop != h || ss.AboveMS < above || ss.BelowMS < below || ss.MarginMS < margin {
+			slab, attrSlab = nil, nil
+		}
+	}
+	if attrSlab != nil && p.attrSlabKey != key {
+		attrSlab = nil
+	}
+	offset := v.state.Offset
+	heavy := slab == nil || attrSlab == nil
+	run := func(ctx context.Context, vol survey, progress func(int, int)) (*horizon.AttributeMap, func(), error) {
+		if slab == nil {
+			src, err := newSurveySource(vol, offset)
+			if err != nil {
+				return nil, nil, err
+			}
+			// Room to widen the window without reading the traces again.
+			ss := horizon.SlabSpec{AboveMS: above + stripMarginMS/2, BelowMS: below + stripMarginMS/2, MarginMS: margin}
+			if slab, err = horizon.NewSlab(ctx, src, h, ss, progress); err != nil {
+				return nil, nil, err
+			}
+		}
+		if attrSlab == nil {
+			var err error
+			if attrSlab, err = slab.Attribute(ctx, a, params); err != nil {
+				return nil, nil, err
+			}
+		}
+		m, err := attrSlab.Map(spec)
+		return m, func() {
+			p.slab, p.slabVol, p.slabTop = slab, vol, h
+			p.attrSlab, p.attrSlabKey = attrSlab, key
+		}, err
+	}
+	return run, heavy
+}
+
+// mapJob makes a map in a job: the map, and a function the UI goroutine
+// runs to keep what was computed for the next change.
+type mapJob func(ctx context.Context, vol survey, progress func(done, total int)) (*horizon.AttributeMap, func(), error)
+
+// maxThicknessMS is the largest time from top down to base over the
+// traces both pick (0 when none).
+func maxThicknessMS(top, base *horizon.Horizon) float64 {
+	t := 0.0
+	for k, s := range top.State {
+		if s != horizon.Empty && base.State[k] != horizon.Empty {
+			if d := base.TimeMS[k] - top.TimeMS[k]; d > t {
+				t = d
+			}
+		}
+	}
+	return t
+}
+
+// stripsMaker returns the job that maps a conditioned attribute along h:
+// the attribute computed on whole traces through the survey's attribute
+// path (the one the sections use, conditioning included), inline by
+// inline, and kept as strips around the horizon (mapdata.go).
+func (p *mapPanel) stripsMaker(h *horizon.Horizon, spec horizon.MapSpec, a *compute.Attribute, params compute.Params, cond compute.Conditioning, key string) (mapJob, bool) {
+	v := p.v
+	strips := p.strips
+	if p.stripsVol != v.vol || !strips.serves(key, h, spec) {
+		strips = nil
+	}
+	info := v.info
+	g := horizon.Grid{Inlines: info.Inline.Count, Crosslines: info.Crossline.Count, Samples: info.Samples, DT: float64(info.IntervalUS) * 1e-6, T0: info.StartMS * 1e-3}
+	inlines, _ := surveyNumbers(info)
+	offset := v.state.Offset
+	heavy := strips == nil
+	return func(ctx context.Context, vol survey, progress func(int, int)) (*horizon.AttributeMap, func(), error) {
+		if strips == nil {
+			var err error
+			strips, err = computeStrips(ctx, g, key, h, spec.Base, spec.FromMS, spec.ToMS, surveyInlines(vol, inlines, offset, a, params, cond), progress)
+			if err != nil {
+				return nil, nil, err
+			}
+		}
+		m, err := strips.mapOf(ctx, spec)
+		return m, func() { p.strips, p.stripsVol = strips, vol }, err
+	}, heavy
 }
 
 // fail shows why there is no map.
@@ -696,8 +797,10 @@ func drawMap(c mapContent, w, h int) (*image.RGBA, image.Rectangle, error) {
 
 // refreshMarks places the section's line and the pick on the map from the
 // data the window shows. The window calls it whenever the navigation
-// changes, also when another survey is opened: then the map is asked for
-// again (the horizon may not fit the new survey's grid).
+// changes, also when another survey is opened or the data are shown with
+// other parameters or conditioning: then the map is asked for again (the
+// horizon may not fit the new survey's grid; an attribute map follows the
+// window's parameters and conditioning).
 func (p *mapPanel) refreshMarks() {
 	if p == nil || !p.open {
 		return
@@ -705,6 +808,11 @@ func (p *mapPanel) refreshMarks() {
 	v := p.v
 	if p.madeFor != v.vol {
 		p.request()
+	} else if p.set.attribute {
+		// The window's parameters or conditioning of the attribute changed.
+		if _, _, _, key, err := p.attrSetup(); err == nil && key != p.madeKey {
+			p.request()
+		}
 	}
 	lineRow, lineCol, pc, pr := math.NaN(), math.NaN(), math.NaN(), math.NaN()
 	inlines, crosslines := surveyNumbers(v.info)
