@@ -53,7 +53,7 @@ func mapBenchViewer(b *testing.B) (*viewer, *mapPanel) {
 	p.attrPick.SetSelected(lookup("envelope").Name)
 	p.statPick.SetSelected(statLabels[horizon.RMS-1])
 	v.jobs.wait()
-	if p.strips == nil || p.drawn == 0 {
+	if p.attrSlab == nil || p.drawn == 0 {
 		b.Fatalf("no attribute map (message %q)", p.view.message)
 	}
 	return v, p
@@ -66,7 +66,7 @@ func mapBenchViewer(b *testing.B) (*viewer, *mapPanel) {
 // BenchmarkMapAttributeChange, which computes the attribute again.
 func BenchmarkMapStatisticChange(b *testing.B) {
 	v, p := mapBenchViewer(b)
-	strips := p.strips
+	kept := p.attrSlab
 	stats := []horizon.Stat{horizon.Mean, horizon.MaxAbs, horizon.RMS, horizon.MinAbs, horizon.MeanAbs, horizon.Value}
 	i := 0
 	for b.Loop() {
@@ -74,7 +74,7 @@ func BenchmarkMapStatisticChange(b *testing.B) {
 		v.jobs.wait()
 		i++
 	}
-	if p.strips != strips {
+	if p.attrSlab != kept {
 		b.Fatal("a change of statistic computed the attribute again")
 	}
 }
@@ -93,15 +93,39 @@ func BenchmarkMapPaletteChange(b *testing.B) {
 }
 
 // BenchmarkMapAttributeChange is the time from a change of attribute to
-// the redrawn map: the attribute computed inline by inline through the
-// survey's attribute path and the strips cut again, then the map.
+// the redrawn map: the attribute computed on the slab's stretches around
+// the horizon (the amplitude is not read again), then the map.
 func BenchmarkMapAttributeChange(b *testing.B) {
 	v, p := mapBenchViewer(b)
+	ids := []string{"instantaneous-frequency", "envelope"}
+	i := 0
+	slab := p.slab
+	for b.Loop() {
+		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
+		v.jobs.wait()
+		i++
+	}
+	if p.slab != slab {
+		b.Fatal("a change of attribute read the traces again")
+	}
+}
+
+// BenchmarkMapConditionedAttributeChange is BenchmarkMapAttributeChange
+// with conditioning (AGC) on: the attribute of whole traces through the
+// survey's attribute path, inline by inline, as the sections show it.
+func BenchmarkMapConditionedAttributeChange(b *testing.B) {
+	v, p := mapBenchViewer(b)
+	v.state.Cond.AGCWindowMS = 200
+	p.request()
+	v.jobs.wait()
 	ids := []string{"instantaneous-frequency", "envelope"}
 	i := 0
 	for b.Loop() {
 		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
 		v.jobs.wait()
 		i++
+	}
+	if p.strips == nil {
+		b.Fatal("no whole-trace strips")
 	}
 }
