@@ -595,3 +595,35 @@ func layoutOf(t *testing.T, v *viewer) horizon.Layout {
 	}
 	return src.layout()
 }
+
+// A horizon without picks, or on another grid than the survey's, shows why
+// there is no map instead of one; opening another survey closes the map
+// (its horizons belong to the survey they were picked on).
+func TestMapRefusesWhatDoesNotFit(t *testing.T) {
+	v := openDemoViewer(t)
+	empty := v.horizons.add()
+	v.showMap(empty)
+	v.jobs.wait()
+	p := v.ui.mapPanel
+	if !strings.Contains(p.view.message, "no picks") || p.shownMap != nil {
+		t.Errorf("empty horizon: message %q", p.view.message)
+	}
+	wrong := v.horizons.add()
+	wrong.H = horizon.New(v.info.Inline.Count+1, v.info.Crossline.Count)
+	v.horizons.notify()
+	v.showMap(wrong)
+	v.jobs.wait()
+	if !strings.Contains(p.view.message, "grid") || p.shownMap != nil {
+		t.Errorf("horizon on another grid: message %q", p.view.message)
+	}
+	v.showMap(planeHorizon(v))
+	v.jobs.wait()
+	if p.shownMap == nil || p.view.message != "" {
+		t.Fatalf("plane horizon not mapped: %q", p.view.message)
+	}
+	v.openDemo()
+	v.jobs.wait()
+	if p.open {
+		t.Errorf("the map stays open on a new survey")
+	}
+}
