@@ -25,13 +25,19 @@ import (
 // crosslines x 120 samples at 4 ms) on fyne's test driver.
 func openDemoViewer(t *testing.T) *viewer {
 	t.Helper()
-	a := test.NewTempApp(t)
-	demo := synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3}
-	v := newViewer(a, Options{Demo: &demo}, newQueuedJobs())
+	return startDemoViewer(t, synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3})
+}
+
+// startDemoViewer starts a viewer on the demo survey of cfg in a 1500 x 900
+// window on fyne's test driver and waits until it is shown.
+func startDemoViewer(tb testing.TB, cfg synth.Config) *viewer {
+	tb.Helper()
+	a := test.NewTempApp(tb)
+	v := newViewer(a, Options{Demo: &cfg}, newQueuedJobs())
 	v.win.Resize(fyne.NewSize(1500, 900))
 	v.start()
 	v.jobs.wait()
-	t.Cleanup(func() {
+	tb.Cleanup(func() {
 		v.jobs.close()
 		v.jobs.wait()
 		if v.vol != nil {
@@ -39,7 +45,7 @@ func openDemoViewer(t *testing.T) *viewer {
 		}
 	})
 	if v.vol == nil {
-		t.Fatalf("demo survey not open: %q", v.ui.message.Text)
+		tb.Fatalf("demo survey not open: %q", v.ui.message.Text)
 	}
 	return v
 }

@@ -4,9 +4,6 @@ import (
 	"context"
 	"testing"
 
-	"fyne.io/fyne/v2"
-	"fyne.io/fyne/v2/test"
-
 	"quadtrace/app/horizonjob"
 	"quadtrace/compute/horizon"
 	"quadtrace/compute/synth"
@@ -32,18 +29,7 @@ func mapBenchViewer(b *testing.B) (*viewer, *mapPanel) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	a := test.NewTempApp(b)
-	v := newViewer(a, Options{Demo: &cfg}, newQueuedJobs())
-	v.win.Resize(fyne.NewSize(1500, 900))
-	v.start()
-	v.jobs.wait()
-	b.Cleanup(func() {
-		v.jobs.close()
-		v.jobs.wait()
-		if v.vol != nil {
-			v.vol.Close()
-		}
-	})
+	v := startDemoViewer(b, cfg)
 	nh := v.horizons.add()
 	nh.Name, nh.H = "Seafloor", h
 	v.horizons.notify()

@@ -62,20 +62,31 @@ func (v *viewer) loadHorizonFile(path string) {
 // showHorizonFileDialog asks for a horizon file to load and map.
 func (v *viewer) showHorizonFileDialog() {
 	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if err != nil {
-			v.showError(err.Error())
-			return
+		if path, ok := v.chosenPath(r, err); ok {
+			v.loadHorizonFile(path)
 		}
-		if r == nil {
-			return
-		}
-		path := r.URI().Path()
-		r.Close()
-		v.loadHorizonFile(path)
 	}, v.win)
 	d.SetFilter(storage.NewExtensionFileFilter([]string{".txt", ".TXT"}))
 	d.Resize(fyne.NewSize(900, 600))
 	d.Show()
+}
+
+// chosenPath is the path a file dialog answered with: an error is shown,
+// a dismissed dialog (nil) gives false.
+func (v *viewer) chosenPath(uc interface {
+	URI() fyne.URI
+	Close() error
+}, err error) (string, bool) {
+	if err != nil {
+		v.showError(err.Error())
+		return "", false
+	}
+	if uc == nil {
+		return "", false
+	}
+	path := uc.URI().Path()
+	uc.Close()
+	return path, true
 }
 
 func (p *mapPanel) showLoadDialog() { p.v.showHorizonFileDialog() }
@@ -84,16 +95,9 @@ func (p *mapPanel) showLoadDialog() { p.v.showHorizonFileDialog() }
 func (p *mapPanel) showSaveDialog(name string, exts []string, save func(path string)) {
 	v := p.v
 	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
-		if err != nil {
-			v.showError(err.Error())
-			return
+		if path, ok := v.chosenPath(wc, err); ok {
+			save(path)
 		}
-		if wc == nil {
-			return
-		}
-		path := wc.URI().Path()
-		wc.Close()
-		save(path)
 	}, v.win)
 	d.SetFileName(name)
 	if dir := v.app.Preferences().String(prefFigureFolder); dir != "" {
