@@ -56,7 +56,12 @@ func planeTime(il, xl float64) float64 { return 150 + 3*il + 2*xl }
 
 // planeHorizon adds the plane horizon to the window's list, empty on every
 // ninth trace.
-func planeHorizon(v *viewer) *namedHorizon {
+func planeHorizon(v *viewer) *namedHorizon { return planeHorizonBelow(v, "Plane", 0) }
+
+// planeHorizonBelow adds the plane horizon moved down by shiftMS, named
+// name (made whole before it enters the list: surfaces in the list are
+// never changed in place).
+func planeHorizonBelow(v *viewer, name string, shiftMS float64) *namedHorizon {
 	h := horizon.New(v.info.Inline.Count, v.info.Crossline.Count)
 	for il := range h.Inlines {
 		for xl := range h.Crosslines {
@@ -64,11 +69,11 @@ func planeHorizon(v *viewer) *namedHorizon {
 			if k%9 == 4 {
 				continue
 			}
-			h.TimeMS[k], h.Quality[k], h.State[k] = planeTime(float64(il), float64(xl)), 1, horizon.Tracked
+			h.TimeMS[k], h.Quality[k], h.State[k] = planeTime(float64(il), float64(xl))+shiftMS, 1, horizon.Tracked
 		}
 	}
 	nh := v.horizons.add()
-	nh.Name, nh.H = "Plane", h
+	nh.Name, nh.H = name, h
 	v.horizons.notify()
 	return nh
 }
@@ -313,12 +318,7 @@ func TestMapShowsHorizonValues(t *testing.T) {
 func TestMapBetweenHorizons(t *testing.T) {
 	v := openDemoViewer(t)
 	top := planeHorizon(v)
-	base := planeHorizon(v)
-	base.Name = "Deeper"
-	for k := range base.H.TimeMS {
-		base.H.TimeMS[k] += 24
-	}
-	v.horizons.notify()
+	base := planeHorizonBelow(v, "Deeper", 24)
 	v.showMap(top)
 	p := v.ui.mapPanel
 	p.showPick.SetSelected(mapShowAttribute)

@@ -407,11 +407,10 @@ func (p *mapPanel) horizonsChanged() {
 		p.set.base = nil
 	}
 	p.refreshControls()
-	if p.strips != nil && (p.strips.top != p.hz.H || p.strips.base != p.baseH()) || p.content0.values == nil || p.shownTop != p.hz.H {
-		p.request()
-	} else {
-		p.render() // a name or colour changed
-	}
+	// Asked for again: what is kept (keyed by the surfaces, which are
+	// replaced, never changed in place) serves when only a name or a
+	// colour changed.
+	p.request()
 }
 
 // baseH is the base horizon's surface, nil without one.
