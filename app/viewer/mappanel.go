@@ -71,7 +71,7 @@ type mapPanel struct {
 	set     mapSettings
 
 	heading      *widget.Label
-	showPick     *widget.RadioGroup
+	showPick     *widget.Select
 	attrPick     *widget.Select
 	statPick     *widget.Select
 	fromEntry    *widget.Entry
@@ -152,19 +152,14 @@ func newMapPanel(v *viewer) *mapPanel {
 	p.heading = widget.NewLabel("")
 	p.heading.TextStyle.Bold = true
 	p.heading.Truncation = fyne.TextTruncateEllipsis
-	p.showPick = widget.NewRadioGroup([]string{mapShowTime, mapShowAttribute}, func(s string) {
-		if s == "" {
-			p.showPick.SetSelected(mapShowTime) // one is always chosen
-			return
-		}
-		if a := s == mapShowAttribute; a != p.set.attribute {
+	p.showPick = widget.NewSelect([]string{mapShowTime, mapShowAttribute}, func(s string) {
+		if a := s == mapShowAttribute; s != "" && a != p.set.attribute {
 			p.set.attribute = a
 			p.set.palette = ""
 			p.refreshControls()
 			p.request()
 		}
 	})
-	p.showPick.Horizontal = true
 	var names []string
 	for _, a := range compute.Attributes() {
 		names = append(names, a.Name)
@@ -232,7 +227,8 @@ func newMapPanel(v *viewer) *mapPanel {
 		widget.NewLabel("Palette"), p.palettePick,
 		p.contourCheck, container.NewBorder(nil, nil, nil, widget.NewLabel("ms"), p.contourEntry),
 	)
-	buttons := container.NewHBox(load, saveFig, saveGrid, closeBtn)
+	// Two by two, so that the panel stays narrow beside the section.
+	buttons := container.NewGridWithColumns(2, load, saveFig, saveGrid, closeBtn)
 	top := container.NewVBox(p.heading, form, buttons)
 	bottom := container.NewVBox(p.work.box, p.readout)
 	p.content = container.NewBorder(top, bottom, nil, nil, p.view)
