@@ -19,7 +19,8 @@ func northDisc(tf typeface, p image.Rectangle) image.Rectangle {
 }
 
 // geoLabelBoxes returns the boxes of the corner labels of g inside the map
-// rectangle p (empty where a corner has no label), in Corners order.
+// rectangle p (empty where a corner has no label, or where it would
+// overlap another), in Corners order.
 func geoLabelBoxes(tf typeface, g MapGeo, p image.Rectangle) [4]image.Rectangle {
 	fs := float64(tf.label.Metrics().Height.Ceil())
 	asc := tf.label.Metrics().Ascent.Ceil()
@@ -44,6 +45,13 @@ func geoLabelBoxes(tf typeface, g MapGeo, p image.Rectangle) [4]image.Rectangle 
 		}
 		out[k] = image.Rect(x0, y0, x0+w+2*pad, y0+asc+desc+2*pad)
 	}
+	// On a small map the labels would overlap: keep the top-left and
+	// bottom-left ones, then the others that fit.
+	for _, pair := range [][2]int{{2, 0}, {1, 0}, {3, 2}, {3, 1}} {
+		if out[pair[0]].Overlaps(out[pair[1]]) {
+			out[pair[0]] = image.Rectangle{}
+		}
+	}
 	return out
 }
 
@@ -56,7 +64,7 @@ func drawGeo(img *image.RGBA, tf typeface, g MapGeo, p, disc image.Rectangle) {
 	pad := int(fs * 0.3)
 	boxes := geoLabelBoxes(tf, g, p)
 	label := func(k int) {
-		if g.Corners[k] == "" {
+		if g.Corners[k] == "" || boxes[k].Empty() {
 			return
 		}
 		box := boxes[k]

@@ -229,9 +229,15 @@ func newMapPanel(v *viewer) *mapPanel {
 	)
 	// Two by two, so that the panel stays narrow beside the section.
 	buttons := container.NewGridWithColumns(2, load, saveFig, saveGrid, closeBtn)
-	top := container.NewVBox(p.heading, form, buttons)
+	// The controls scroll when the panel is made narrow or short, so that
+	// they never push the window wider than the screen.
+	top := container.NewVScroll(container.NewVBox(p.heading, form, buttons))
+	top.SetMinSize(fyne.NewSize(0, 150))
+	controls := container.NewHScroll(top)
 	bottom := container.NewVBox(p.work.box, p.readout)
-	p.content = container.NewBorder(top, bottom, nil, nil, p.view)
+	split := container.NewVSplit(controls, container.NewBorder(nil, bottom, nil, nil, p.view))
+	split.Offset = 0.35
+	p.content = split
 	return p
 }
 
