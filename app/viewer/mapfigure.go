@@ -87,11 +87,12 @@ func (c mapContent) figure(w, h int) (render.Figure, error) {
 	}
 	if c.contourMS > 0 && c.times != nil {
 		lo, hi := render.PercentileRange(c.times, 100, false)
+		// Every level in one set: one rasterisation for all of them.
+		set := contourInk
 		for _, level := range render.ContourLevels(float64(lo), float64(hi), c.contourMS) {
-			set := contourInk
-			set.Segments = render.Contours(c.times, level)
-			f.Lines = append(f.Lines, set)
+			set.Segments = append(set.Segments, render.Contours(c.times, level)...)
 		}
+		f.Lines = append(f.Lines, set)
 	}
 	if len(c.outline) > 0 {
 		set := outlineInk
