@@ -189,20 +189,7 @@ func firstOr(pos []string) string {
 // readHorizon reads a horizon file onto the survey's grid; errors name
 // the file and the line.
 func readHorizon(path string, l horizon.Layout) (*horizon.Horizon, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	picks, err := horizon.Read(f)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	h, err := horizon.FromPicks(l, picks)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	return h, nil
+	return horizonjob.ReadFile(path, l)
 }
 
 // Map runs `quadtrace map`: it maps an attribute along a horizon (its value
@@ -211,7 +198,8 @@ func readHorizon(path string, l horizon.Layout) (*horizon.Horizon, error) {
 // (.png).
 func Map(args []string, stdout, stderr io.Writer) int {
 	c := newCommand("map", "(FILE | --demo) --horizon HORIZON.txt --attribute ID --out MAP.png|MAP.txt [options]", `Maps an attribute along a tracked horizon (or in a window around it, or
-between two horizons) and writes the map as a text grid or a PNG figure.`, stdout, stderr)
+between two horizons) and writes the map as a text grid or a PNG figure
+(legend, scale bar, north arrow and the survey's outline).`, stdout, stderr)
 	fs := c.fs
 	var demo bool
 	var out, top, base string

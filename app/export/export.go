@@ -10,6 +10,7 @@ import (
 	"strings"
 	"time"
 
+	"quadtrace/app/indexcache"
 	"quadtrace/app/outfile"
 	"quadtrace/compute"
 	"quadtrace/segy"
@@ -45,8 +46,9 @@ type plan struct {
 	// followLinks writes at the target of a destination that is a
 	// symbolic link (refused otherwise, see app/outfile)
 	followLinks bool
-	source      Source // when set, read instead of opening input
-	stem        string // names outputs in a folder; "" takes input's stem
+	indices     *indexcache.Cache // geometry index cache (nil: none)
+	source      Source            // when set, read instead of opening input
+	stem        string            // names outputs in a folder; "" takes input's stem
 }
 
 // fileSource is a SEG-Y file opened by the export as a Source.
@@ -113,7 +115,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 			return nil, err
 		}
 		win = &windowReader{r: fh}
-		f, err := segy.OpenReaderAtContext(ctx, win, st.Size(), p.input, p.options)
+		f, err := openExact(ctx, win, st.Size(), p.input, p.options, p.indices)
 		if err != nil {
 			return nil, err
 		}
@@ -244,6 +246,31 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, err
 	}
 	return dsts, nil
+}
+
+// openExact opens the export's input with an exact geometry index, which
+// the outputs' textual headers record (source grid, which join checks):
+// from the geometry cache when it holds this file version's index (no
+// trace header read but the few it verifies), else from every trace
+// header, as segy.Open does, and then saved in the cache. The export reads
+// every trace afterwards anyway; a sampled hypothesis is never used here.
+func openExact(ctx context.Context, r io.ReaderAt, size int64, name string, opt segy.Options, indices *indexcache.Cache) (*segy.File, error) {
+	if indices == nil {
+		return segy.OpenReaderAtContext(ctx, r, size, name, opt)
+	}
+	fo := indices.Lookup(name, opt)
+	fo.ReadAll = true
+	f, err := segy.OpenReaderAtFast(ctx, r, size, name, opt, fo)
+	if err != nil {
+		return nil, err
+	}
+	if f.IndexSource() != segy.IndexSaved {
+		// best effort: without the entry the next export reads every header again
+		if ch, err := f.Check(ctx, nil); err == nil {
+			indices.Store(name, opt, ch.Index)
+		}
+	}
+	return f, nil
 }
 
 // destinations returns the output path of each stage: output itself for a

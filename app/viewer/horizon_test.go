@@ -34,18 +34,7 @@ func horizonDemo() synth.Config {
 func openHorizonViewer(t *testing.T) (*viewer, *synth.Survey) {
 	t.Helper()
 	cfg := horizonDemo()
-	a := test.NewTempApp(t)
-	v := newViewer(a, Options{Demo: &cfg}, newQueuedJobs())
-	v.win.Resize(fyne.NewSize(1400, 900))
-	t.Cleanup(func() {
-		v.jobs.close()
-		v.jobs.wait()
-		if v.vol != nil {
-			v.vol.Close()
-		}
-	})
-	v.start()
-	v.jobs.wait()
+	v := openDemoViewer(t, cfg, fyne.NewSize(1400, 900))
 	if v.data.amp == nil {
 		t.Fatalf("the demo survey shows nothing; status %q", v.ui.message.Text)
 	}
@@ -54,6 +43,17 @@ func openHorizonViewer(t *testing.T) (*viewer, *synth.Survey) {
 		t.Fatal(err)
 	}
 	return v, s
+}
+
+// openDemoViewer starts a viewer of the given size on the fyne test driver
+// with the demo survey of cfg, and waits until its jobs are done.
+func openDemoViewer(t *testing.T, cfg synth.Config, size fyne.Size) *viewer {
+	t.Helper()
+	v := newCheckViewer(t, Options{Demo: &cfg})
+	v.win.Resize(size)
+	v.start()
+	v.jobs.wait()
+	return v
 }
 
 // screenAt is the position on the section view of cell coordinates
@@ -275,6 +275,13 @@ func TestTrackFromClickedSeedsMatchesTrack(t *testing.T) {
 	if h.H.Picked() <= erased.Picked() {
 		t.Errorf("the second tracking added nothing (%d picks, %d before)", h.H.Picked(), erased.Picked())
 	}
+	// Seeds where the horizon is picked already change nothing and leave
+	// nothing to undo.
+	edits, now := len(h.undo), h.H
+	trackBySeeds(t, v, s, 9)
+	if h.H != now || len(h.undo) != edits || len(h.seeds) != 0 || !strings.Contains(v.ui.message.Text, "nothing new") {
+		t.Errorf("a tracking that adds nothing: changed %v, %d edits (were %d), status %q", h.H != now, len(h.undo), edits, v.ui.message.Text)
+	}
 }
 
 // dragBox drags, with the erase tool, from cell coordinates (t0, s0) to
@@ -295,8 +302,15 @@ func TestTrackCancelLeavesHorizon(t *testing.T) {
 	v, s := openHorizonViewer(t)
 	showLine(t, v, volume.Inline, 15)
 	h := trackBySeeds(t, v, s, 20)
+	// Erase crosslines 0 to 10 of this inline, and seed there again: a
+	// tracking from that seed would fill them.
+	v.hzEdit.panel.tool.SetSelected(toolNames[toolErase])
+	dragBox(v, 0, 0, 11, float64(len(v.data.amp.Traces[0])))
 	first := cloneHorizon(h.H)
 	firstPtr := h.H
+	if len(h.undo) != 2 {
+		t.Fatalf("%d edits after a tracking and an erase", len(h.undo))
+	}
 	clickSeed(t, v, 5, seafloorPeak(t, s, 15, 5)+1)
 	seeds := append([]horizon.Seed(nil), h.seeds...)
 	for _, drain := range []int{0, 1, 3} {
@@ -324,8 +338,8 @@ func TestTrackCancelLeavesHorizon(t *testing.T) {
 	test.Tap(v.hzEdit.panel.track)
 	test.Tap(v.hzEdit.panel.track)
 	v.jobs.wait()
-	if len(h.undo) != 2 || h.undo[1].h != firstPtr {
-		t.Fatalf("two runs in a row made %d undo entries", len(h.undo))
+	if len(h.undo) != 3 || h.undo[2].h != firstPtr || h.H.Picked() != first.Picked()+11 {
+		t.Fatalf("two runs in a row made %d edits, %d picks from %d", len(h.undo)-2, h.H.Picked(), first.Picked())
 	}
 }
 
@@ -588,6 +602,10 @@ func TestHorizonListEdits(t *testing.T) {
 	}
 	if err := v.renameHorizon(a, "Top sand"); err != nil || a.Name != "Top sand" {
 		t.Errorf("rename: %v, name %q", err, a.Name)
+	}
+	// Without the map view in this build there is no Map button to press.
+	if _, ok := mapViewOf(v); !ok && v.hzEdit.panel.rows[a].mapBtn.Visible() {
+		t.Error("a Map button shows with no map view")
 	}
 	test.Tap(v.hzEdit.panel.rows[a].name)
 	if v.horizons.current() != a {

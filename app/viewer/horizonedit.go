@@ -27,6 +27,10 @@ type horizonEditor struct {
 	panel    *horizonPanel
 	// running is the horizon the "horizon" lane edits, nil when idle.
 	running *namedHorizon
+	// marksPlace and marksVersion say what the marks over the section were
+	// last asked for: the view's place and the list's version (-1: none).
+	marksPlace   sectionPlace
+	marksVersion int
 }
 
 // defaultTrackOptions are the tracking settings a window starts with (the
@@ -227,6 +231,7 @@ func (v *viewer) trackActive() {
 	v.startWithSurvey(laneHorizon, func(j *job, vol survey) {
 		var thr progressThrottle
 		var merged *horizon.Horizon
+		added, picked := 0, 0
 		src, err := newSurveySource(vol, offset)
 		if err == nil {
 			var h *horizon.Horizon
@@ -236,7 +241,8 @@ func (v *viewer) trackActive() {
 				}
 			})
 			if err == nil {
-				merged = mergeHorizons(start, h)
+				merged, added = mergeHorizons(start, h)
+				picked = merged.Picked()
 			}
 		}
 		if j.ctx.Err() != nil {
@@ -253,8 +259,16 @@ func (v *viewer) trackActive() {
 				v.showStatus(target.Name + " changed while it was tracked: its tracking was dropped")
 				return
 			}
-			target.replace(merged, nil, "tracking")
-			v.showStatus(fmt.Sprintf("Tracked %s: %d traces picked", target.Name, merged.Picked()))
+			if added == 0 {
+				// The seeds lie where the horizon is picked already:
+				// nothing changes (another reflector needs a new horizon).
+				target.seeds = nil
+				v.showStatus(fmt.Sprintf("Tracked %s: nothing new, its seeds lie on traces it has picked already (use a new horizon for another reflector)", target.Name))
+				v.horizons.notify()
+				return
+			}
+			target.replace(merged, picked, nil, "tracking")
+			v.showStatus(fmt.Sprintf("Tracked %s: %d traces added, %d picked in all", target.Name, added, picked))
 			v.horizons.notify()
 		})
 	})
@@ -272,18 +286,22 @@ func (v *viewer) cancelHorizonJob() {
 }
 
 // mergeHorizons returns a new horizon holding the picks of old and, where
-// old has none, those of fresh (old may be nil).
-func mergeHorizons(old, fresh *horizon.Horizon) *horizon.Horizon {
+// old has none, those of fresh (old may be nil), with the number of picks
+// fresh added.
+func mergeHorizons(old, fresh *horizon.Horizon) (*horizon.Horizon, int) {
 	out := cloneHorizon(fresh)
 	if old == nil || old.Inlines != fresh.Inlines || old.Crosslines != fresh.Crosslines {
-		return out
+		return out, out.Picked()
 	}
+	added := 0
 	for k, s := range old.State {
 		if s != horizon.Empty {
 			out.TimeMS[k], out.Quality[k], out.State[k] = old.TimeMS[k], old.Quality[k], s
+		} else if out.State[k] != horizon.Empty {
+			added++
 		}
 	}
-	return out
+	return out, added
 }
 
 // cloneHorizon returns a copy of h that shares nothing with it.
@@ -366,6 +384,10 @@ func (v *viewer) eraseBoxAt(t0, s0, t1, s1 float64) {
 	v.setBusy(v.hzEdit.progress, "Erasing in "+target.Name, 0, 0, v.cancelHorizonJob)
 	v.jobs.start(laneHorizon, func(j *job) {
 		h, keep, n := eraseIn(start, seeds, b)
+		picked := 0
+		if h != nil {
+			picked = h.Picked()
+		}
 		v.onUI(j, func() {
 			v.hzEdit.running = nil
 			v.setIdle(v.hzEdit.progress)
@@ -376,7 +398,7 @@ func (v *viewer) eraseBoxAt(t0, s0, t1, s1 float64) {
 				v.showStatus("Nothing of " + target.Name + " in that box")
 				return
 			}
-			target.replace(h, keep, "erase")
+			target.replace(h, picked, keep, "erase")
 			v.showStatus(fmt.Sprintf("Erased %d picks and seeds of %s", n, target.Name))
 			v.horizons.notify()
 		})

@@ -2,10 +2,10 @@ package viewer
 
 import (
 	"fmt"
-	"os"
 	"path/filepath"
 	"strings"
 
+	"quadtrace/app/horizonjob"
 	"quadtrace/app/outfile"
 	"quadtrace/compute/horizon"
 )
@@ -75,6 +75,10 @@ func (v *viewer) loadHorizon(path string) {
 	offset := v.state.Offset
 	v.startWithSurvey("horizon-file", func(j *job, vol survey) {
 		h, err := readHorizonFile(vol, offset, path)
+		picked := 0
+		if err == nil {
+			picked = h.Picked()
+		}
 		v.onUI(j, func() {
 			if err != nil {
 				v.showError(err.Error())
@@ -83,15 +87,8 @@ func (v *viewer) loadHorizon(path string) {
 			if v.vol != vol {
 				return // another survey was opened meanwhile
 			}
-			name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
-			if v.horizons.named(name) {
-				name = v.horizons.freshName()
-			}
-			n := &namedHorizon{Name: name, Colour: horizonColours[len(v.horizons.items)%len(horizonColours)], H: h}
-			v.horizons.items = append(v.horizons.items, n)
-			v.horizons.active = len(v.horizons.items) - 1
-			v.showStatus(fmt.Sprintf("Read %s: %d traces picked", filepath.Base(path), h.Picked()))
-			v.horizons.notify()
+			v.showStatus(fmt.Sprintf("Read %s: %d traces picked", filepath.Base(path), picked))
+			v.horizons.addSurface(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)), h, picked)
 		})
 	})
 }
@@ -102,18 +99,5 @@ func readHorizonFile(vol survey, offset int, path string) (*horizon.Horizon, err
 	if err != nil {
 		return nil, err
 	}
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	picks, err := horizon.Read(f)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	h, err := horizon.FromPicks(src.layout(), picks)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	return h, nil
+	return horizonjob.ReadFile(path, src.layout())
 }

@@ -162,9 +162,15 @@ func sliceContour(h *horizon.Horizon, ms float64) [][4]float64 {
 }
 
 // requestHorizonMarks recomputes, in the background, the horizons drawn
-// over the shown view.
+// over the shown view, when the view's place or the horizons changed since
+// the last time (zooming and panning only move the marks, in the section's
+// layout).
 func (v *viewer) requestHorizonMarks() {
 	p, ok := v.place()
+	if ok && p == v.hzEdit.marksPlace && v.horizons.version == v.hzEdit.marksVersion {
+		return
+	}
+	v.hzEdit.marksPlace, v.hzEdit.marksVersion = p, v.horizons.version
 	if !ok {
 		v.ui.section.setMarks(nil)
 		return
@@ -189,6 +195,9 @@ func (v *viewer) requestHorizonMarks() {
 
 // setMarks shows the horizons' marks over the section.
 func (v *sectionView) setMarks(m []sectionMark) {
+	if len(m) == 0 && len(v.marks) == 0 {
+		return
+	}
 	v.marks = m
 	v.Refresh()
 }

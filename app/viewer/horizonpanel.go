@@ -216,11 +216,7 @@ func (p *horizonPanel) refresh() {
 	p.list.Objects = objs
 	p.list.Refresh()
 	if h := l.current(); h != nil {
-		picked := 0
-		if h.H != nil {
-			picked = h.H.Picked()
-		}
-		p.active.SetText(fmt.Sprintf("Editing %s: %d traces picked, %d seeds waiting, %d edits to undo", h.Name, picked, len(h.seeds), len(h.undo)))
+		p.active.SetText(fmt.Sprintf("Editing %s: %d traces picked, %d seeds waiting, %d edits to undo", h.Name, h.picked, len(h.seeds), len(h.undo)))
 		p.track.Enable()
 		if len(h.undo) > 0 {
 			p.undo.Enable()
@@ -329,19 +325,28 @@ func (v *viewer) chooseHorizonColour(h *namedHorizon) {
 	d.Show()
 }
 
-func (v *viewer) showHorizonSaveDialog(h *namedHorizon) {
-	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
+// chosenPath turns a file dialog's answer into a call of use with the
+// chosen path (none when the dialog was dismissed; an error is shown).
+func chosenPath[T interface {
+	URI() fyne.URI
+	Close() error
+}](v *viewer, use func(path string)) func(T, error) {
+	return func(f T, err error) {
 		if err != nil {
 			v.showError(err.Error())
 			return
 		}
-		if wc == nil {
+		if any(f) == nil {
 			return
 		}
-		path := wc.URI().Path()
-		wc.Close()
-		v.saveHorizon(h, path)
-	}, v.win)
+		path := f.URI().Path()
+		f.Close()
+		use(path)
+	}
+}
+
+func (v *viewer) showHorizonSaveDialog(h *namedHorizon) {
+	d := dialog.NewFileSave(chosenPath[fyne.URIWriteCloser](v, func(path string) { v.saveHorizon(h, path) }), v.win)
 	d.SetFileName(strings.TrimSuffix(figureFileName(h.Name), ".png") + ".txt")
 	d.SetFilter(storage.NewExtensionFileFilter([]string{".txt"}))
 	d.Resize(fyne.NewSize(900, 600))
@@ -349,18 +354,7 @@ func (v *viewer) showHorizonSaveDialog(h *namedHorizon) {
 }
 
 func (v *viewer) showHorizonOpenDialog() {
-	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if err != nil {
-			v.showError(err.Error())
-			return
-		}
-		if r == nil {
-			return
-		}
-		path := r.URI().Path()
-		r.Close()
-		v.loadHorizon(path)
-	}, v.win)
+	d := dialog.NewFileOpen(chosenPath[fyne.URIReadCloser](v, v.loadHorizon), v.win)
 	d.SetFilter(storage.NewExtensionFileFilter([]string{".txt"}))
 	d.Resize(fyne.NewSize(900, 600))
 	d.Show()
@@ -370,6 +364,7 @@ func (v *viewer) showHorizonOpenDialog() {
 // buildUI once the section view exists) and returns the Horizons tab.
 func (v *viewer) buildHorizonUI() fyne.CanvasObject {
 	v.hzEdit.opts = defaultTrackOptions()
+	v.hzEdit.marksVersion = -1
 	v.hzEdit.progress = newProgressItem()
 	s := v.ui.section
 	s.onSeed = func(trace, sample float64) {
@@ -394,5 +389,6 @@ func (v *viewer) resetHorizons() {
 	v.setIdle(v.hzEdit.progress)
 	v.hzEdit.running = nil
 	v.horizons.clear()
+	v.hzEdit.marksVersion = -1
 	v.ui.section.setMarks(nil)
 }

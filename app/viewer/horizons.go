@@ -18,6 +18,9 @@ type namedHorizon struct {
 	Name   string
 	Colour color.NRGBA
 	H      *horizon.Horizon // nil until something is tracked or loaded
+	// picked is H.Picked(), counted by the job that made H (the UI
+	// goroutine does not count).
+	picked int
 	// Hidden keeps the horizon off the sections (it stays in the list).
 	Hidden bool
 
@@ -32,22 +35,24 @@ type namedHorizon struct {
 // horizonState is what an undo brings back: the surface and the seeds
 // waiting to be tracked.
 type horizonState struct {
-	h     *horizon.Horizon
-	seeds []horizon.Seed
-	what  string // the edit it undoes: "tracking", "erase", "load"
+	h      *horizon.Horizon
+	picked int
+	seeds  []horizon.Seed
+	what   string // the edit it undoes: "tracking", "erase"
 }
 
 // maxUndo is how many edits of one horizon can be undone.
 const maxUndo = 16
 
-// replace makes h the horizon's surface after an edit called what, keeping
-// the state before it for undo, and sets the waiting seeds.
-func (n *namedHorizon) replace(h *horizon.Horizon, seeds []horizon.Seed, what string) {
-	n.undo = append(n.undo, horizonState{h: n.H, seeds: n.seeds, what: what})
+// replace makes h, with picked traces picked, the horizon's surface after
+// an edit called what, keeping the state before it for undo, and sets the
+// waiting seeds.
+func (n *namedHorizon) replace(h *horizon.Horizon, picked int, seeds []horizon.Seed, what string) {
+	n.undo = append(n.undo, horizonState{h: n.H, picked: n.picked, seeds: n.seeds, what: what})
 	if len(n.undo) > maxUndo {
 		n.undo = append(n.undo[:0:0], n.undo[len(n.undo)-maxUndo:]...)
 	}
-	n.H, n.seeds = h, seeds
+	n.H, n.picked, n.seeds = h, picked, seeds
 }
 
 // undoLast brings back the state before the last edit and says which edit
@@ -58,7 +63,7 @@ func (n *namedHorizon) undoLast() string {
 	}
 	last := n.undo[len(n.undo)-1]
 	n.undo = n.undo[:len(n.undo)-1]
-	n.H, n.seeds = last.h, last.seeds
+	n.H, n.picked, n.seeds = last.h, last.picked, last.seeds
 	return last.what
 }
 
@@ -73,6 +78,8 @@ type horizonList struct {
 	// changed are called, in order, after every change of the list, of a
 	// horizon's name, colour, visibility or surface, or of the active one.
 	changed []func()
+	// version counts the changes (notify calls).
+	version int
 }
 
 // onChange registers f to be called on the UI goroutine after every change
@@ -81,6 +88,7 @@ func (l *horizonList) onChange(f func()) { l.changed = append(l.changed, f) }
 
 // notify calls the changed callbacks; the caller is on the UI goroutine.
 func (l *horizonList) notify() {
+	l.version++
 	for _, f := range l.changed {
 		f()
 	}
@@ -113,12 +121,20 @@ var horizonColours = [...]color.NRGBA{
 
 // add appends a new, empty horizon with a fresh name and the next colour,
 // makes it the active one and announces the change.
-func (l *horizonList) add() *namedHorizon {
-	h := &namedHorizon{Name: l.freshName(), Colour: horizonColours[len(l.items)%len(horizonColours)]}
-	l.items = append(l.items, h)
+func (l *horizonList) add() *namedHorizon { return l.addSurface(l.freshName(), nil, 0) }
+
+// addSurface appends a horizon called name (a fresh name when another
+// horizon has it) with surface h (may be nil; picked traces picked) in the
+// next colour, makes it the active one and announces the change.
+func (l *horizonList) addSurface(name string, h *horizon.Horizon, picked int) *namedHorizon {
+	if name == "" || l.named(name) {
+		name = l.freshName()
+	}
+	n := &namedHorizon{Name: name, Colour: horizonColours[len(l.items)%len(horizonColours)], H: h, picked: picked}
+	l.items = append(l.items, n)
 	l.active = len(l.items) - 1
 	l.notify()
-	return h
+	return n
 }
 
 // freshName returns "Horizon N" for the smallest N no horizon is named.

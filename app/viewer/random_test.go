@@ -81,19 +81,8 @@ func TestRandomInteraction(t *testing.T) {
 		}
 		paths = append(paths, p)
 	}
-	a := test.NewTempApp(t)
 	demo := synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3}
-	v := newViewer(a, Options{Demo: &demo}, newQueuedJobs())
-	v.win.Resize(fyne.NewSize(1000, 700))
-	t.Cleanup(func() {
-		v.jobs.close()
-		v.jobs.wait()
-		if v.vol != nil {
-			v.vol.Close()
-		}
-	})
-	v.start()
-	v.jobs.wait()
+	v := openDemoViewer(t, demo, fyne.NewSize(1000, 700))
 
 	attrs := compute.Attributes()
 	hzDir := t.TempDir()
@@ -553,6 +542,9 @@ func checkHorizons(v *viewer, fail func(string, ...any)) {
 			if s.Inline < 0 || s.Inline >= v.info.Inline.Count || s.Crossline < 0 || s.Crossline >= v.info.Crossline.Count {
 				fail("%s: seed %+v off the grid", h.Name, s)
 			}
+		}
+		if h.H != nil && h.picked != h.H.Picked() || h.H == nil && h.picked != 0 {
+			fail("%s: %d picks counted, %v on the surface", h.Name, h.picked, h.H != nil)
 		}
 		if len(h.undo) > maxUndo {
 			fail("%s: %d undo entries", h.Name, len(h.undo))

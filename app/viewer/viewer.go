@@ -19,6 +19,7 @@ import (
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/app"
 
+	"quadtrace/app/indexcache"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
@@ -38,12 +39,18 @@ type Options struct {
 	// Demo, when not nil, is the size of the demo survey to generate
 	// instead of synth.DefaultConfig (tests use a small one).
 	Demo *synth.Config
+	// IndexCache keeps the geometry indices of opened files (nil: none;
+	// Run uses indexcache.Default when it is nil).
+	IndexCache *indexcache.Cache
 }
 
 // Run opens the viewer window and returns when it is closed. With
 // opt.Snapshot set it returns after writing the snapshot, or with the error
 // that prevented it.
 func Run(opt Options) error {
+	if opt.IndexCache == nil {
+		opt.IndexCache = indexcache.Default()
+	}
 	a := app.NewWithID("org.quadtrace.viewer")
 	v := newViewer(a, opt, newJobs())
 	v.start()
@@ -167,7 +174,9 @@ func (v *viewer) onUI(j *job, f func()) {
 func (v *viewer) openFile(path string) {
 	opt := v.segyOpt
 	v.startOpen(filepath.Base(path), func(ctx context.Context, progress func(int, int)) (survey, error) {
-		vol, err := volume.OpenContext(ctx, path, opt) // Cancel stops the header scan too
+		// the geometry from the cache or a sample of the headers; the full
+		// check follows in the background (startCheck)
+		vol, err := volume.OpenFast(ctx, path, opt, v.opt.IndexCache) // Cancel stops the header scan too
 		if err != nil {
 			return nil, err
 		}
@@ -248,6 +257,8 @@ func (v *viewer) keepShownSurvey() bool {
 
 // setSurvey shows a newly opened survey from its middle inline.
 func (v *viewer) setSurvey(vol survey) {
+	v.jobs.cancel("check") // of the survey shown before
+	v.setIdle(v.ui.check)
 	v.closeSurvey(v.vol)
 	v.jobs.cancel("render") // a picture of the old survey must not show up
 	v.vol = vol
@@ -276,6 +287,7 @@ func (v *viewer) setSurvey(vol survey) {
 		return
 	}
 	v.requestData()
+	v.startCheck()
 }
 
 func copyMap(m map[string]string) map[string]string {

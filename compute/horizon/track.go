@@ -64,10 +64,10 @@ type Options struct {
 	// limits of resolution of zero-phase wavelets", Geophysics 47: below
 	// tuning the picked times no longer follow the interfaces; Widess:
 	// below it the composite tends to the wavelet's derivative, whose
-	// trough and peak are equal). For a zero-phase
-	// Ricker of peak frequency f the tuning thickness is its
-	// peak-to-side-lobe time, sqrt(3/2)/(pi f) = 1/(2.565 f)
-	// (TuningThicknessMS). Peak and trough events only.
+	// trough and peak are equal). For a zero-phase Ricker of peak
+	// frequency f the tuning thickness is its peak-to-side-lobe time,
+	// sqrt(3/2)/(pi f) = 1/(2.565 f) (TuningThicknessMS). Peak and trough
+	// events only.
 	//
 	// Off by default: it stops a horizon wherever another reflection
 	// interferes, not only at a bed's pinch-out. Measured on the demo
@@ -279,20 +279,23 @@ type tracker struct {
 	needAnalytic bool
 	halfWin      float64 // search half-window, samples
 	halfCorr     int     // correlation half-window, samples
-	minSep       float64 // MinSeparationMS in samples (0: off)
-	opposite     Event   // the event of the opposite polarity (interference rule)
-	// interfereAbove and interfereBelow: the strength, relative to the
-	// pick, from which an event of the opposite polarity above or below
-	// it interferes ((r + 1) / 2, r the seeds' mean side lobe there).
-	interfereAbove, interfereBelow float64
-	span                           int // analytic stretch length, samples
-	taper                          int // samples tapered at each end of a stretch
-	quad                           *compute.Attribute
-	quadParams                     compute.Params
-	stretches                      []float32 // copies of the stretches for the analytic trace
+	span         int     // analytic stretch length, samples
+	taper        int     // samples tapered at each end of a stretch
+	quad         *compute.Attribute
+	quadParams   compute.Params
+	stretches    []float32 // copies of the stretches for the analytic trace
 	// memo holds, per trace, the last pick whose envelope and phase were
 	// computed (sample NaN when none).
 	memo []pick
+
+	// The interference rule (Options.MinSeparationMS): the separation in
+	// samples (0: off), the event of the opposite polarity, and the
+	// strength, relative to the pick, from which such an event above or
+	// below the pick interferes ((r + 1) / 2, r the seeds' mean side lobe
+	// there).
+	minSep                         float64
+	opposite                       Event
+	interfereAbove, interfereBelow float64
 }
 
 // worker holds one goroutine's buffers.
