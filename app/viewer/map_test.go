@@ -21,31 +21,14 @@ import (
 	"quadtrace/palettes"
 )
 
-// openDemoViewer starts a viewer on a small demo survey (12 inlines x 16
-// crosslines x 120 samples at 4 ms) on fyne's test driver.
-func openDemoViewer(t *testing.T) *viewer {
+// mapTestViewer starts a viewer on a small demo survey (12 inlines x 16
+// crosslines x 120 samples at 4 ms) in a 1500 x 900 window on fyne's test
+// driver (openDemoViewer).
+func mapTestViewer(t *testing.T) *viewer {
 	t.Helper()
-	return startDemoViewer(t, synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3})
-}
-
-// startDemoViewer starts a viewer on the demo survey of cfg in a 1500 x 900
-// window on fyne's test driver and waits until it is shown.
-func startDemoViewer(tb testing.TB, cfg synth.Config) *viewer {
-	tb.Helper()
-	a := test.NewTempApp(tb)
-	v := newViewer(a, Options{Demo: &cfg}, newQueuedJobs())
-	v.win.Resize(fyne.NewSize(1500, 900))
-	v.start()
-	v.jobs.wait()
-	tb.Cleanup(func() {
-		v.jobs.close()
-		v.jobs.wait()
-		if v.vol != nil {
-			v.vol.Close()
-		}
-	})
+	v := openDemoViewer(t, synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3}, fyne.NewSize(1500, 900))
 	if v.vol == nil {
-		tb.Fatalf("demo survey not open: %q", v.ui.message.Text)
+		t.Fatalf("demo survey not open: %q", v.ui.message.Text)
 	}
 	return v
 }
@@ -72,10 +55,7 @@ func planeHorizonBelow(v *viewer, name string, shiftMS float64) *namedHorizon {
 			h.TimeMS[k], h.Quality[k], h.State[k] = planeTime(float64(il), float64(xl))+shiftMS, 1, horizon.Tracked
 		}
 	}
-	nh := v.horizons.add()
-	nh.Name, nh.H = name, h
-	v.horizons.notify()
-	return nh
+	return v.horizons.addSurface(name, h, h.Picked())
 }
 
 // wholeTraceMap is horizon.Map over the survey's whole attribute traces
@@ -180,7 +160,7 @@ func imagePixelAt(p *mapPanel, col, row float64) (x, y int, cx, cy float64) {
 // envelope), and a change of statistic or of the window inside what is
 // kept computes nothing again.
 func TestMapShowsHorizonValues(t *testing.T) {
-	v := openDemoViewer(t)
+	v := mapTestViewer(t)
 	nh := planeHorizon(v)
 	v.showMap(nh)
 	v.jobs.wait()
@@ -316,7 +296,7 @@ func TestMapShowsHorizonValues(t *testing.T) {
 // TestMapBetweenHorizons maps the RMS amplitude between the plane and a
 // second horizon 24 ms deeper, against horizon.Map.
 func TestMapBetweenHorizons(t *testing.T) {
-	v := openDemoViewer(t)
+	v := mapTestViewer(t)
 	top := planeHorizon(v)
 	base := planeHorizonBelow(v, "Deeper", 24)
 	v.showMap(top)
@@ -336,7 +316,7 @@ func TestMapBetweenHorizons(t *testing.T) {
 // inline (or, on a crossline view, crossline) with the tapped trace
 // picked, at the horizon's time there.
 func TestMapClickMovesSection(t *testing.T) {
-	v := openDemoViewer(t)
+	v := mapTestViewer(t)
 	nh := planeHorizon(v)
 	v.showMap(nh)
 	v.jobs.wait()
@@ -391,7 +371,7 @@ func TestMapClickMovesSection(t *testing.T) {
 // (a row for an inline, a column for a crossline, none on a time slice)
 // and the pick a cross, both following the navigation.
 func TestMapLineFollowsNavigation(t *testing.T) {
-	v := openDemoViewer(t)
+	v := mapTestViewer(t)
 	v.showMap(planeHorizon(v))
 	v.jobs.wait()
 	p := v.ui.mapPanel
@@ -444,7 +424,7 @@ func TestMapLineFollowsNavigation(t *testing.T) {
 // TestMapContoursOfThePlane: the time contours drawn over the map lie on
 // the plane's lines of equal time (closed form), at the interval asked.
 func TestMapContoursOfThePlane(t *testing.T) {
-	v := openDemoViewer(t)
+	v := mapTestViewer(t)
 	v.showMap(planeHorizon(v))
 	v.jobs.wait()
 	p := v.ui.mapPanel
@@ -484,7 +464,7 @@ func TestMapContoursOfThePlane(t *testing.T) {
 // TestMapSaves writes the map as a figure (PNG through figure.Write) and as
 // a text grid (horizon.WriteMap's format), and reads both back.
 func TestMapSaves(t *testing.T) {
-	v := openDemoViewer(t)
+	v := mapTestViewer(t)
 	nh := planeHorizon(v)
 	v.showMap(nh)
 	v.jobs.wait()
@@ -549,7 +529,7 @@ func TestMapSaves(t *testing.T) {
 // into the window's list and maps it; a malformed one is refused naming
 // its line.
 func TestMapLoadsHorizonFile(t *testing.T) {
-	v := openDemoViewer(t)
+	v := mapTestViewer(t)
 	src := horizon.New(v.info.Inline.Count, v.info.Crossline.Count)
 	for k := range src.TimeMS {
 		src.TimeMS[k], src.Quality[k], src.State[k] = 200+float64(k%7), 0.9, horizon.Tracked
@@ -606,7 +586,7 @@ func layoutOf(t *testing.T, v *viewer) horizon.Layout {
 // there is no map instead of one; opening another survey closes the map
 // (its horizons belong to the survey they were picked on).
 func TestMapRefusesWhatDoesNotFit(t *testing.T) {
-	v := openDemoViewer(t)
+	v := mapTestViewer(t)
 	empty := v.horizons.add()
 	v.showMap(empty)
 	v.jobs.wait()
@@ -614,9 +594,7 @@ func TestMapRefusesWhatDoesNotFit(t *testing.T) {
 	if !strings.Contains(p.view.message, "no picks") || p.shownMap != nil {
 		t.Errorf("empty horizon: message %q", p.view.message)
 	}
-	wrong := v.horizons.add()
-	wrong.H = horizon.New(v.info.Inline.Count+1, v.info.Crossline.Count)
-	v.horizons.notify()
+	wrong := v.horizons.addSurface("Wrong grid", horizon.New(v.info.Inline.Count+1, v.info.Crossline.Count), 0)
 	v.showMap(wrong)
 	v.jobs.wait()
 	if !strings.Contains(p.view.message, "grid") || p.shownMap != nil {

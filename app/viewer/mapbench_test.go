@@ -4,6 +4,8 @@ import (
 	"context"
 	"testing"
 
+	"fyne.io/fyne/v2"
+
 	"quadtrace/app/horizonjob"
 	"quadtrace/compute/horizon"
 	"quadtrace/compute/synth"
@@ -29,11 +31,11 @@ func mapBenchViewer(b *testing.B) (*viewer, *mapPanel) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	v := startDemoViewer(b, cfg)
-	nh := v.horizons.add()
-	nh.Name, nh.H = "Seafloor", h
-	v.horizons.notify()
-	v.showMap(nh)
+	v := openDemoViewer(b, cfg, fyne.NewSize(1500, 900))
+	if v.vol == nil {
+		b.Fatal("demo survey not open")
+	}
+	v.showMap(v.horizons.addSurface("Seafloor", h, h.Picked()))
 	p := v.ui.mapPanel
 	p.showPick.SetSelected(mapShowAttribute)
 	p.attrPick.SetSelected(lookup("envelope").Name)

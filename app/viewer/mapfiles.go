@@ -26,67 +26,22 @@ const (
 	mapFigureDPI                    = 200
 )
 
-// loadHorizonFile reads a horizon file in the background (readHorizonFile,
-// as the Horizons tab), adds it to the window's horizons under its file
-// name and shows its map.
+// loadHorizonFile reads a horizon file in the background into the
+// window's horizons, as the Horizons tab does, and shows its map.
 func (v *viewer) loadHorizonFile(path string) {
 	if v.vol == nil {
 		v.showError("Open a survey before loading a horizon")
 		return
 	}
-	offset := v.state.Offset
-	v.setBusy(v.ui.work, "Reading "+filepath.Base(path), 0, 0, func() { v.jobs.cancel("horizon-file"); v.setIdle(v.ui.work) })
-	v.startWithSurvey("horizon-file", func(j *job, vol survey) {
-		h, err := readHorizonFile(vol, offset, path)
-		v.onUI(j, func() {
-			v.setIdle(v.ui.work)
-			if err != nil {
-				v.showError("Could not read the horizon: " + err.Error())
-				return
-			}
-			if v.vol != vol {
-				return // another survey was opened meanwhile
-			}
-			nh := v.horizons.add()
-			if name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)); !v.horizons.named(name) {
-				nh.Name = name
-			}
-			nh.H = h
-			v.horizons.notify()
-			v.showMap(nh)
-			v.showStatus(fmt.Sprintf("Read %d picks from %s", h.Picked(), path))
-		})
-	})
+	v.loadHorizonThen(path, v.showMap)
 }
 
 // showHorizonFileDialog asks for a horizon file to load and map.
 func (v *viewer) showHorizonFileDialog() {
-	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if path, ok := v.chosenPath(r, err); ok {
-			v.loadHorizonFile(path)
-		}
-	}, v.win)
+	d := dialog.NewFileOpen(chosenPath[fyne.URIReadCloser](v, v.loadHorizonFile), v.win)
 	d.SetFilter(storage.NewExtensionFileFilter([]string{".txt", ".TXT"}))
 	d.Resize(fyne.NewSize(900, 600))
 	d.Show()
-}
-
-// chosenPath is the path a file dialog answered with: an error is shown,
-// a dismissed dialog (nil) gives false.
-func (v *viewer) chosenPath(uc interface {
-	URI() fyne.URI
-	Close() error
-}, err error) (string, bool) {
-	if err != nil {
-		v.showError(err.Error())
-		return "", false
-	}
-	if uc == nil {
-		return "", false
-	}
-	path := uc.URI().Path()
-	uc.Close()
-	return path, true
 }
 
 func (p *mapPanel) showLoadDialog() { p.v.showHorizonFileDialog() }
@@ -94,11 +49,7 @@ func (p *mapPanel) showLoadDialog() { p.v.showHorizonFileDialog() }
 // showSaveDialog asks where to save, then calls save with the path.
 func (p *mapPanel) showSaveDialog(name string, exts []string, save func(path string)) {
 	v := p.v
-	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
-		if path, ok := v.chosenPath(wc, err); ok {
-			save(path)
-		}
-	}, v.win)
+	d := dialog.NewFileSave(chosenPath[fyne.URIWriteCloser](v, save), v.win)
 	d.SetFileName(name)
 	if dir := v.app.Preferences().String(prefFigureFolder); dir != "" {
 		if l, err := storage.ListerForURI(storage.NewFileURI(dir)); err == nil {

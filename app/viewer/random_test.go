@@ -243,10 +243,7 @@ func TestRandomInteraction(t *testing.T) {
 					h.TimeMS[k], h.Quality[k], h.State[k] = t0+rng.Float64()*40-20, 1, horizon.Tracked
 				}
 			}
-			nh := v.horizons.add()
-			nh.H = h
-			v.horizons.notify()
-			v.showMap(nh)
+			v.showMap(v.horizons.addSurface("", h, h.Picked()))
 		}},
 		{"map settings", func() {
 			p := v.ui.mapPanel
@@ -295,7 +292,7 @@ func TestRandomInteraction(t *testing.T) {
 				v.closeMap()
 			case len(v.horizons.all()) > 0:
 				all := v.horizons.all()
-				v.horizons.remove(all[rng.Intn(len(all))])
+				v.deleteHorizon(all[rng.Intn(len(all))]) // as the Horizons tab does
 			}
 		}},
 		{"map data", func() {
