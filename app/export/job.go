@@ -125,8 +125,8 @@ func resolveStages(ids []string, params map[string]string) ([]stage, error) {
 		p := resolved[k]
 		stages[k] = stage{
 			id: a.ID, name: a.Name, params: strings.ReplaceAll(p.Encode(), ",", " "),
-			compute: func(ctx context.Context, in compute.Section) (compute.Section, error) {
-				return a.Compute(ctx, in, p, nil)
+			compute: func(ctx context.Context, in, out compute.Section) error {
+				return a.ComputeInto(ctx, in, out, p, nil)
 			},
 		}
 	}
