@@ -63,6 +63,11 @@ type survey interface {
 	Trace(inline, crossline, offset int) ([]float32, error)
 	Attribute(ctx context.Context, s volume.Slice, a *compute.Attribute, p compute.Params, cond compute.Conditioning, progress func(done, total int)) (volume.Section, error)
 	TraceAttribute(ctx context.Context, inline, crossline, offset int, a *compute.Attribute, p compute.Params, cond compute.Conditioning) ([]float32, error)
+	// AttributeSoFar is a time slice of an attribute as far as it is
+	// computed (pending cells marked), without waiting.
+	AttributeSoFar(s volume.Slice, a *compute.Attribute, p compute.Params, cond compute.Conditioning) (volume.Section, bool)
+	// SetFocus says where the view is, so whole-volume work starts there.
+	SetFocus(inline, crossline, sample int)
 	// WriteDemo writes the in-memory demo survey as SEG-Y (an error for a file).
 	WriteDemo(ctx context.Context, path string, opt segy.WriteOptions) error
 }
