@@ -22,3 +22,9 @@ func freeBytes(dir string) (int64, bool) {
 	}
 	return int64(st.Bavail) * int64(st.Bsize), true
 }
+
+// evict drops f's pages from the page cache (posix_fadvise
+// POSIX_FADV_DONTNEED; needs no privilege).
+func evict(f interface{ Fd() uintptr }) error {
+	return unix.Fadvise(int(f.Fd()), 0, 0, unix.FADV_DONTNEED)
+}
