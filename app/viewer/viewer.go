@@ -44,6 +44,7 @@ type Options struct {
 // opt.Snapshot set it returns after writing the snapshot, or with the error
 // that prevented it.
 func Run(opt Options) error {
+	limitWindowMemory()
 	a := app.NewWithID("org.quadtrace.viewer")
 	v := newViewer(a, opt, newJobs())
 	v.start()
@@ -252,6 +253,7 @@ func (v *viewer) setSurvey(vol survey) {
 	v.closeSurvey(v.vol)
 	v.jobs.cancel("render") // a picture of the old survey must not show up
 	v.vol = vol
+	limitSurveyMemory(vol)
 	v.info = vol.Info()
 	v.data = shown{}
 	v.cache.clear()

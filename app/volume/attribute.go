@@ -209,7 +209,7 @@ func (v *Volume) SetBrickOptions(opt bricks.Options, memory, amplitudeFrom int64
 func (v *Volume) LimitBrickMemory(n int64) {
 	v.attrs.mu.Lock()
 	defer v.attrs.mu.Unlock()
-	if v.attrs.memory == 0 || n < v.attrs.memory {
+	if cur, err := v.attrs.bound(); err != nil || n < cur {
 		v.attrs.memory = n
 		v.attrs.cache = nil
 	}
