@@ -28,6 +28,7 @@ import (
 	"os"
 	"path/filepath"
 	"sync"
+	"sync/atomic"
 	"unsafe"
 
 	"quadtrace/app/outfile"
@@ -387,42 +388,80 @@ func (s *Store) TimeSlice(k int) (grid [][]float32, pending [][]bool, err error)
 			pending[i] = flags[i*nx : (i+1)*nx : (i+1)*nx]
 		}
 	}
-	e, e2 := s.edge, s.edge*s.edge
-	z, zk := k/e, k%e
-	plane := make([]float32, e2)
+	z := k / s.edge
 	nan := float32(math.NaN())
 	s.fileMu.RLock()
 	defer s.fileMu.RUnlock()
 	if s.file == nil {
 		return nil, nil, fmt.Errorf("%s: %w", s.name, os.ErrClosed)
 	}
+	var todo []int
 	for t, st := range state {
-		tl := s.tile(t)
-		if st != filled {
-			for i := tl.I0; i < tl.I1; i++ {
-				for x := tl.X0; x < tl.X1; x++ {
-					grid[i][x] = nan
-					pending[i][x] = true
-				}
-			}
+		if st == filled {
+			todo = append(todo, t)
 			continue
 		}
-		src := plane
-		if b := s.resident(t*s.ntz + z); b != nil {
-			src = b[zk*e2 : (zk+1)*e2]
-		} else {
-			// only the rows of the plane the tile uses
-			n := ((tl.I1-tl.I0-1)*e + (tl.X1 - tl.X0)) * 4
-			off := int64(t)*s.columnBytes + (int64(z)*int64(s.brickFloats)+int64(zk*e2))*4
-			if _, err := s.file.ReadAt(floatBytes(plane)[:n], off); err != nil {
-				return nil, nil, fmt.Errorf("%s: reading the brick file at byte %d: %w", s.name, off, err)
+		tl := s.tile(t)
+		for i := tl.I0; i < tl.I1; i++ {
+			for x := tl.X0; x < tl.X1; x++ {
+				grid[i][x] = nan
+				pending[i][x] = true
 			}
 		}
-		for i := tl.I0; i < tl.I1; i++ {
-			copy(grid[i][tl.X0:tl.X1], src[(i-tl.I0)*e:(i-tl.I0)*e+tl.X1-tl.X0])
-		}
+	}
+	// Planes not resident are read by several goroutines at once, so the
+	// disk has many requests in flight when the brick file is not cached;
+	// each tile fills its own cells of grid.
+	var next atomic.Int64
+	errs := make([]error, min(planeReaders, len(todo)))
+	var wg sync.WaitGroup
+	for w := range errs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			plane := make([]float32, s.edge*s.edge)
+			for {
+				n := int(next.Add(1) - 1)
+				if n >= len(todo) {
+					return
+				}
+				if err := s.copyPlane(grid, todo[n], z, k%s.edge, plane); err != nil {
+					errs[w] = err
+					return
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	if err := errors.Join(errs...); err != nil {
+		return nil, nil, err
 	}
 	return grid, pending, nil
+}
+
+// planeReaders is how many goroutines read the planes of a time slice.
+const planeReaders = 8
+
+// copyPlane copies plane zk of brick layer z of filled tile t into grid,
+// from the resident brick or the file (through buf). s.fileMu is held.
+func (s *Store) copyPlane(grid [][]float32, t, z, zk int, buf []float32) error {
+	e, e2 := s.edge, s.edge*s.edge
+	tl := s.tile(t)
+	src := buf
+	if b := s.resident(t*s.ntz + z); b != nil {
+		src = b[zk*e2 : (zk+1)*e2]
+	} else {
+		// only the rows of the plane the tile uses
+		n := ((tl.I1-tl.I0-1)*e + (tl.X1 - tl.X0)) * 4
+		off := int64(t)*s.columnBytes + (int64(z)*int64(s.brickFloats)+int64(zk*e2))*4
+		if _, err := s.file.ReadAt(floatBytes(buf)[:n], off); err != nil {
+			return fmt.Errorf("%s: reading the brick file at byte %d: %w", s.name, off, err)
+		}
+	}
+	for i := tl.I0; i < tl.I1; i++ {
+		copy(grid[i][tl.X0:tl.X1], src[(i-tl.I0)*e:(i-tl.I0)*e+tl.X1-tl.X0])
+	}
+	return nil
 }
 
 // Inline returns the traces of inline index i (one per crossline), from

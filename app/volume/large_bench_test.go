@@ -3,6 +3,7 @@ package volume
 import (
 	"context"
 	"os"
+	"sync"
 	"testing"
 	"time"
 
@@ -45,68 +46,90 @@ func evictFile(b *testing.B, path string) {
 	}
 }
 
+// largeRun is a large file opened, with its first time slice of one
+// attribute taken: the testing package calls a benchmark function once
+// with b.N = 1 before the measured run, and the first slice (minutes) must
+// not be taken twice. Kept for the test process's life.
+type largeRun struct {
+	v                *Volume
+	a                *compute.Attribute
+	p                compute.Params
+	first, firstPart time.Duration
+}
+
+var (
+	largeMu   sync.Mutex
+	largeRuns = map[string]*largeRun{}
+)
+
 // largeSlices measures the first time slice of attribute id on the large
 // file (reported as first-s, with first-part-ms: when the first progress
 // beyond zero came), then each later one at another sample, the file
 // evicted before each. coldStores also evicts the volume's own stores.
 func largeSlices(b *testing.B, id string, coldStores bool) {
 	path := largeFile(b)
-	evictFile(b, path)
-	v, err := Open(path, segy.Options{})
-	if err != nil {
-		b.Fatal(err)
-	}
-	defer v.Close()
-	a, err := compute.Lookup(id)
-	if err != nil {
-		b.Fatal(err)
-	}
-	p, err := a.Resolve(nil)
-	if err != nil {
-		b.Fatal(err)
-	}
-	ns := v.Info().Samples
-	ctx := context.Background()
-	slice := func(k int, progress func(done, total int)) {
-		s := Slice{Orientation: TimeSlice, Number: k}
-		var sec Section
-		var err error
-		if id == "amplitude" {
-			sec, err = v.Read(ctx, s)
-		} else {
-			sec, err = v.Attribute(ctx, s, a, p, compute.Conditioning{}, progress)
-		}
+	largeMu.Lock()
+	r := largeRuns[id]
+	largeMu.Unlock()
+	if r == nil {
+		evictFile(b, path)
+		v, err := Open(path, segy.Options{})
 		if err != nil {
 			b.Fatal(err)
 		}
-		if len(sec.Traces) != v.Info().Inline.Count {
-			b.Fatalf("time slice of %d rows, want %d", len(sec.Traces), v.Info().Inline.Count)
+		r = &largeRun{v: v}
+		if r.a, err = compute.Lookup(id); err != nil {
+			b.Fatal(err)
 		}
+		if r.p, err = r.a.Resolve(nil); err != nil {
+			b.Fatal(err)
+		}
+		evictFile(b, path)
+		start := time.Now()
+		largeSlice(b, r, v.Info().Samples/2, func(done, total int) {
+			if done > 0 && r.firstPart == 0 {
+				r.firstPart = time.Since(start)
+			}
+		})
+		r.first = time.Since(start)
+		largeMu.Lock()
+		largeRuns[id] = r
+		largeMu.Unlock()
 	}
-	evictFile(b, path)
-	start := time.Now()
-	var firstPart time.Duration
-	slice(ns/2, func(done, total int) {
-		if done > 0 && firstPart == 0 {
-			firstPart = time.Since(start)
-		}
-	})
-	first := time.Since(start)
+	ns := r.v.Info().Samples
 	b.ResetTimer()
 	for i := range b.N {
 		b.StopTimer()
 		evictFile(b, path)
 		if coldStores {
-			evictStores(b, v)
+			evictStores(b, r.v)
 		}
 		k := (ns/2 + 37*(i+1)) % ns // another sample, mostly another brick layer
 		b.StartTimer()
-		slice(k, nil)
+		largeSlice(b, r, k, nil)
 	}
 	b.StopTimer()
-	b.ReportMetric(first.Seconds(), "first-s")
-	if firstPart > 0 {
-		b.ReportMetric(float64(firstPart.Milliseconds()), "first-part-ms")
+	b.ReportMetric(r.first.Seconds(), "first-s")
+	if r.firstPart > 0 {
+		b.ReportMetric(float64(r.firstPart.Milliseconds()), "first-part-ms")
+	}
+}
+
+// largeSlice takes the time slice at sample k of r's attribute.
+func largeSlice(b *testing.B, r *largeRun, k int, progress func(done, total int)) {
+	s := Slice{Orientation: TimeSlice, Number: k}
+	var sec Section
+	var err error
+	if r.a.ID == "amplitude" {
+		sec, err = r.v.Read(context.Background(), s)
+	} else {
+		sec, err = r.v.Attribute(context.Background(), s, r.a, r.p, compute.Conditioning{}, progress)
+	}
+	if err != nil {
+		b.Fatal(err)
+	}
+	if len(sec.Traces) != r.v.Info().Inline.Count {
+		b.Fatalf("time slice of %d rows, want %d", len(sec.Traces), r.v.Info().Inline.Count)
 	}
 }
 
@@ -115,7 +138,9 @@ func largeSlices(b *testing.B, id string, coldStores bool) {
 func BenchmarkLargeAmplitudeSlice(b *testing.B) { largeSlices(b, "amplitude", false) }
 
 // BenchmarkLargeAmplitudeSliceColdStore: the same with the volume's own
-// store evicted too (as if it were larger than the page cache as well).
+// store evicted too (as if it were larger than the page cache as well);
+// it shares the opened volume and first slice with
+// BenchmarkLargeAmplitudeSlice when both run in one process.
 func BenchmarkLargeAmplitudeSliceColdStore(b *testing.B) { largeSlices(b, "amplitude", true) }
 
 // BenchmarkLargeEnvelopeSlice: later envelope time slices of the large
