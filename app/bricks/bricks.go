@@ -150,7 +150,7 @@ func New(name string, shape Shape, fill FillFunc, cache *Cache, opt Options) (*S
 		return nil, fmt.Errorf("%s: cache folder: %w", name, err)
 	}
 	if free, ok := freeBytes(dir); ok && free < need {
-		return nil, fmt.Errorf("%s: cache folder %s has %s free, the store needs %s", name, dir, sizeText(free), sizeText(need))
+		return nil, fmt.Errorf("%s: cache folder %s has %.2f GiB free, the store needs %.2f GiB", name, dir, float64(free)/(1<<30), float64(need)/(1<<30))
 	}
 	f, err := outfile.ScratchIn(dir, "quadtrace-bricks-*.f32")
 	if err != nil {
@@ -601,16 +601,6 @@ func floatBytes(xs []float32) []byte {
 func ceilDiv(a, b int) int { return (a + b - 1) / b }
 
 func sq(x float64) float64 { return x * x }
-
-func sizeText(n int64) string {
-	switch {
-	case n >= 1<<30:
-		return fmt.Sprintf("%.1f GiB", float64(n)/(1<<30))
-	case n >= 1<<20:
-		return fmt.Sprintf("%.1f MiB", float64(n)/(1<<20))
-	}
-	return fmt.Sprintf("%d bytes", n)
-}
 
 // Evict drops the store's file from the page cache and its bricks from
 // memory, so the next reads come from the disk: for benchmarks of a cold

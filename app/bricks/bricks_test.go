@@ -4,12 +4,12 @@ import (
 	"context"
 	"errors"
 	"math"
-	"os"
-	"path/filepath"
 	"strings"
 	"sync"
 	"testing"
 	"time"
+
+	"quadtrace/app/apptest"
 )
 
 // value is the test volume's sample (i, x, z): every sample distinct, so
@@ -347,19 +347,7 @@ func TestCancelAnyMomentLeavesNothing(t *testing.T) {
 			t.Errorf("time slice of a closed store: %v", err)
 		}
 	}
-	entries, err := os.ReadDir(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, e := range entries {
-		t.Errorf("left behind in the cache folder: %s", e.Name())
-	}
-	fds, _ := os.ReadDir("/proc/self/fd")
-	for _, fd := range fds {
-		if target, err := os.Readlink(filepath.Join("/proc/self/fd", fd.Name())); err == nil && strings.HasPrefix(target, dir) {
-			t.Errorf("file still open in the cache folder: %s", target)
-		}
-	}
+	apptest.NoLeftovers(t, dir)
 }
 
 // TestNoRoomRefused: a store larger than the cache folder's free space is

@@ -4,14 +4,13 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
-	"strings"
 	"sync"
 	"sync/atomic"
 	"testing"
 	"time"
 
+	"quadtrace/app/apptest"
 	"quadtrace/app/bricks"
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
@@ -339,16 +338,7 @@ func TestCancelAnyMomentNoLeftovers(t *testing.T) {
 		cancel()
 		v.Close()
 	}
-	entries, _ := os.ReadDir(dir)
-	for _, e := range entries {
-		t.Errorf("left in the cache folder: %s", e.Name())
-	}
-	fds, _ := os.ReadDir("/proc/self/fd")
-	for _, fd := range fds {
-		if target, err := os.Readlink(filepath.Join("/proc/self/fd", fd.Name())); err == nil && strings.HasPrefix(target, dir) {
-			t.Errorf("still open in the cache folder: %s", target)
-		}
-	}
+	apptest.NoLeftovers(t, dir)
 }
 
 // TestRepeatedSurveyFile: a survey written three times over has three
