@@ -14,10 +14,10 @@
 // Samples are stored in the machine's own byte order: the file is read only
 // by the process that wrote it.
 //
-// Bricks read for sections, and the ones just filled, stay resident in a
-// Cache shared by the stores of a survey and bounded in bytes (least
-// recently used first out). Time slices read only their planes, from
-// resident bricks or from the file, and keep nothing.
+// The bricks just filled stay resident in a Cache shared by the stores of
+// a survey and bounded in bytes (least recently used first out); sections
+// are read from resident bricks only. Time slices read only their planes,
+// from resident bricks or from the file, and keep nothing.
 package bricks
 
 import (
@@ -465,7 +465,8 @@ func (s *Store) copyPlane(grid [][]float32, t, z, zk int, buf []float32) error {
 }
 
 // Inline returns the traces of inline index i (one per crossline), from
-// the bricks; ok is false when a column it crosses is not filled yet.
+// resident bricks; ok is false when a brick it crosses is not filled or
+// not resident (the caller computes the section instead).
 func (s *Store) Inline(i int) (traces [][]float32, ok bool, err error) {
 	if i < 0 || i >= s.shape.Inlines {
 		return nil, false, fmt.Errorf("%s: inline index %d is outside 0 to %d", s.name, i, s.shape.Inlines-1)
@@ -475,7 +476,8 @@ func (s *Store) Inline(i int) (traces [][]float32, ok bool, err error) {
 }
 
 // Crossline returns the traces of crossline index x (one per inline), from
-// the bricks; ok is false when a column it crosses is not filled yet.
+// resident bricks; ok is false when a brick it crosses is not filled or
+// not resident.
 func (s *Store) Crossline(x int) (traces [][]float32, ok bool, err error) {
 	if x < 0 || x >= s.shape.Crosslines {
 		return nil, false, fmt.Errorf("%s: crossline index %d is outside 0 to %d", s.name, x, s.shape.Crosslines-1)
@@ -485,7 +487,9 @@ func (s *Store) Crossline(x int) (traces [][]float32, ok bool, err error) {
 }
 
 // section gathers n traces; trace k lies in tile tileOf(k) at position
-// at(k) of each brick plane.
+// at(k) of each brick plane. Only resident bricks are read: one row of a
+// brick is 1/64 of it, so reading bricks from the file for a section would
+// cost more than computing the section from its traces.
 func (s *Store) section(n int, tileOf, at func(k int) int) ([][]float32, bool, error) {
 	s.mu.Lock()
 	for k := 0; k < n; k += s.edge {
@@ -495,15 +499,22 @@ func (s *Store) section(n int, tileOf, at func(k int) int) ([][]float32, bool, e
 		}
 	}
 	s.mu.Unlock()
-	ns, e2 := s.shape.Samples, s.edge*s.edge
-	traces := rows(make([]float32, n*ns), n, ns)
+	var bricks [][]float32 // tile-major, then depth
 	for k0 := 0; k0 < n; k0 += s.edge {
 		t := tileOf(k0)
 		for z := range s.ntz {
-			b, err := s.brick(t*s.ntz + z)
-			if err != nil {
-				return nil, false, err
+			b := s.resident(t*s.ntz + z)
+			if b == nil {
+				return nil, false, nil
 			}
+			bricks = append(bricks, b)
+		}
+	}
+	ns, e2 := s.shape.Samples, s.edge*s.edge
+	traces := rows(make([]float32, n*ns), n, ns)
+	for k0 := 0; k0 < n; k0 += s.edge {
+		for z := range s.ntz {
+			b := bricks[(k0/s.edge)*s.ntz+z]
 			for k := k0; k < min(n, k0+s.edge); k++ {
 				p, tr := at(k), traces[k]
 				for zk := z * s.edge; zk < min(ns, (z+1)*s.edge); zk++ {
@@ -513,30 +524,6 @@ func (s *Store) section(n int, tileOf, at func(k int) int) ([][]float32, bool, e
 		}
 	}
 	return traces, true, nil
-}
-
-// brick returns brick b (column t = b/ntz, depth b%ntz), resident or read
-// from the file and kept resident.
-func (s *Store) brick(b int) ([]float32, error) {
-	if data := s.resident(b); data != nil {
-		return data, nil
-	}
-	data := make([]float32, s.brickFloats)
-	s.fileMu.RLock()
-	if s.file == nil {
-		s.fileMu.RUnlock()
-		return nil, fmt.Errorf("%s: %w", s.name, os.ErrClosed)
-	}
-	off := int64(b) * int64(s.brickFloats) * 4
-	_, err := s.file.ReadAt(floatBytes(data), off)
-	s.fileMu.RUnlock()
-	if err != nil {
-		return nil, fmt.Errorf("%s: reading the brick file at byte %d: %w", s.name, off, err)
-	}
-	if s.cache != nil {
-		s.cache.put(s, b, data)
-	}
-	return data, nil
 }
 
 func (s *Store) resident(b int) []float32 {

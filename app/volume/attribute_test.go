@@ -52,7 +52,7 @@ func resolved(t testing.TB, id string, params map[string]string) (*compute.Attri
 }
 
 // TestStoreEverySampleEqualsDirect: with bricks of 8 samples (so tiles
-// end inside the survey on every axis) and a bound of two bricks, every
+// end inside the survey on every axis), every
 // sample of every envelope and band-passed phase time slice equals the
 // attribute computed directly on the inline sections, and every inline and
 // crossline read back from the store equals its direct computation.
@@ -64,7 +64,7 @@ func TestStoreEverySampleEqualsDirect(t *testing.T) {
 		cond compute.Conditioning
 	}{{"envelope", compute.Conditioning{}}, {"instantaneous-phase", compute.Conditioning{LowCutHz: 8, HighCutHz: 60}}} {
 		v := FromSurvey(s)
-		v.SetBrickOptions(bricks.Options{Dir: t.TempDir(), Edge: 8}, 2*8*8*8*4, 0)
+		v.SetBrickOptions(bricks.Options{Dir: t.TempDir(), Edge: 8}, 1<<20, 0) // every brick resident
 		a, p := resolved(t, c.id, nil)
 		inlines := make([]Section, 0, 13)
 		for _, il := range Numbers(v.Info().Inline) {
