@@ -307,7 +307,10 @@ func (a *attributeStores) acquire(v *Volume, attr *compute.Attribute, p compute.
 			if err != nil {
 				return nil, nil, err
 			}
-			a.cache = bricks.NewCache(n)
+			// Half the bound for the bricks themselves: Go's collector lets
+			// the heap grow to about twice what is live (GOGC=100) before it
+			// collects, so the process holds up to the whole bound.
+			a.cache = bricks.NewCache(n / 2)
 		}
 		a.releaseIdle(maxStores - 1)
 		shape := bricks.Shape{Inlines: v.info.Inline.Count, Crosslines: v.info.Crossline.Count, Samples: v.info.Samples}
