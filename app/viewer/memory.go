@@ -12,8 +12,9 @@ import (
 // memory:
 //
 //   - resident bricks of every whole-volume store: brickMemoryBound
-//     (volume.LimitBrickMemory; the stores' default, a quarter of RAM, is
-//     for batch work), time slices read only their planes from the files;
+//     (volume.LimitBrickMemory, of which the bricks take half; the stores'
+//     default, a quarter of RAM, is for batch work), time slices read only
+//     their planes from the files;
 //   - recently shown sections: sectionCacheBytes (cache.go);
 //   - the shown and rendered data: a few sections and images of the
 //     window's size;
