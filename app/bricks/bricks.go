@@ -341,14 +341,21 @@ func (s *Store) fillColumn(t int) error {
 	}
 	nx := tl.X1 - tl.X0
 	e, e2 := s.edge, s.edge*s.edge
-	col := make([]float32, s.ntz*s.brickFloats)
 	for k, tr := range traces {
 		if len(tr) != s.shape.Samples {
 			return fmt.Errorf("%s: column of inlines %d-%d, crosslines %d-%d: trace %d has %d samples, want %d", s.name, tl.I0, tl.I1-1, tl.X0, tl.X1-1, k, len(tr), s.shape.Samples)
 		}
-		i, x := k/nx, k%nx
-		for z, v := range tr {
-			col[(z/e)*s.brickFloats+(z%e)*e2+i*e+x] = v
+	}
+	// Brick by brick, so the scattered writes stay inside one brick.
+	col := make([]float32, s.ntz*s.brickFloats)
+	for z := range s.ntz {
+		brick := col[z*s.brickFloats : (z+1)*s.brickFloats]
+		z0, z1 := z*e, min(s.shape.Samples, (z+1)*e)
+		for k, tr := range traces {
+			at := (k/nx)*e + k%nx
+			for zk, v := range tr[z0:z1] {
+				brick[zk*e2+at] = v
+			}
 		}
 	}
 	s.fileMu.RLock()
