@@ -2,9 +2,12 @@ package viewer
 
 import (
 	"bufio"
+	"fmt"
 	"os"
 	"strconv"
 	"strings"
+	"runtime/metrics"
+	"runtime/pprof"
 	"sync/atomic"
 	"testing"
 	"time"
@@ -53,15 +56,35 @@ func BenchmarkLargeSessionMemory(b *testing.B) {
 	}
 	limitWindowMemory() // as Run does
 	var peak atomic.Int64
+	var phase, vol atomic.Value
+	phase.Store("open")
 	stop := make(chan struct{})
 	sampled := make(chan struct{})
+	profile := os.Getenv("QUADTRACE_PEAK_HEAP_PROFILE") // a heap profile at each new peak (+64 MB)
 	go func() {
 		defer close(sampled)
 		tick := time.NewTicker(20 * time.Millisecond)
 		defer tick.Stop()
+		var profiled int64
 		for {
 			if kb := rssAnonKB(); kb > peak.Load() {
 				peak.Store(kb)
+				if kb > profiled+64<<10 {
+					profiled = kb
+					s := []metrics.Sample{{Name: "/gc/heap/live:bytes"}, {Name: "/memory/classes/total:bytes"}, {Name: "/memory/classes/heap/released:bytes"}}
+					metrics.Read(s)
+					var bricks int64
+					if u, ok := vol.Load().(interface{ BrickMemoryUsed() int64 }); ok {
+						bricks = u.BrickMemoryUsed()
+					}
+					fmt.Fprintf(os.Stderr, "RssAnon %d MB during %s: Go heap live %d MB, Go total %d MB (released %d MB), resident bricks %d MB\n", kb>>10, phase.Load(), s[0].Value.Uint64()>>20, s[1].Value.Uint64()>>20, s[2].Value.Uint64()>>20, bricks>>20)
+					if profile != "" {
+						if f, err := os.Create(profile); err == nil {
+							pprof.WriteHeapProfile(f)
+							f.Close()
+						}
+					}
+				}
 			}
 			select {
 			case <-stop:
@@ -79,7 +102,9 @@ func BenchmarkLargeSessionMemory(b *testing.B) {
 		if v.vol == nil {
 			b.Fatalf("open %s: %s", path, v.ui.message.Text)
 		}
-		step := func(f func()) {
+		vol.Store(v.vol)
+		step := func(name string, f func()) {
+			phase.Store(name)
 			f()
 			v.jobs.wait()
 			if strings.Contains(v.ui.section.message, "rror") {
@@ -87,25 +112,25 @@ func BenchmarkLargeSessionMemory(b *testing.B) {
 			}
 		}
 		for range 10 {
-			step(func() { v.stepLine(1) })
+			step("stepLine(1)", func() { v.stepLine(1) })
 		}
-		step(func() { v.setOrientation(volume.Crossline) })
+		step("setOrientation(Crossline)", func() { v.setOrientation(volume.Crossline) })
 		for range 5 {
-			step(func() { v.stepLine(7) })
+			step("stepLine(7)", func() { v.stepLine(7) })
 		}
-		step(func() { v.setAttribute("envelope") })
-		step(func() { v.setAttribute(amplitudeID) })
-		step(func() { v.setOrientation(volume.TimeSlice) })
+		step("setAttribute(envelope)", func() { v.setAttribute("envelope") })
+		step("setAttribute(amplitudeID)", func() { v.setAttribute(amplitudeID) })
+		step("setOrientation(TimeSlice)", func() { v.setOrientation(volume.TimeSlice) })
 		for range 8 {
-			step(func() { v.stepLine(9) })
+			step("stepLine(9)", func() { v.stepLine(9) })
 		}
-		step(func() { v.setAttribute("envelope") })
+		step("setAttribute(envelope)", func() { v.setAttribute("envelope") })
 		for range 8 {
-			step(func() { v.stepLine(9) })
+			step("stepLine(9)", func() { v.stepLine(9) })
 		}
-		step(func() { v.setOrientation(volume.Inline) })
+		step("setOrientation(Inline)", func() { v.setOrientation(volume.Inline) })
 		for range 5 {
-			step(func() { v.stepLine(3) })
+			step("stepLine(3)", func() { v.stepLine(3) })
 		}
 		b.ReportMetric(float64(v.sectionDrawn), "sections-drawn")
 		v.jobs.close()

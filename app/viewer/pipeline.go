@@ -21,8 +21,12 @@ type dataRequest struct {
 	ampKey, baseKey, overKey string
 	// partial, when not nil, is given the data as far as they are computed
 	// while a time slice is filled (see partialData); it is called on the
-	// job's goroutine, at most a few times a second.
-	partial func(shown)
+	// job's goroutine, at most a few times a second, and only when
+	// partialWanted (if not nil) says so: a partial slice is made only once
+	// the picture of the one before has been drawn, so renders of partial
+	// slices (tens of megabytes each on a large survey) never pile up.
+	partial       func(shown)
+	partialWanted func() bool
 }
 
 // dataRequestFor works out the sections state st needs.
@@ -89,7 +93,7 @@ func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cac
 				if shownPf != nil {
 					shownPf(done, total)
 				}
-				if done < total && thr.due(done, total) {
+				if done < total && thr.due(done, total) && (req.partialWanted == nil || req.partialWanted()) {
 					if so, ok := vol.AttributeSoFar(req.slice, a, p, c); ok && so.Pending != nil {
 						req.partial(partialData(out, req, key, &so))
 					}
@@ -216,6 +220,7 @@ func (v *viewer) requestData() {
 		req.partial = func(d shown) {
 			v.onUI(j, func() { v.showData(d, false) })
 		}
+		req.partialWanted = func() bool { return v.jobs.active("render") == 0 }
 		out, err := fetchData(j.ctx, vol, req, have, cached, progress)
 		if j.ctx.Err() != nil {
 			return

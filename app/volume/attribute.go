@@ -215,6 +215,17 @@ func (v *Volume) LimitBrickMemory(n int64) {
 	}
 }
 
+// BrickMemoryUsed returns the bytes of resident bricks now.
+func (v *Volume) BrickMemoryUsed() int64 {
+	v.attrs.mu.Lock()
+	c := v.attrs.cache
+	v.attrs.mu.Unlock()
+	if c == nil {
+		return 0
+	}
+	return c.Used()
+}
+
 // BrickMemory returns the bound of resident bricks in bytes.
 func (v *Volume) BrickMemory() (int64, error) {
 	v.attrs.mu.Lock()
