@@ -14,6 +14,7 @@ import (
 	"quadtrace/compute/synth"
 	"quadtrace/render"
 	"quadtrace/segy"
+	"quadtrace/segy/segytest"
 )
 
 // halfSurvey computes attribute time slices for real but holds them back
@@ -143,5 +144,34 @@ func TestProgressiveTimeSlice(t *testing.T) {
 	// A request for the same slice is satisfied by the finished data.
 	if !dataRequestFor(&v.state).satisfied(v.data) {
 		t.Error("the finished slice does not satisfy its own request")
+	}
+}
+
+// TestPartialOnlyWhenWanted: fetchData makes a partial slice only when
+// partialWanted says the picture before is drawn (renders of partial
+// slices must not pile up), and never for a request without partial.
+func TestPartialOnlyWhenWanted(t *testing.T) {
+	v := openViewer(t, segytest.CorpusFile(t, "small.sgy"))
+	v.setAttribute("envelope")
+	v.ui.orientation.SetSelected("Time slice")
+	v.jobs.wait()
+	st := v.state
+	for _, wanted := range []bool{false, true} {
+		h := &halfSurvey{survey: v.vol, started: make(chan struct{}), release: make(chan struct{})}
+		close(h.release)
+		req := dataRequestFor(&st)
+		var made, asked int
+		req.partial = func(shown) { made++ }
+		req.partialWanted = func() bool { asked++; return wanted }
+		d, err := fetchData(context.Background(), h, req, shown{}, nil, func(string) func(int, int) { return nil })
+		if err != nil {
+			t.Fatal(err)
+		}
+		if asked == 0 || (made > 0) != wanted {
+			t.Errorf("partial wanted %v: asked %d times, %d made", wanted, asked, made)
+		}
+		if d.pending() {
+			t.Error("fetchData returned partial data")
+		}
 	}
 }
