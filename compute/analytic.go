@@ -116,6 +116,11 @@ func (t *analyticTrace) load(tr []float32, taper []float64) {
 type spectralOp struct {
 	g         []float64
 	imaginary bool
+	// kc, in convolution mode (see analyticPair.conv), is the operator as
+	// a circular convolution kernel: the transform over conv.n of its
+	// length-m kernel laid out round zero, divided by conv.n. apply makes
+	// it on first use.
+	kc []complex128
 }
 
 // analyticPair computes analytic traces two at a time: the real traces a
@@ -135,8 +140,23 @@ type analyticPair struct {
 	taper []float64
 	plan  *fftPlan // shared by all workers
 	work  *fftWork
-	spec  []complex128 // m: spectrum of a + ib (unnormalised)
-	z     []complex128 // m: inverse-transform buffer
+	spec  []complex128 // m (conv.n in convolution mode): spectrum of a + ib (unnormalised)
+	z     []complex128 // as spec: inverse-transform buffer
+
+	// conv, when not nil, is convolution mode, taken when the plan of
+	// length m is Bluestein's (m has a prime factor above maxDirectRadix,
+	// e.g. pad=none at 1501 = 19·79). An operator applied at length m is a
+	// circular convolution of length m with a real kernel c (c = the
+	// inverse DFT of its response), and a circular convolution of length
+	// m equals the first m samples of a circular convolution of length
+	// M >= 2m-1 of the zero-padded trace with c laid out round zero
+	// (c_t at t and c_{m-t} at M-t, t < m): no wrap-around term can reach
+	// them. So the trace pair takes one forward and one inverse transform
+	// of length M per operator, where Bluestein's algorithm takes two of
+	// length M for each transform of length m: half the work. conv is the
+	// Bluestein plan's own inner plan (M = goodSize(2m-1)), shared.
+	conv     *fftPlan
+	convWork *fftWork
 
 	// Operators, built once per setup: the Hilbert transform -i sgn(ω)
 	// with zero at DC and Nyquist (Marple 1999), the derivatives iω of x
@@ -175,7 +195,14 @@ func (p *analyticPair) setup(n int, dt float64, end EndTreatment, plan *fftPlan)
 	}
 	p.n, p.m, p.dt, p.end, p.plan = n, m, dt, end, plan
 	p.work = plan.newWork()
-	p.spec, p.z = make([]complex128, m), make([]complex128, m)
+	p.conv, p.convWork = nil, nil
+	size := m
+	if plan.blue != nil {
+		p.conv = plan.blue.inner
+		p.convWork = p.conv.newWork()
+		size = p.conv.n
+	}
+	p.spec, p.z = make([]complex128, size), make([]complex128, size)
 	L := int(math.Round(end.TaperMS / 1000 / dt))
 	if L > n/2 {
 		L = n / 2
@@ -219,12 +246,55 @@ func (p *analyticPair) forward(a, b *analyticTrace) {
 		}
 	}
 	clear(z[p.n:])
+	if p.conv != nil {
+		p.conv.transform(z, z, p.convWork)
+		return
+	}
 	p.plan.transform(z, z, p.work)
+}
+
+// convKernel returns op's kc for convolution mode: its circular kernel of
+// length m, c_j = Σ_k G_k exp(2πi jk/m) (G_k its response at bin k, the
+// 1/m already in g), laid out round zero in length M and transformed, with
+// the 1/M of the inverse transform folded in.
+func (p *analyticPair) convKernel(op *spectralOp) []complex128 {
+	m, M := p.m, p.conv.n
+	c := make([]complex128, m)
+	for k := 0; k <= m/2; k++ {
+		v := complex(op.g[k], 0)
+		if op.imaginary {
+			// apply sets DC and Nyquist to zero for these.
+			v = 0
+			if k > 0 && 2*k != m {
+				v = complex(0, op.g[k])
+			}
+		}
+		// Conjugated, so that a forward transform gives the inverse's
+		// conjugate; the kernel of a real operator is real.
+		c[k] = complex(real(v), -imag(v))
+		if k > 0 && m-k != k {
+			c[m-k] = v
+		}
+	}
+	p.plan.transform(c, c, p.work)
+	kc := make([]complex128, M)
+	inv := 1 / float64(M)
+	kc[0] = complex(real(c[0])*inv, 0)
+	for t := 1; t < m; t++ {
+		kc[t] = complex(real(c[t])*inv, 0)
+		kc[M-t] = complex(real(c[m-t])*inv, 0)
+	}
+	p.conv.transform(kc, kc, p.convWork)
+	return kc
 }
 
 // apply stores op(a) in ra and op(b) in rb (nil for a lone trace), each the
 // first n samples of the inverse transform.
-func (p *analyticPair) apply(op spectralOp, ra, rb []float64) {
+func (p *analyticPair) apply(op *spectralOp, ra, rb []float64) {
+	if p.conv != nil {
+		p.applyConv(op, ra, rb)
+		return
+	}
 	m, s, z := p.m, p.spec, p.z
 	// z = conj(op·spec), so that a forward transform and a final conjugate
 	// make the inverse: ifft(Y) = conj(fft(conj(Y))). At bin k, with
@@ -257,6 +327,28 @@ func (p *analyticPair) apply(op spectralOp, ra, rb []float64) {
 		}
 	}
 	p.plan.transform(z, z, p.work)
+	p.unpack(ra, rb)
+}
+
+// applyConv is apply in convolution mode: z = conj(kc·spec) over length
+// M, then the same forward transform and conjugate.
+func (p *analyticPair) applyConv(op *spectralOp, ra, rb []float64) {
+	if len(op.kc) != p.conv.n {
+		op.kc = p.convKernel(op)
+	}
+	s, z := p.spec, p.z[:len(p.spec)]
+	for k, c := range op.kc[:len(z)] {
+		v := c * s[k]
+		z[k] = complex(real(v), -imag(v))
+	}
+	p.conv.transform(z, z, p.convWork)
+	p.unpack(ra, rb)
+}
+
+// unpack writes the first len(ra) samples of conj(z): the real parts to
+// ra, the imaginary parts to rb (when not nil).
+func (p *analyticPair) unpack(ra, rb []float64) {
+	z := p.z
 	if rb == nil {
 		for j, v := range z[:len(ra)] {
 			ra[j] = real(v)
@@ -283,10 +375,10 @@ func (p *analyticPair) analyze(a, b *analyticTrace, ta, tb []float32, deriv bool
 		b = nil
 	}
 	p.forward(a, b)
-	p.apply(p.hilbert, a.h, bh)
+	p.apply(&p.hilbert, a.h, bh)
 	if deriv {
-		p.apply(p.dx, a.dx, bdx)
-		p.apply(p.dh, a.dh, bdh)
+		p.apply(&p.dx, a.dx, bdx)
+		p.apply(&p.dh, a.dh, bdh)
 	}
 }
 

@@ -50,20 +50,19 @@ type analyticNeeds struct {
 // traces two at a time (analyticPair) for the quadrature and what needs
 // asks for, then calls fill to write each output trace; gap samples are
 // set to NaN afterwards.
-func analyticRun(ctx context.Context, in Section, p Params, progress func(done, total int), needs analyticNeeds, fill func(w *traceWork, out []float32)) (Section, error) {
-	out := newLike(in)
+func analyticRun(ctx context.Context, in, out Section, p Params, progress func(done, total int), needs analyticNeeds, fill func(w *traceWork, out []float32)) error {
 	n := in.Samples()
 	end := endTreatment(p)
 	plan, err := analyticPlan(n, end)
 	if err != nil || n == 0 {
-		return out, err
+		return err
 	}
 	type worker struct {
 		p    analyticPair
 		a, b traceWork
 		op   spectralOp
 	}
-	err = forEachPair(ctx, len(in.Traces), func() *worker { return &worker{a: traceWork{p: p}, b: traceWork{p: p}} }, func(w *worker, i int, pair bool) error {
+	return forEachPair(ctx, len(in.Traces), func() *worker { return &worker{a: traceWork{p: p}, b: traceWork{p: p}} }, func(w *worker, i int, pair bool) error {
 		if err := w.p.setup(n, in.DT, end, plan); err != nil {
 			return err
 		}
@@ -83,11 +82,11 @@ func analyticRun(ctx context.Context, in Section, p Params, progress func(done, 
 			bdd, bddh, bv = b.ddx, b.ddh, b.v
 		}
 		if needs.second {
-			w.p.apply(w.p.ddx, w.a.ddx, bdd)
-			w.p.apply(w.p.ddh, w.a.ddh, bddh)
+			w.p.apply(&w.p.ddx, w.a.ddx, bdd)
+			w.p.apply(&w.p.ddh, w.a.ddh, bddh)
 		}
 		if needs.op != nil {
-			w.p.apply(w.op, w.a.v, bv)
+			w.p.apply(&w.op, w.a.v, bv)
 		}
 		for k, t := range []*traceWork{&w.a, b} {
 			if t == nil {
@@ -100,7 +99,6 @@ func analyticRun(ctx context.Context, in Section, p Params, progress func(done, 
 		}
 		return nil
 	}, progress)
-	return out, err
 }
 
 // markGaps writes NaN into out wherever the loaded trace had a gap.
@@ -118,16 +116,16 @@ func (t *analyticTrace) markGaps(out []float32) {
 // traceAttribute makes a computeFunc from a whole-trace formula of x, h
 // and (when deriv is set) x', h'.
 func traceAttribute(deriv bool, fill func(w *traceWork, out []float32)) computeFunc {
-	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: deriv}, fill)
+	return func(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
+		return analyticRun(ctx, in, out, p, progress, analyticNeeds{derivatives: deriv}, fill)
 	}
 }
 
 // sampleAttribute makes a computeFunc from a per-sample formula of x, h and
 // (when deriv is set) x', h'.
 func sampleAttribute(deriv bool, at func(w *traceWork, j int) float64) computeFunc {
-	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: deriv}, func(w *traceWork, out []float32) {
+	return func(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
+		return analyticRun(ctx, in, out, p, progress, analyticNeeds{derivatives: deriv}, func(w *traceWork, out []float32) {
 			for j := range out {
 				out[j] = float32(at(w, j))
 			}
@@ -194,8 +192,8 @@ func envelopeDerivativeAt(w *traceWork, j int) float64 {
 // envelopeSecondDerivative computes a” from a² = x² + h²:
 // a a” = x'² + h'² + x x” + h h” - a'², with x” and h” taken in the
 // frequency domain (spectrum times -ω²).
-func envelopeSecondDerivative(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-	return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: true, second: true}, func(w *traceWork, out []float32) {
+func envelopeSecondDerivative(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
+	return analyticRun(ctx, in, out, p, progress, analyticNeeds{derivatives: true, second: true}, func(w *traceWork, out []float32) {
 		for j := range out {
 			x, h, dx, dh := w.x[j], w.h[j], w.dx[j], w.dh[j]
 			a := math.Sqrt(x*x + h*h + w.eps)

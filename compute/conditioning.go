@@ -161,23 +161,32 @@ func highCutGain(f, fc float64) float64 {
 // frequency is an error. With nothing to do it returns a copy. Cancellation
 // and progress work as for Attribute.Compute.
 func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done, total int)) (Section, error) {
+	out := newLike(in) // shaped by trace 0; applyInto validates in
+	if err := c.applyInto(ctx, in, out, progress); err != nil {
+		return Section{}, err
+	}
+	return out, nil
+}
+
+// applyInto is Apply writing into out (the shape of in, checked by the
+// caller).
+func (c Conditioning) applyInto(ctx context.Context, in, out Section, progress func(done, total int)) error {
 	if err := c.check(); err != nil {
-		return Section{}, fmt.Errorf("conditioning %q: %w", c.String(), err)
+		return fmt.Errorf("conditioning %q: %w", c.String(), err)
 	}
 	if err := in.validate(); err != nil {
-		return Section{}, fmt.Errorf("conditioning %q: %w", c.String(), err)
+		return fmt.Errorf("conditioning %q: %w", c.String(), err)
 	}
 	nyq := 0.5 / in.DT
 	if c.HighCutHz >= nyq {
-		return Section{}, fmt.Errorf("conditioning %q: high corner %s Hz is not below the Nyquist frequency %s Hz", c.String(), fmtNum(c.HighCutHz), fmtNum(nyq))
+		return fmt.Errorf("conditioning %q: high corner %s Hz is not below the Nyquist frequency %s Hz", c.String(), fmtNum(c.HighCutHz), fmtNum(nyq))
 	}
 	if c.LowCutHz >= nyq {
-		return Section{}, fmt.Errorf("conditioning %q: low corner %s Hz is not below the Nyquist frequency %s Hz", c.String(), fmtNum(c.LowCutHz), fmtNum(nyq))
+		return fmt.Errorf("conditioning %q: low corner %s Hz is not below the Nyquist frequency %s Hz", c.String(), fmtNum(c.LowCutHz), fmtNum(nyq))
 	}
-	out := newLike(in)
 	n := in.Samples()
 	if n == 0 {
-		return out, nil
+		return nil
 	}
 	bandpass := c.LowCutHz > 0 || c.HighCutHz > 0
 	half := windowHalf(c.AGCWindowMS, in.DT)
@@ -224,7 +233,7 @@ func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done,
 				b, bv = &w.b.analyticTrace, w.b.v
 			}
 			w.p.forward(&w.a.analyticTrace, b)
-			w.p.apply(w.op, w.a.v, bv)
+			w.p.apply(&w.op, w.a.v, bv)
 		}
 		for k, t := range ts {
 			c.finish(t.v, t.sq, t.cnt, t.k, in.Traces[i+k], out.Traces[i+k], bandpass, half)
@@ -232,9 +241,9 @@ func (c Conditioning) Apply(ctx context.Context, in Section, progress func(done,
 		return nil
 	}, progress)
 	if err != nil {
-		return Section{}, fmt.Errorf("conditioning %q: %w", c.String(), err)
+		return fmt.Errorf("conditioning %q: %w", c.String(), err)
 	}
-	return out, nil
+	return nil
 }
 
 // bandpassOp is the band-pass gain as a spectralOp for p's padded length
@@ -296,10 +305,10 @@ func (c Conditioning) finish(v, sq, cnt, k []float64, tr, o []float32, filtered 
 	}
 }
 
-func runBandpass(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-	return Conditioning{LowCutHz: p.Float("low-cut"), HighCutHz: p.Float("high-cut")}.Apply(ctx, in, progress)
+func runBandpass(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
+	return Conditioning{LowCutHz: p.Float("low-cut"), HighCutHz: p.Float("high-cut")}.applyInto(ctx, in, out, progress)
 }
 
-func runAGC(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-	return Conditioning{AGCWindowMS: p.Float("window")}.Apply(ctx, in, progress)
+func runAGC(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
+	return Conditioning{AGCWindowMS: p.Float("window")}.applyInto(ctx, in, out, progress)
 }

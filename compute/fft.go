@@ -47,6 +47,10 @@ type fftPlan struct {
 	n      int
 	stages []fftStage
 	blue   *bluestein // non-nil: Bluestein's algorithm
+	// simd: radix-4 and radix-2 passes with an even stride run in
+	// fft_amd64.s (AVX2 and FMA: two complex values per register) instead
+	// of Go. Set from haveSIMD; tests clear it to check the Go passes.
+	simd bool
 }
 
 // fftStage is one Stockham pass of radix r over a transform of length N:
@@ -57,8 +61,12 @@ type fftPlan struct {
 // for p < m, q < s, j < r, where W_l = exp(-2πi/l).
 type fftStage struct {
 	r, m, s int
-	tw      []complex128 // W_l^{jp} at [p*(r-1) + j-1], j = 1..r-1
+	tw      []complex128 // W_l^{jp} at [p*(r-1) + j-1], j = 1..r-1, p = 0..m-1
 	root    []complex128 // W_r^{j} for j < r (generic odd radix only)
+	// twPair is tw for the vector first pass (radix 4, s = 1, m even):
+	// per pair p, p+1 the twiddles of both side by side, at
+	// [6(p/2) + 2(j-1) + p%2].
+	twPair []complex128
 }
 
 // maxDirectRadix is the largest odd prime factor the mixed-radix path
@@ -76,7 +84,7 @@ type fftWork struct {
 
 // newFFTPlan returns the plan for length n >= 1.
 func newFFTPlan(n int) *fftPlan {
-	p := &fftPlan{n: n}
+	p := &fftPlan{n: n, simd: haveSIMD}
 	if n <= 1 {
 		return p
 	}
@@ -189,13 +197,18 @@ func makeStages(n int, f []int) []fftStage {
 	for i, r := range f {
 		l := n / s // span of this pass
 		m := l / r
-		g := fftStage{r: r, m: m, s: s}
-		if m > 1 {
-			g.tw = make([]complex128, m*(r-1))
+		g := fftStage{r: r, m: m, s: s, tw: make([]complex128, m*(r-1))}
+		for p := range m {
+			for j := 1; j < r; j++ {
+				// W_l^{jp} = W_n^{jps}; jp < l so jps < n.
+				g.tw[p*(r-1)+j-1] = root[j*p*s]
+			}
+		}
+		if r == 4 && s == 1 && m%2 == 0 {
+			g.twPair = make([]complex128, len(g.tw))
 			for p := range m {
-				for j := 1; j < r; j++ {
-					// W_l^{jp} = W_n^{jps}; jp < l so jps < n.
-					g.tw[p*(r-1)+j-1] = root[j*p*s]
+				for j := 1; j < 4; j++ {
+					g.twPair[6*(p/2)+2*(j-1)+p%2] = g.tw[3*p+j-1]
 				}
 			}
 		}
@@ -220,13 +233,13 @@ func (p *fftPlan) transform(dst, src []complex128, w *fftWork) {
 	case p.blue != nil:
 		p.blue.transform(dst, src, w)
 	default:
-		runStages(p.stages, dst, src, w.buf, w.odd)
+		runStages(p.stages, dst, src, w.buf, w.odd, p.simd)
 	}
 }
 
 // runStages applies the passes from src into dst, ping-ponging with buf so
 // that the last pass writes dst.
-func runStages(stages []fftStage, dst, src, buf, odd []complex128) {
+func runStages(stages []fftStage, dst, src, buf, odd []complex128, simd bool) {
 	in := src
 	// Choose the first output so the last pass lands in dst.
 	out := dst
@@ -240,7 +253,7 @@ func runStages(stages []fftStage, dst, src, buf, odd []complex128) {
 		// now the passes go buf->dst->buf->...: odd count ends in dst
 	}
 	for i := range stages {
-		stages[i].apply(out, in, odd)
+		stages[i].apply(out, in, odd, simd)
 		next := buf
 		if &out[0] == &buf[0] {
 			next = dst
@@ -249,8 +262,12 @@ func runStages(stages []fftStage, dst, src, buf, odd []complex128) {
 	}
 }
 
-// apply runs one pass from x into y.
-func (g *fftStage) apply(y, x, odd []complex128) {
+// apply runs one pass from x into y, with the vector passes when simd is
+// set and the stride allows.
+func (g *fftStage) apply(y, x, odd []complex128, simd bool) {
+	if simd && g.applySIMD(y, x) {
+		return
+	}
 	switch g.r {
 	case 4:
 		g.radix4(y, x)
@@ -481,7 +498,7 @@ type bluestein struct {
 
 func newBluestein(n int) *bluestein {
 	M := goodSize(2*n - 1)
-	bl := &bluestein{n: n, chirp: make([]complex128, n), b: make([]complex128, M), inner: &fftPlan{n: M}}
+	bl := &bluestein{n: n, chirp: make([]complex128, n), b: make([]complex128, M), inner: &fftPlan{n: M, simd: haveSIMD}}
 	bl.inner.stages = makeStages(M, factorize(M))
 	for j := range bl.chirp {
 		// j² mod 2n in integers keeps the angle small and exact.

@@ -15,6 +15,8 @@ type InstantaneousSet struct {
 	Phase     Section // atan2(h, x) in degrees, -180..180
 	Frequency Section // (x h' - h x') / (2π a²) in Hz
 	CosPhase  Section // cos of the phase, x / a, in -1..1
+
+	simd bool // fill four samples at a time in fill_amd64.s (haveSIMD)
 }
 
 // Instantaneous computes the InstantaneousSet of a section on all cores:
@@ -31,7 +33,7 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 	if _, err := end.transformLength(1); err != nil {
 		return set, fmt.Errorf("instantaneous attributes: %w", err)
 	}
-	set = InstantaneousSet{Envelope: newLike(in), Phase: newLike(in), Frequency: newLike(in), CosPhase: newLike(in)}
+	set = InstantaneousSet{Envelope: newLike(in), Phase: newLike(in), Frequency: newLike(in), CosPhase: newLike(in), simd: haveSIMD}
 	n := in.Samples()
 	if n == 0 {
 		return set, nil
@@ -72,11 +74,33 @@ func (set *InstantaneousSet) fill(i int, t *analyticTrace, phase []float64) {
 	n := t.n
 	a, ph, f, c := set.Envelope.Traces[i], set.Phase.Traces[i], set.Frequency.Traces[i], set.CosPhase.Traces[i]
 	eps := t.stabilizer()
+	x, h, dx, dh := t.x[:n], t.h[:n], t.dx[:n], t.dh[:n]
+	// The same formulas four samples at a time (fill_amd64.s) where the
+	// processor allows, the rest here.
+	done := 0
+	if set.simd {
+		done = instFillVector(a, ph, f, c, x, h, dx, dh, eps)
+	}
+	fillScalar(a[done:n], ph[done:n], f[done:n], c[done:n], x[done:], h[done:], dx[done:], dh[done:], eps, phase)
+	if t.gaps > 0 {
+		for j, g := range t.gap {
+			if g {
+				nan := float32(math.NaN())
+				a[j], ph[j], f[j], c[j] = nan, nan, nan, nan
+			}
+		}
+	}
+}
+
+// fillScalar is fill's loop over samples in Go: envelope a, phase ph
+// (degrees), frequency f and cosine of phase c from x, h, dx, dh (at least
+// len(a) each), with phase (as long) as scratch.
+func fillScalar(a, ph, f, c []float32, x, h, dx, dh []float64, eps float64, phase []float64) {
 	const toDeg = 180 / math.Pi
 	const inv2pi = 1 / (2 * math.Pi)
-	x, h, dx, dh := t.x[:n], t.h[:n], t.dx[:n], t.dh[:n]
+	x, h = x[:len(a)], h[:len(a)]
 	dx, dh = dx[:len(x)], dh[:len(x)]
-	a, ph, f, c = a[:len(x)], ph[:len(x)], f[:len(x)], c[:len(x)]
+	ph, f, c = ph[:len(x)], f[:len(x)], c[:len(x)]
 	phase = phase[:len(x)]
 	atan2s(phase, h, x)
 	for j, xj := range x {
@@ -95,14 +119,6 @@ func (set *InstantaneousSet) fill(i int, t *analyticTrace, phase []float64) {
 			cp = -1
 		}
 		c[j] = float32(cp)
-	}
-	if t.gaps > 0 {
-		for j, g := range t.gap {
-			if g {
-				nan := float32(math.NaN())
-				a[j], ph[j], f[j], c[j] = nan, nan, nan, nan
-			}
-		}
 	}
 }
 

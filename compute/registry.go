@@ -45,8 +45,9 @@ const (
 	GroupConditioning  Group = "conditioning"
 )
 
-// computeFunc computes an attribute on a validated section.
-type computeFunc func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error)
+// computeFunc computes an attribute on a validated section into out, a
+// section of the same shape.
+type computeFunc func(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error
 
 // Attribute is one entry of the registry: an attribute that maps a Section
 // to a Section of the same shape.
@@ -123,23 +124,44 @@ func Lookup(id string) (*Attribute, error) {
 // done == total. NaN and Inf samples are gaps: NaN in the output at the same
 // samples.
 func (a *Attribute) Compute(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
+	out := newLike(in) // shaped by trace 0; ComputeInto validates in
+	if err := a.ComputeInto(ctx, in, out, p, progress); err != nil {
+		return Section{}, err
+	}
+	return out, nil
+}
+
+// ComputeInto is Compute writing into out, whose traces the caller
+// provides (and may reuse from one call to the next, so that a stream of
+// blocks touches no fresh memory): out must have as many traces as in,
+// each as long as in's; its DT and T0 are not consulted. Every sample of
+// out is written. On an error out holds partial results.
+func (a *Attribute) ComputeInto(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
 	if p.text == nil {
 		var err error
 		if p, err = a.Resolve(nil); err != nil {
-			return Section{}, err
+			return err
 		}
 	} else if p.attr != a.ID {
-		return Section{}, fmt.Errorf("attribute %q: parameters were resolved for %q", a.ID, p.attr)
+		return fmt.Errorf("attribute %q: parameters were resolved for %q", a.ID, p.attr)
 	}
 	if err := in.validate(); err != nil {
-		return Section{}, fmt.Errorf("attribute %q: %w", a.ID, err)
+		return fmt.Errorf("attribute %q: %w", a.ID, err)
 	}
-	out, err := a.run(ctx, in, p, progress)
-	if err != nil {
-		return Section{}, fmt.Errorf("attribute %q: %w", a.ID, err)
+	if len(out.Traces) != len(in.Traces) {
+		return fmt.Errorf("attribute %q: output has %d traces for %d input traces", a.ID, len(out.Traces), len(in.Traces))
+	}
+	n := in.Samples()
+	for i, tr := range out.Traces {
+		if len(tr) != n {
+			return fmt.Errorf("attribute %q: output trace %d has %d samples, want %d", a.ID, i, len(tr), n)
+		}
+	}
+	if err := a.run(ctx, in, out, p, progress); err != nil {
+		return fmt.Errorf("attribute %q: %w", a.ID, err)
 	}
 	saturate(out)
-	return out, nil
+	return nil
 }
 
 // saturate replaces infinite output samples by the largest finite float32
@@ -286,9 +308,8 @@ func registry() []*Attribute {
 	}
 }
 
-func runAmplitude(ctx context.Context, in Section, _ Params, progress func(done, total int)) (Section, error) {
-	out := newLike(in)
-	err := forEachTrace(ctx, len(in.Traces), func() struct{} { return struct{}{} }, func(_ struct{}, i int) error {
+func runAmplitude(ctx context.Context, in, out Section, _ Params, progress func(done, total int)) error {
+	return forEachTrace(ctx, len(in.Traces), func() struct{} { return struct{}{} }, func(_ struct{}, i int) error {
 		o := out.Traces[i]
 		for j, v := range in.Traces[i] {
 			if isGap(v) {
@@ -298,5 +319,4 @@ func runAmplitude(ctx context.Context, in Section, _ Params, progress func(done,
 		}
 		return nil
 	}, progress)
-	return out, err
 }

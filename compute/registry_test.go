@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"regexp"
+	"slices"
 	"strings"
 	"sync"
 	"testing"
@@ -327,5 +328,57 @@ func TestResolveAll(t *testing.T) {
 	}
 	if _, err := ResolveAll([]*Attribute{amp}, map[string]string{"pad": "fast"}); err == nil || !strings.Contains(err.Error(), "they take none") {
 		t.Errorf("amplitude with pad: error %v, want a refusal", err)
+	}
+}
+
+// ComputeInto writes every sample of the output it is given: into traces
+// full of a stale value (and with gap samples in the input) it gives
+// exactly what Compute gives into fresh memory, for every attribute and
+// each padding mode; a wrongly shaped output is refused.
+func TestComputeIntoReusedOutput(t *testing.T) {
+	sec := randomTraces(5, 301, 11)
+	sec.Traces[1][7] = float32(math.NaN())
+	sec.Traces[3][0] = float32(math.Inf(1))
+	for _, a := range Attributes() {
+		for _, pad := range PadModes() {
+			raw := map[string]string{}
+			if slices.ContainsFunc(a.Params, func(s ParamSpec) bool { return s.Name == "pad" }) {
+				raw["pad"] = pad
+			} else if pad != PadFast {
+				continue
+			}
+			p, err := a.Resolve(raw)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want, err := a.Compute(context.Background(), sec, p, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			out := newLike(sec)
+			for _, tr := range out.Traces {
+				for j := range tr {
+					tr[j] = 12345
+				}
+			}
+			if err := a.ComputeInto(context.Background(), sec, out, p, nil); err != nil {
+				t.Fatal(err)
+			}
+			for i := range want.Traces {
+				for j, v := range want.Traces[i] {
+					if g := out.Traces[i][j]; math.Float32bits(g) != math.Float32bits(v) && !(isGap(g) && isGap(v)) {
+						t.Fatalf("%s pad=%s: trace %d sample %d: %v into a used output, %v into a fresh one", a.ID, pad, i, j, g, v)
+					}
+				}
+			}
+		}
+		short := newLike(sec)
+		short.Traces[2] = short.Traces[2][:300]
+		if err := a.ComputeInto(context.Background(), sec, short, Params{}, nil); err == nil {
+			t.Errorf("%s: a short output trace accepted", a.ID)
+		}
+		if err := a.ComputeInto(context.Background(), sec, Section{Traces: short.Traces[:4]}, Params{}, nil); err == nil {
+			t.Errorf("%s: an output with a trace missing accepted", a.ID)
+		}
 	}
 }

@@ -41,8 +41,8 @@ func lobePolarity(ap, phi, _ float64) float64 {
 // off the grid would shift the response phase of a 30 Hz wavelet sampled at
 // 2 ms by 11 degrees.
 func lobeAttribute(value lobeValue) computeFunc {
-	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: true}, func(w *traceWork, out []float32) {
+	return func(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
+		return analyticRun(ctx, in, out, p, progress, analyticNeeds{derivatives: true}, func(w *traceWork, out []float32) {
 			n := w.n
 			a, f := w.a, w.f
 			for j := range n {

@@ -9,9 +9,9 @@ import (
 // a centred sliding window of 2*half+1 samples (the `window` parameter in
 // ms, truncated at the trace ends). Gap samples carry zero weight.
 func windowedAttribute(fill func(w *traceWork, half int, out []float32)) computeFunc {
-	return func(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
+	return func(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
 		half := windowHalf(p.Float("window"), in.DT)
-		return analyticRun(ctx, in, p, progress, analyticNeeds{derivatives: true}, func(w *traceWork, out []float32) {
+		return analyticRun(ctx, in, out, p, progress, analyticNeeds{derivatives: true}, func(w *traceWork, out []float32) {
 			fill(w, half, out)
 		})
 	}
@@ -161,12 +161,11 @@ func amplitudeWeightedCosPhaseAt(w *traceWork, half int, out []float32) {
 
 // rmsAmplitude is the root mean square of the trace over a centred window
 // of the `window` parameter (common practice), gaps left out of the mean.
-func rmsAmplitude(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
-	out := newLike(in)
+func rmsAmplitude(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
 	n := in.Samples()
 	half := windowHalf(p.Float("window"), in.DT)
 	type buf struct{ sq, cnt, v, c []float64 }
-	err := forEachTrace(ctx, len(in.Traces), func() *buf {
+	return forEachTrace(ctx, len(in.Traces), func() *buf {
 		return &buf{make([]float64, n+1), make([]float64, n+1), make([]float64, n), make([]float64, n)}
 	}, func(b *buf, i int) error {
 		tr := in.Traces[i]
@@ -189,7 +188,6 @@ func rmsAmplitude(ctx context.Context, in Section, p Params, progress func(done,
 		}
 		return nil
 	}, progress)
-	return out, err
 }
 
 // relativeImpedance is the running integral of the trace with a low-cut,
@@ -200,14 +198,14 @@ func rmsAmplitude(ctx context.Context, in Section, p Params, progress func(done,
 // with L the one-octave cosine-squared low-cut ramp of the band-pass
 // (half amplitude at `low-cut`) and the DC and Nyquist terms set to zero.
 // Units are amplitude·s.
-func relativeImpedance(ctx context.Context, in Section, p Params, progress func(done, total int)) (Section, error) {
+func relativeImpedance(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
 	fc := p.Float("low-cut")
 	op := func(p *analyticPair) spectralOp {
 		return p.makeOp(true, func(om float64) float64 {
 			return -lowCutGain(om/twoPi, fc) / om // L(f)/(i2πf)
 		})
 	}
-	return analyticRun(ctx, in, p, progress, analyticNeeds{op: op}, func(w *traceWork, out []float32) {
+	return analyticRun(ctx, in, out, p, progress, analyticNeeds{op: op}, func(w *traceWork, out []float32) {
 		for j := range out {
 			out[j] = float32(w.v[j])
 		}

@@ -10,7 +10,10 @@
 // is refused), parses the textual header (EBCDIC or ASCII, detected),
 // extended textual headers (count at bytes 3505-3506, -1 = read until the
 // ((SEG: EndText)) stanza), the binary header, and every trace header, and
-// builds a geometry index. Sample formats 1, 2, 3, 5, 6, 7, 8, 9, 10, 11,
+// builds a geometry index. OpenFast reads a sample of trace headers instead
+// when they support a regular grid (a hypothesis through the same geometry
+// decision), or uses a saved index that matches the file; File.Check reads
+// every header and returns the exact index, the Info Open gives. Sample formats 1, 2, 3, 5, 6, 7, 8, 9, 10, 11,
 // 12, 15 and 16 decode to float32; format 4 (obsolete) is refused.
 //
 // Decisions where the standard leaves a choice (each also noted where it

@@ -173,12 +173,35 @@ type File struct {
 	mu       sync.RWMutex
 	isClosed bool
 	ctx      context.Context // during open only: stops the header scan
+	// onScan, when set (during Check's scan only), is called every 1024th
+	// trace instead of the plain ctx test: progress, and the parent
+	// file's hold released and taken again between batches.
+	onScan func(i int) error
+
+	// How the geometry index was made (see OpenFast): exact is true after
+	// a full scan or a verified saved index, false for a sampled
+	// hypothesis that Check has yet to confirm.
+	exact    bool
+	source   IndexSource
+	fileSize int64   // the file's size as opened (size less trailers is f.size)
+	opt      Options // the options given, for Check's scan and saved indices
+	stamp    string  // the caller's identity of the file version (FastOptions.Stamp)
+	// scatter serves the scattered reads of a sampled open (nil: f.r)
+	scatter io.ReaderAt
+	// headerWarnings counts the warnings of the headers, before geometry
+	headerWarnings int
 }
 
 // scanCancelled reports, every 1024th trace i of a scan during open,
 // whether the open was cancelled; the error wraps ctx.Err().
 func (f *File) scanCancelled(i int) error {
-	if i%1024 != 0 || f.ctx == nil {
+	if i%1024 != 0 {
+		return nil
+	}
+	if f.onScan != nil {
+		return f.onScan(i)
+	}
+	if f.ctx == nil {
 		return nil
 	}
 	if err := f.ctx.Err(); err != nil {
@@ -203,6 +226,12 @@ func Open(path string, opt Options) (*File, error) {
 // every few thousand traces, and an open stopped that way returns an error
 // wrapping ctx.Err().
 func OpenContext(ctx context.Context, path string, opt Options) (*File, error) {
+	return openPath(ctx, path, opt, nil)
+}
+
+// openPath opens a regular file, mapped when the system allows, as Open
+// (fast == nil) or OpenFast does.
+func openPath(ctx context.Context, path string, opt Options, fast *FastOptions) (*File, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
@@ -216,7 +245,13 @@ func OpenContext(ctx context.Context, path string, opt Options) (*File, error) {
 		return nil, err
 	}
 	data := mapFile(fh, st.Size())
-	f, err := open(ctx, path, fh, data, st.Size(), opt)
+	if fast != nil && !fast.ReadAll {
+		if sc := openScattered(path); sc != nil {
+			defer sc.Close()
+			fast.scatter = sc
+		}
+	}
+	f, err := openMode(ctx, path, fh, data, st.Size(), opt, fast)
 	if err != nil {
 		unmapFile(data)
 		fh.Close()
@@ -417,61 +452,104 @@ func (f *File) getBuf() *[]byte {
 }
 
 func open(ctx context.Context, path string, r io.ReaderAt, data []byte, size int64, opt Options) (*File, error) {
-	f := &File{path: path, r: r, data: data, size: size, ctx: ctx}
+	return openMode(ctx, path, r, data, size, opt, nil)
+}
+
+// openMode opens as Open does (fast == nil: every trace header read) or
+// as OpenFast does.
+func openMode(ctx context.Context, path string, r io.ReaderAt, data []byte, size int64, opt Options, fast *FastOptions) (*File, error) {
+	f := &File{path: path, r: r, data: data, size: size, fileSize: size, ctx: ctx, opt: opt}
 	defer func() { f.ctx = nil }() // only the open is cancellable
+	if fast != nil {
+		f.stamp, f.scatter = fast.Stamp, fast.scatter
+		defer func() { f.scatter = nil }() // only the open reads through it
+	}
 	f.info.Warnings = []string{}
 	// The scan reads the mapping: a file cut short meanwhile faults.
-	if err := f.guardFault(-1, 0, func() error { return f.parse(opt) }); err != nil {
+	if err := f.guardFault(-1, 0, func() error { return f.parse(opt, fast) }); err != nil {
 		return nil, err
 	}
 	return f, nil
 }
 
-// parse reads the headers and scans the traces (see Open).
-func (f *File) parse(opt Options) error {
-	size := f.size
-	if err := f.resolveOptions(opt); err != nil {
+// parse reads the headers and builds the geometry index: from every trace
+// header (fast == nil, or when the sample does not support a regular
+// grid), from a saved index that matches the file, or from a sample (see
+// OpenFast).
+func (f *File) parse(opt Options, fast *FastOptions) error {
+	bin, err := f.parseHeaders(opt)
+	if err != nil || f.ntraces == 0 {
+		f.exact = err == nil
 		return err
 	}
+	if fast != nil && fast.Saved != nil && f.useSaved(fast.Saved) {
+		f.exact, f.source = true, IndexSaved
+		return nil
+	}
+	if fast != nil && !fast.ReadAll {
+		ok, err := f.sampleGeometry(bin, fast.sampleSize())
+		if err != nil {
+			return err
+		}
+		if ok {
+			f.source = IndexSampled
+		} else {
+			// the sample does not support a regular grid: read every header
+			f.info.Warnings = f.info.Warnings[:f.headerWarnings]
+			f.exact = true
+			if err := f.scanGeometry(bin); err != nil {
+				return err
+			}
+		}
+	} else {
+		f.exact = true
+		if err := f.scanGeometry(bin); err != nil {
+			return err
+		}
+	}
+	return f.sampleAmplitudes()
+}
+
+// parseHeaders reads the textual and binary headers and sizes the traces;
+// it returns the binary header.
+func (f *File) parseHeaders(opt Options) ([]byte, error) {
+	size := f.size
+	if err := f.resolveOptions(opt); err != nil {
+		return nil, err
+	}
 	if size < TextHeaderSize {
-		return f.errf(-1, 0, "file is %d bytes: truncated inside the 3200-byte textual header", size)
+		return nil, f.errf(-1, 0, "file is %d bytes: truncated inside the 3200-byte textual header", size)
 	}
 	if size < headersEnd {
-		return f.errf(-1, size+1, "file ends inside the binary header (bytes 3201-3600): %d bytes", size)
+		return nil, f.errf(-1, size+1, "file ends inside the binary header (bytes 3201-3600): %d bytes", size)
 	}
 	hdr, err := f.bytesAt(0, headersEnd, nil)
 	if err != nil {
-		return f.errf(-1, 1, "reading headers: %v", err)
+		return nil, f.errf(-1, 1, "reading headers: %v", err)
 	}
 	hdr = append([]byte(nil), hdr...)
 	text, _ := decodeText(hdr[:TextHeaderSize])
 	f.info.TextHeaders = []string{text}
 	bin := hdr[TextHeaderSize:]
 	if err := f.parseBinary(bin, opt); err != nil {
-		return err
+		return nil, err
 	}
 	if err := f.readExtendedText(bin); err != nil {
-		return err
+		return nil, err
 	}
 	f.noteStanzas()
 	if err := f.rev2Layout(bin); err != nil {
-		return err
+		return nil, err
 	}
 	if err := f.sizeTraces(bin); err != nil {
-		return err
+		return nil, err
 	}
 	if f.ntraces == 0 {
 		f.info.Layout = LayoutEmpty
 		f.warnf("no traces: the file holds headers only")
-		return nil
 	}
-	if err := f.scanGeometry(bin); err != nil {
-		return err
-	}
-	if err := f.sampleAmplitudes(); err != nil {
-		return err
-	}
-	return nil
+	f.headerWarnings = len(f.info.Warnings)
+	return bin, nil
 }
 
 func (f *File) resolveOptions(opt Options) error {

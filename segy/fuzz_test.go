@@ -2,10 +2,12 @@ package segy
 
 import (
 	"bytes"
+	"context"
 	"encoding/binary"
 	"math"
 	"os"
 	"path/filepath"
+	"reflect"
 	"testing"
 
 	"quadtrace/segy/segytest"
@@ -188,6 +190,29 @@ func FuzzTraceHeaders(f *testing.F) {
 		}
 		if in.Warnings != nil && !hasWarning(in, "fell back") && found != in.Traces-in.DuplicateTraces-in.OutlierTraces {
 			t.Fatalf("%d of %d traces found by their numbering (%d duplicates, %d outliers, layout %s)", found, in.Traces, in.DuplicateTraces, in.OutlierTraces, in.Layout)
+		}
+		// The sampled open of the same bytes (a sample of 2, so the
+		// hypothesis is tried on any file of more than 4 traces) ends, after
+		// Check, in exactly this Info, and its index reopens to it.
+		ctx := context.Background()
+		r := bytes.NewReader(data)
+		fast, err := OpenReaderAtFast(ctx, r, int64(len(data)), "th.sgy", Options{}, FastOptions{sample: 2})
+		if err != nil {
+			t.Fatalf("the sampled open failed where Open did not: %v", err)
+		}
+		ch, err := fast.Check(ctx, nil)
+		if err != nil {
+			t.Fatalf("Check: %v", err)
+		}
+		if !reflect.DeepEqual(ch.Info, in) {
+			t.Fatalf("Check's Info differs from Open's:\n%+v\n%+v", ch.Info, in)
+		}
+		again, err := OpenReaderAtFast(ctx, r, int64(len(data)), "th.sgy", Options{}, FastOptions{Saved: ch.Index, sample: 2})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if in.Traces > 0 && (again.IndexSource() != IndexSaved || !reflect.DeepEqual(again.Info(), in)) {
+			t.Fatalf("reopened with the checked index: source %v, same Info %v", again.IndexSource(), reflect.DeepEqual(again.Info(), in))
 		}
 	})
 }

@@ -127,7 +127,7 @@ func (f *File) scanGeometry(bin []byte) error {
 		default:
 			f.info.HeaderInline, f.info.HeaderCrossline = extent(il), extent(xl)
 			f.fileOrder(fmt.Sprintf("no inline/crossline numbering in bytes %d/%d, 9, 13 or 21: traces numbered 1..%d by position", f.ilByte, f.xlByte, n))
-			f.finishGeometry(cx, cy, coordUnits, bin)
+			f.finishGeometry(coordExtentOf(cx, cy), arrayCoords(cx, cy), coordUnits, bin)
 			return nil
 		}
 	}
@@ -135,7 +135,7 @@ func (f *File) scanGeometry(bin []byte) error {
 	if fromRecords && f.info.Layout != LayoutUnstructured {
 		f.info.Layout = LayoutPrestack
 	}
-	f.finishGeometry(cx, cy, coordUnits, bin)
+	f.finishGeometry(coordExtentOf(cx, cy), arrayCoords(cx, cy), coordUnits, bin)
 	return nil
 }
 
@@ -478,21 +478,49 @@ func (f *File) offIndex(off int) int {
 	return -1
 }
 
-// finishGeometry computes the coordinate extent and bin spacing.
-func (f *File) finishGeometry(cx, cy []float64, coordUnits int, bin []byte) {
-	hasCoords := false
-	minX, maxX, minY, maxY := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
-	for i := range cx {
-		if cx[i] != 0 || cy[i] != 0 {
-			hasCoords = true
-		}
-		minX, maxX = math.Min(minX, cx[i]), math.Max(maxX, cx[i])
-		minY, maxY = math.Min(minY, cy[i]), math.Max(maxY, cy[i])
+// coordExtent is the extent of the CDP coordinates of a set of traces;
+// has is false when every one is (0, 0).
+type coordExtent struct {
+	has                    bool
+	minX, maxX, minY, maxY float64
+}
+
+func newCoordExtent() coordExtent {
+	return coordExtent{minX: math.Inf(1), maxX: math.Inf(-1), minY: math.Inf(1), maxY: math.Inf(-1)}
+}
+
+// add takes one trace's coordinates into the extent.
+func (e *coordExtent) add(x, y float64) {
+	if x != 0 || y != 0 {
+		e.has = true
 	}
-	if !hasCoords {
+	e.minX, e.maxX = math.Min(e.minX, x), math.Max(e.maxX, x)
+	e.minY, e.maxY = math.Min(e.minY, y), math.Max(e.maxY, y)
+}
+
+// coordExtentOf is the extent of every trace's coordinates.
+func coordExtentOf(cx, cy []float64) coordExtent {
+	e := newCoordExtent()
+	for i := range cx {
+		e.add(cx[i], cy[i])
+	}
+	return e
+}
+
+// arrayCoords gives trace i's coordinates from arrays of every trace.
+func arrayCoords(cx, cy []float64) func(i int) (float64, float64) {
+	return func(i int) (float64, float64) { return cx[i], cy[i] }
+}
+
+// finishGeometry records the coordinate extent and computes the bin
+// spacing from the coordinates of the first and last traces of up to 256
+// lines each way (coord gives trace i's coordinates: from the arrays of a
+// full scan, or read on demand for a sampled hypothesis).
+func (f *File) finishGeometry(ext coordExtent, coord func(i int) (x, y float64), coordUnits int, bin []byte) {
+	if !ext.has {
 		return
 	}
-	f.info.MinX, f.info.MaxX, f.info.MinY, f.info.MaxY = minX, maxX, minY, maxY
+	f.info.MinX, f.info.MaxX, f.info.MinY, f.info.MaxY = ext.minX, ext.maxX, ext.minY, ext.maxY
 	g := &f.geo
 	if g.grid == nil {
 		return
@@ -507,6 +535,36 @@ func (f *File) finishGeometry(cx, cy []float64, coordUnits int, bin []byte) {
 		unit = 0.3048 // international foot
 		f.warnf("measurement system is feet (binary header byte 3255 = 2): bin spacing converted to metres")
 	}
+	// spacing along one line: distance between its first and last traces
+	// over the number of steps between them; median over up to 256 lines.
+	along := func(pairs []spacingPair) float64 {
+		var est []float64
+		for _, p := range pairs {
+			xa, ya := coord(p.a)
+			xb, yb := coord(p.b)
+			est = append(est, math.Hypot(xb-xa, yb-ya)/float64(p.steps))
+		}
+		if len(est) == 0 {
+			return 0
+		}
+		slices.Sort(est)
+		return est[len(est)/2] * unit
+	}
+	alongIl, alongXl := f.spacingPairs()
+	f.info.InlineSpacingM = along(alongIl)
+	f.info.CrosslineSpacingM = along(alongXl)
+}
+
+// spacingPair is a line's first and last traces and the grid steps
+// between them.
+type spacingPair struct{ a, b, steps int }
+
+// spacingPairs picks the traces the bin spacing is measured between: on up
+// to 256 inlines (alongIl) and crosslines (alongXl) spread evenly, the
+// first and the last position holding a trace (the first offset that has
+// one).
+func (f *File) spacingPairs() (alongIl, alongXl []spacingPair) {
+	g := &f.geo
 	nIl, nxl := g.ilR.Count, g.xlR.Count
 	at := func(ili, xli int) int {
 		noff := max(1, len(g.offsets))
@@ -518,10 +576,8 @@ func (f *File) finishGeometry(cx, cy []float64, coordUnits int, bin []byte) {
 		}
 		return -1
 	}
-	// spacing along one line: distance between its first and last traces
-	// over the number of steps between them; median over up to 256 lines.
-	along := func(lines, positions int, get func(line, pos int) int) float64 {
-		var est []float64
+	pairs := func(lines, positions int, get func(line, pos int) int) []spacingPair {
+		var out []spacingPair
 		stride := max(1, lines/256)
 		for l := 0; l < lines; l += stride {
 			a, b := -1, -1
@@ -538,26 +594,34 @@ func (f *File) finishGeometry(cx, cy []float64, coordUnits int, bin []byte) {
 					break
 				}
 			}
-			if a < 0 || b < 0 {
-				continue
+			if a >= 0 && b >= 0 {
+				out = append(out, spacingPair{a, b, pb - pa})
 			}
-			est = append(est, math.Hypot(cx[b]-cx[a], cy[b]-cy[a])/float64(pb-pa))
 		}
-		if len(est) == 0 {
-			return 0
-		}
-		slices.Sort(est)
-		return est[len(est)/2] * unit
+		return out
 	}
-	f.info.InlineSpacingM = along(nIl, nxl, func(l, p int) int { return at(l, p) })
-	f.info.CrosslineSpacingM = along(nxl, nIl, func(l, p int) int { return at(p, l) })
+	return pairs(nIl, nxl, func(l, p int) int { return at(l, p) }), pairs(nxl, nIl, func(l, p int) int { return at(p, l) })
 }
+
+// amplitudeTraces lists the traces of the amplitude summary: at most 1000
+// spread evenly through n.
+func amplitudeTraces(n int) []int {
+	k := min(n, 1000)
+	out := make([]int, k)
+	for j := range out {
+		out[j] = amplitudeTrace(j, n)
+	}
+	return out
+}
+
+// amplitudeTrace is the j-th trace of amplitudeTraces(n).
+func amplitudeTrace(j, n int) int { return int(int64(j) * int64(n) / int64(min(n, 1000))) }
 
 // sampleAmplitudes fills the amplitude summary from at most 1000 traces
 // spread evenly through the file.
 func (f *File) sampleAmplitudes() error {
 	n := f.ntraces
-	k := min(n, 1000)
+	k := len(amplitudeTraces(n))
 	buf := make([]float32, f.samples)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	var sum2 float64
@@ -566,7 +630,7 @@ func (f *File) sampleAmplitudes() error {
 		if err := f.scanCancelled(j * 16); err != nil { // every 64 sampled traces
 			return err
 		}
-		i := int(int64(j) * int64(n) / int64(k))
+		i := amplitudeTrace(j, n)
 		var err error
 		buf, err = f.ReadTrace(i, buf)
 		if err != nil {

@@ -12,6 +12,7 @@ import (
 	"syscall"
 
 	"quadtrace/app/export"
+	"quadtrace/app/indexcache"
 	"quadtrace/compute"
 	"quadtrace/segy"
 )
@@ -198,6 +199,7 @@ func Export(args []string, stdout, stderr io.Writer) int {
 		Attributes: a.attributes, Params: a.params, Conditioning: cond,
 		Output: a.out, Format: a.format, Inlines: a.inlines, Crosslines: a.crosslines,
 		BudgetBytes: a.budget, FollowLinks: a.follow,
+		IndexCache: indexcache.Default(), // a second export of the same file reads no header before the traces
 	}
 
 	// The process is the export's own: bound its heap by the budget unless

@@ -11,6 +11,7 @@ import (
 	"syscall"
 
 	"quadtrace/app/figure"
+	"quadtrace/app/indexcache"
 	"quadtrace/app/outfile"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
@@ -162,7 +163,7 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	if demo {
 		v, err = volume.Demo(ctx, synth.DefaultConfig(), nil)
 	} else {
-		v, err = volume.OpenContext(ctx, file, opt)
+		v, err = volume.OpenFast(ctx, file, opt, indexcache.Default())
 	}
 	if ctx.Err() != nil {
 		if v != nil {
@@ -175,9 +176,37 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	}
 	defer v.Close()
 	if err := checkRange(v, r, *offset != ""); err != nil {
-		return c.fail(file, err)
+		if v.Exact() {
+			return c.fail(file, err)
+		}
+		// the sampled geometry may lack the line: ask the exact one
+		nv, _, cerr := v.Check(ctx, nil)
+		if ctx.Err() != nil {
+			return interrupted()
+		}
+		if cerr != nil {
+			return c.fail(file, cerr)
+		}
+		if nv != nil {
+			defer nv.Close()
+			v = nv
+		}
+		if err := checkRange(v, r, *offset != ""); err != nil {
+			return c.fail(file, err)
+		}
 	}
 	img, err := figure.Draw(ctx, v, r)
+	if err == nil && !demo {
+		// a sampled geometry: confirm the drawn traces, else check every
+		// header and draw again (see exactFigure)
+		var nv *volume.Volume
+		if nv, err = exactFigure(ctx, v, r, stderr); nv != nil {
+			defer nv.Close()
+			if err = checkRange(nv, r, *offset != ""); err == nil {
+				img, err = figure.Draw(ctx, nv, r)
+			}
+		}
+	}
 	if ctx.Err() != nil {
 		return interrupted()
 	}
@@ -192,6 +221,44 @@ func Figure(args []string, stdout, stderr io.Writer) int {
 	}
 	fmt.Fprintln(stdout, out)
 	return exitOK
+}
+
+// exactFigure is the figure's geometry contract with the fast open: a
+// figure is drawn from the index the open gave (exact from the cache, or
+// a sampled hypothesis). For a hypothesis, the header of every trace
+// drawn is read (volume.Confirm); when one is not where the hypothesis put
+// it, when the line has positions without a trace, or for a time slice
+// (every trace), every header is checked (volume.Check, which also fills
+// the cache) and the figure is drawn again from the exact index, with a
+// note on stderr when the geometry changed. It returns that exact volume
+// (nil when the first drawing stands).
+func exactFigure(ctx context.Context, v *volume.Volume, r figure.Request, stderr io.Writer) (*volume.Volume, error) {
+	if v.Exact() {
+		return nil, nil
+	}
+	ok, err := v.Confirm(ctx, volume.Slice{Orientation: r.Orientation, Number: lineNumber(r), Offset: r.Offset})
+	if err != nil || ok {
+		return nil, err
+	}
+	nv, ch, err := v.Check(ctx, nil)
+	if err != nil {
+		return nil, err
+	}
+	if ch != nil && ch.Geometry {
+		fmt.Fprintf(stderr, "quadtrace figure: %s: %s\n", v.Path(), ch.Summary)
+	}
+	return nv, nil
+}
+
+// lineNumber is the inline or crossline a request draws (0 for a time slice).
+func lineNumber(r figure.Request) int {
+	switch r.Orientation {
+	case volume.Inline:
+		return r.Inline
+	case volume.Crossline:
+		return r.Crossline
+	}
+	return 0
 }
 
 // checkRange refuses a line, time or offset outside the survey, naming the

@@ -4,6 +4,8 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"image"
+	"image/color"
 	"io"
 	"math"
 	"os"
@@ -12,6 +14,7 @@ import (
 	"strconv"
 	"strings"
 
+	"quadtrace/app/figure"
 	"quadtrace/app/horizonjob"
 	"quadtrace/app/outfile"
 	"quadtrace/app/style"
@@ -49,7 +52,10 @@ func (s *seedList) Set(v string) error {
 type survey struct {
 	src    horizon.Source
 	layout horizon.Layout
-	close  func() error
+	// live reports whether the survey has a trace at grid index (il, xl);
+	// nil: every position has one.
+	live  func(il, xl int) bool
+	close func() error
 }
 
 // openSurvey opens FILE (or the demo survey) as a trace source.
@@ -74,7 +80,7 @@ func openSurvey(ctx context.Context, demo bool, file string, opt segy.Options) (
 		f.Close()
 		return nil, err
 	}
-	return &survey{src: src, layout: src.Layout(), close: f.Close}, nil
+	return &survey{src: src, layout: src.Layout(), live: src.Live, close: f.Close}, nil
 }
 
 // writeOutput writes an output through outfile's policy (complete or not
@@ -109,6 +115,7 @@ survey) and writes it as a horizon text file.`, stdout, stderr)
 	env := fs.Float64("min-envelope", 0, "smallest envelope as a fraction of the local level (0: off)")
 	corr := fs.Float64("min-correlation", 0.8, "smallest waveform correlation with the neighbour, -1 to 1")
 	corrWin := fs.Float64("correlation-window", horizon.DefaultCorrelationMS, "length of the correlation window, ms")
+	minSep := fs.Float64("min-separation", 0, "interference rule: leave empty where a strong event of the opposite polarity lies closer than this, ms; the tuning thickness stops a thinning bed at tuning (0: off)")
 	fs.StringVar(&out, "out", "", "output horizon file")
 	c.segyFlags()
 	pos, code, done := c.parse(args)
@@ -127,7 +134,7 @@ survey) and writes it as a horizon text file.`, stdout, stderr)
 	if err != nil {
 		return c.end(2, fmt.Errorf("--event: %w", err))
 	}
-	opt := horizon.Options{Event: ev, WindowMS: *window, MaxPhaseJumpDeg: *phase, MinEnvelope: *env, MinCorrelation: *corr, CorrelationMS: *corrWin}
+	opt := horizon.Options{Event: ev, WindowMS: *window, MaxPhaseJumpDeg: *phase, MinEnvelope: *env, MinCorrelation: *corr, CorrelationMS: *corrWin, MinSeparationMS: *minSep}
 	if err := opt.Check(); err != nil {
 		return c.end(2, err)
 	}
@@ -182,20 +189,7 @@ func firstOr(pos []string) string {
 // readHorizon reads a horizon file onto the survey's grid; errors name
 // the file and the line.
 func readHorizon(path string, l horizon.Layout) (*horizon.Horizon, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	picks, err := horizon.Read(f)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	h, err := horizon.FromPicks(l, picks)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	return h, nil
+	return horizonjob.ReadFile(path, l)
 }
 
 // Map runs `quadtrace map`: it maps an attribute along a horizon (its value
@@ -204,7 +198,8 @@ func readHorizon(path string, l horizon.Layout) (*horizon.Horizon, error) {
 // (.png).
 func Map(args []string, stdout, stderr io.Writer) int {
 	c := newCommand("map", "(FILE | --demo) --horizon HORIZON.txt --attribute ID --out MAP.png|MAP.txt [options]", `Maps an attribute along a tracked horizon (or in a window around it, or
-between two horizons) and writes the map as a text grid or a PNG figure.`, stdout, stderr)
+between two horizons) and writes the map as a text grid or a PNG figure
+(legend, scale bar, north arrow and the survey's outline).`, stdout, stderr)
 	fs := c.fs
 	var demo bool
 	var out, top, base string
@@ -326,9 +321,30 @@ between two horizons) and writes the map as a text grid or a PNG figure.`, stdou
 	return 0
 }
 
-// writeMapFigure draws the map as a report figure (axes in line numbers,
-// legend, scale bar from the bin spacing) and writes it as PNG.
+// writeMapFigure draws the map as a report figure (see mapFigure) with
+// the survey's outline, and writes it as PNG.
 func writeMapFigure(out string, inputs []string, m *horizon.AttributeMap, sv *survey, attr *compute.Attribute, spec horizon.MapSpec, width, height int, dpi float64, name string) error {
+	fig, err := mapFigure(m, sv, attr, spec, width, height, name)
+	if err != nil {
+		return err
+	}
+	img, err := fig.Draw()
+	if err != nil {
+		return err
+	}
+	lay, err := fig.Layout()
+	if err != nil {
+		return err
+	}
+	drawOutline(img, lay.Plot, m.Inlines, m.Crosslines, sv.live)
+	return writeOutput(out, inputs, func(w io.Writer) error { return render.EncodePNG(w, img, dpi) })
+}
+
+// mapFigure returns the report figure of a map: axes in line numbers,
+// the attribute's legend, a scale bar from the bin spacing, and (when the
+// survey has coordinates at the grid's corners) a north arrow and the
+// corners' X/Y (figure.MapGeo).
+func mapFigure(m *horizon.AttributeMap, sv *survey, attr *compute.Attribute, spec horizon.MapSpec, width, height int, name string) (render.Figure, error) {
 	l := sv.layout
 	data := make([][]float32, m.Inlines)
 	any := false
@@ -339,11 +355,11 @@ func writeMapFigure(out string, inputs []string, m *horizon.AttributeMap, sv *su
 		}
 	}
 	if !any {
-		return errors.New("the map holds no values (no picks, or the window is off the traces)")
+		return render.Figure{}, errors.New("the map holds no values (no picks, or the window is off the traces)")
 	}
 	pal, err := style.Palette(attr, "")
 	if err != nil {
-		return err
+		return render.Figure{}, err
 	}
 	layer := style.Layer(attr, data, pal, 99)
 	// Bin spacing from the coordinates of the grid's corners.
@@ -374,18 +390,83 @@ func writeMapFigure(out string, inputs []string, m *horizon.AttributeMap, sv *su
 			title += fmt.Sprintf(" over %g to %g ms", spec.FromMS, spec.ToMS)
 		}
 	}
-	fig := render.Figure{
+	lastIL, lastXL := l.FirstInline+(m.Inlines-1)*l.InlineStep, l.FirstCrossline+(m.Crosslines-1)*l.CrosslineStep
+	return render.Figure{
 		Title: title, Base: layer,
-		Horizontal: render.Axis{Title: "crossline", First: float64(l.FirstCrossline), Last: float64(l.FirstCrossline + (m.Crosslines-1)*l.CrosslineStep)},
-		Vertical:   render.Axis{Title: "inline", First: float64(l.FirstInline), Last: float64(l.FirstInline + (m.Inlines-1)*l.InlineStep)},
+		Horizontal: render.Axis{Title: "crossline", First: float64(l.FirstCrossline), Last: float64(lastXL)},
+		Vertical:   render.Axis{Title: "inline", First: float64(l.FirstInline), Last: float64(lastIL)},
 		MapAspect:  aspect,
 		Scale:      render.ScaleBar{MetresPerTrace: perXL},
 		Legends:    []render.Legend{style.LegendFor(attr, layer)},
 		Width:      width, Height: height,
+		Geo: figure.MapGeo(layoutPlace{l}, []int{l.FirstInline, lastIL}, []int{l.FirstCrossline, lastXL}),
+	}, nil
+}
+
+// layoutPlace gives figure.MapGeo a horizon layout's coordinates by line
+// numbers. A layout reads (0, 0) where a trace is missing (horizonjob's
+// FileSource): that counts as no coordinates.
+type layoutPlace struct{ l horizon.Layout }
+
+func (p layoutPlace) Coordinates(inline, crossline int) (x, y float64, ok bool) {
+	l := p.l
+	if l.XY == nil || l.InlineStep == 0 || l.CrosslineStep == 0 {
+		return 0, 0, false
 	}
-	img, err := fig.Draw()
-	if err != nil {
-		return err
+	il, xl := (inline-l.FirstInline)/l.InlineStep, (crossline-l.FirstCrossline)/l.CrosslineStep
+	if il < 0 || il >= l.Inlines || xl < 0 || xl >= l.Crosslines {
+		return 0, 0, false
 	}
-	return writeOutput(out, inputs, func(w io.Writer) error { return render.EncodePNG(w, img, dpi) })
+	x, y = l.XY(il, xl)
+	return x, y, x != 0 || y != 0
+}
+
+// outlineColour is the survey outline's ink (the figure's dark ink).
+var outlineColour = color.RGBA{25, 25, 25, 255}
+
+// drawOutline draws the survey's outline on a map drawn in plot (inlines
+// down, crosslines across, ni x nx cells): the edges between grid cells
+// with a trace and cells without one or outside the grid. live nil means
+// every cell has a trace (the outline is the map's edge).
+func drawOutline(img *image.RGBA, plot image.Rectangle, ni, nx int, live func(il, xl int) bool) {
+	if ni < 1 || nx < 1 || plot.Empty() {
+		return
+	}
+	in := func(il, xl int) bool {
+		return il >= 0 && il < ni && xl >= 0 && xl < nx && (live == nil || live(il, xl))
+	}
+	cw, ch := float64(plot.Dx())/float64(nx), float64(plot.Dy())/float64(ni)
+	x := func(xl int) float64 { return float64(plot.Min.X) + float64(xl)*cw }
+	y := func(il int) float64 { return float64(plot.Min.Y) + float64(il)*ch }
+	const width = 2
+	// Horizontal edges (between inline il-1 and il), merged along runs.
+	for il := 0; il <= ni; il++ {
+		for xl := 0; xl < nx; {
+			if in(il-1, xl) == in(il, xl) {
+				xl++
+				continue
+			}
+			end := xl
+			for end < nx && in(il-1, end) != in(il, end) {
+				end++
+			}
+			render.StrokePolyline(img, []float64{x(xl), x(end)}, []float64{y(il), y(il)}, width, outlineColour)
+			xl = end
+		}
+	}
+	// Vertical edges (between crossline xl-1 and xl).
+	for xl := 0; xl <= nx; xl++ {
+		for il := 0; il < ni; {
+			if in(il, xl-1) == in(il, xl) {
+				il++
+				continue
+			}
+			end := il
+			for end < ni && in(end, xl-1) != in(end, xl) {
+				end++
+			}
+			render.StrokePolyline(img, []float64{x(xl), x(xl)}, []float64{y(il), y(end)}, width, outlineColour)
+			il = end
+		}
+	}
 }

@@ -3,6 +3,8 @@ package cli
 import (
 	"os"
 	"testing"
+
+	"quadtrace/app/indexcache"
 )
 
 // childEnv, when set in the environment, makes the test binary act as the
@@ -22,5 +24,14 @@ func TestMain(m *testing.M) {
 	case "figure":
 		os.Exit(Figure(os.Args[1:], os.Stdout, os.Stderr))
 	}
-	os.Exit(m.Run())
+	// No test touches the user's cache: the geometry index cache goes to
+	// a temporary folder (children inherit it), removed at the end.
+	dir, err := os.MkdirTemp("", "quadtrace-cli-cache-")
+	if err != nil {
+		panic(err)
+	}
+	os.Setenv(indexcache.EnvDir, dir)
+	code := m.Run()
+	os.RemoveAll(dir)
+	os.Exit(code)
 }

@@ -6,6 +6,7 @@ import (
 	"slices"
 	"strings"
 
+	"quadtrace/app/indexcache"
 	"quadtrace/compute"
 	"quadtrace/segy"
 )
@@ -54,6 +55,11 @@ type Job struct {
 	// FollowLinks writes at the target of an output that is a symbolic
 	// link; by default such an output is refused (app/outfile).
 	FollowLinks bool
+
+	// IndexCache, when set, keeps the input's exact geometry index between
+	// runs (app/indexcache): a second export of the same file version
+	// reads no trace header before the traces. nil reads every header.
+	IndexCache *indexcache.Cache
 }
 
 // Run exports the attributes of job.Input, streaming blocks of traces
@@ -88,6 +94,7 @@ func Run(ctx context.Context, job Job, progress func(Progress)) ([]string, error
 		input: job.Input, options: job.SegyOptions, stages: stages, cond: c,
 		output: job.Output, format: job.Format, inlines: job.Inlines, crosslines: job.Crosslines,
 		budget: job.BudgetBytes, followLinks: job.FollowLinks, source: job.Source, stem: job.Stem,
+		indices: job.IndexCache,
 	}, progress)
 }
 
@@ -118,8 +125,8 @@ func resolveStages(ids []string, params map[string]string) ([]stage, error) {
 		p := resolved[k]
 		stages[k] = stage{
 			id: a.ID, name: a.Name, params: strings.ReplaceAll(p.Encode(), ",", " "),
-			compute: func(ctx context.Context, in compute.Section) (compute.Section, error) {
-				return a.Compute(ctx, in, p, nil)
+			compute: func(ctx context.Context, in, out compute.Section) error {
+				return a.ComputeInto(ctx, in, out, p, nil)
 			},
 		}
 	}

@@ -33,7 +33,10 @@ type block[H any] struct {
 	headers []H         // trace header of each trace
 	buffers [][]float32 // owned sample buffers, len(buffers) == capacity
 	traces  [][]float32 // samples as returned by read, traces[:n]
-	outs    [][][]float32
+	// outs are the outputs computed for this block; they stay with the
+	// block when it is recycled and go back to compute as its reuse, so
+	// that a stream of blocks writes into memory it has already touched.
+	outs [][][]float32
 }
 
 // pipeline streams the selected traces of a volume through three stages
@@ -51,8 +54,10 @@ type pipeline[H any] struct {
 	// (len(dst) == samples), returning the samples.
 	read func(i int, h *H, dst []float32) ([]float32, error)
 	// compute turns a block of input traces into one block of traces per
-	// output, each with len(in) traces.
-	compute func(ctx context.Context, in [][]float32) ([][][]float32, error)
+	// output, each with len(in) traces. reuse is what compute returned for
+	// the same block buffer last time (nil the first time): outputs the
+	// writer has finished with, which compute may overwrite and return.
+	compute func(ctx context.Context, in [][]float32, reuse [][][]float32) ([][][]float32, error)
 	// write writes one trace of output o; calls for one output come in
 	// selection order.
 	write func(o int, h *H, samples []float32) error
@@ -139,7 +144,7 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 			if err := ctx.Err(); err != nil {
 				return err
 			}
-			outs, err := p.compute(ctx, b.traces[:b.n])
+			outs, err := p.compute(ctx, b.traces[:b.n], b.outs)
 			if err != nil {
 				return err
 			}
@@ -171,7 +176,6 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 				}
 			}
 			done += b.n
-			b.outs = nil
 			clear(b.traces) // drop references to slices read may have returned
 			free <- b
 			if p.progress != nil {

@@ -18,6 +18,7 @@ type fakeVolume struct {
 	read      atomic.Int64 // traces read
 	written   atomic.Int64 // traces written to output 0
 	maxAhead  atomic.Int64 // largest read - written seen by the reader
+	reused    atomic.Int64 // output traces computed into a reused buffer
 	failRead  int          // trace index whose read fails, -1 for none
 	failWrite int          // trace index whose write fails, -1 for none
 	cancelAt  int          // trace index at which read cancels, -1 for none
@@ -53,12 +54,21 @@ func (v *fakeVolume) pipeline(runs []traceRun, blockTraces int) *pipeline[fakeHe
 			}
 			return dst, nil
 		},
-		compute: func(ctx context.Context, in [][]float32) ([][][]float32, error) {
+		// Outputs handed back for reuse are overwritten in place, so a
+		// block recycled before the writer is done with it shows as
+		// wrong output values.
+		compute: func(ctx context.Context, in [][]float32, reuse [][][]float32) ([][][]float32, error) {
 			outs := make([][][]float32, 2)
 			for o := range outs {
 				outs[o] = make([][]float32, len(in))
 				for t, tr := range in {
-					y := make([]float32, len(tr))
+					var y []float32
+					if reuse != nil && t < len(reuse[o]) && len(reuse[o][t]) == len(tr) {
+						y = reuse[o][t]
+						v.reused.Add(1)
+					} else {
+						y = make([]float32, len(tr))
+					}
 					for k, x := range tr {
 						if o == 0 {
 							y[k] = 2 * x
@@ -135,6 +145,10 @@ func TestPipelineWritesEverySelectedTraceInOrder(t *testing.T) {
 					t.Errorf("progress went %d then %d", reports[i-1], reports[i])
 				}
 			}
+			blocks := (len(want) + c.blockTraces - 1) / c.blockTraces
+			if blocks > blocksInFlight && v.reused.Load() == 0 {
+				t.Errorf("%d blocks through %d block buffers, and no output buffer was reused", blocks, blocksInFlight)
+			}
 			if limit := int64(blocksInFlight * c.blockTraces); v.maxAhead.Load() > limit {
 				t.Errorf("reader ran %d traces ahead of the writer, more than %d blocks of %d", v.maxAhead.Load(), blocksInFlight, c.blockTraces)
 			}
@@ -172,14 +186,14 @@ func TestPipelineStopsOnFailureAndCancellation(t *testing.T) {
 func TestPipelineComputeErrorAndShortOutput(t *testing.T) {
 	v := &fakeVolume{samples: 4, failRead: -1, failWrite: -1, cancelAt: -1}
 	p := v.pipeline([]traceRun{{0, 100}}, 10)
-	p.compute = func(ctx context.Context, in [][]float32) ([][][]float32, error) {
+	p.compute = func(ctx context.Context, in [][]float32, _ [][][]float32) ([][][]float32, error) {
 		return nil, errors.New("invented compute failure")
 	}
 	if err := p.run(context.Background()); err == nil || err.Error() != "invented compute failure" {
 		t.Errorf("compute failure: error %v", err)
 	}
 	p = v.pipeline([]traceRun{{0, 100}}, 10)
-	p.compute = func(ctx context.Context, in [][]float32) ([][][]float32, error) {
+	p.compute = func(ctx context.Context, in [][]float32, _ [][][]float32) ([][][]float32, error) {
 		return [][][]float32{in[:len(in)-1]}, nil
 	}
 	if err := p.run(context.Background()); err == nil {

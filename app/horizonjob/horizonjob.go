@@ -86,6 +86,17 @@ func (s *FileSource) Trace(il, xl int, buf []float32) ([]float32, error) {
 	return s.f.ReadTrace(i, buf)
 }
 
+// Live reports whether the file has a trace at grid index (il, xl) (the
+// survey's outline on map figures).
+func (s *FileSource) Live(il, xl int) bool {
+	if il < 0 || il >= s.grid.Inlines || xl < 0 || xl >= s.grid.Crosslines {
+		return false
+	}
+	inl, xln := s.numbers(il, xl)
+	_, ok := s.f.TraceIndex(inl, xln, s.offset)
+	return ok
+}
+
 // Layout returns the numbering of the file's grid, with coordinates read
 // from each trace's header (zero where a trace is missing or unreadable).
 func (s *FileSource) Layout() horizon.Layout {

@@ -261,3 +261,57 @@ func TestMapAgreesWithNumpyOnSegyioVolume(t *testing.T) {
 		}
 	}
 }
+
+// FileSource.Live (the survey outline of map figures) says which grid
+// positions have a trace: on a SEG-Y file of inlines 1-4 by crosslines
+// 10-15 without the four traces of inlines 3-4 and crosslines 14-15
+// (written by segytest's builder to the SEG-Y rev 1 layout), exactly those
+// four read as missing, and read as NaN traces; positions off the grid are
+// not live.
+func TestFileSourceLive(t *testing.T) {
+	var traces []segytest.Trace
+	for _, tr := range segytest.Grid3D(segytest.Seq(1, 4, 1), segytest.Seq(10, 15, 1), 8) {
+		if !(tr.Inline >= 3 && tr.Crossline >= 14) {
+			traces = append(traces, tr)
+		}
+	}
+	file := segytest.Base3D()
+	file.Traces = traces
+	path := filepath.Join(t.TempDir(), "holes.sgy")
+	if err := os.WriteFile(path, file.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	f, err := segy.Open(path, segy.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	src, err := NewFileSource(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	g := src.Grid()
+	if g.Inlines != 4 || g.Crosslines != 6 {
+		t.Fatalf("grid %d x %d, want 4 x 6", g.Inlines, g.Crosslines)
+	}
+	for il := range 4 {
+		for xl := range 6 {
+			want := !(il >= 2 && xl >= 4)
+			if got := src.Live(il, xl); got != want {
+				t.Errorf("Live(%d, %d) = %v, want %v", il, xl, got, want)
+			}
+			tr, err := src.Trace(il, xl, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.IsNaN(float64(tr[0])) == want {
+				t.Errorf("trace (%d, %d) starts %v, live %v", il, xl, tr[0], want)
+			}
+		}
+	}
+	for _, p := range [][2]int{{-1, 0}, {0, -1}, {4, 0}, {0, 6}} {
+		if src.Live(p[0], p[1]) {
+			t.Errorf("Live(%d, %d) off the grid is true", p[0], p[1])
+		}
+	}
+}

@@ -2,9 +2,11 @@ package viewer
 
 import (
 	"fmt"
+	"image/color"
 	"math"
 	"math/rand"
 	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -13,9 +15,11 @@ import (
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/driver/desktop"
 	"fyne.io/fyne/v2/test"
+	"fyne.io/fyne/v2/widget"
 
 	"quadtrace/app/volume"
 	"quadtrace/compute"
+	"quadtrace/compute/horizon"
 	"quadtrace/compute/synth"
 	"quadtrace/segy/segytest"
 )
@@ -77,21 +81,11 @@ func TestRandomInteraction(t *testing.T) {
 		}
 		paths = append(paths, p)
 	}
-	a := test.NewTempApp(t)
 	demo := synth.Config{Inlines: 12, Crosslines: 16, Samples: 120, IntervalUS: 4000, Noise: 0.05, Seed: 3}
-	v := newViewer(a, Options{Demo: &demo}, newQueuedJobs())
-	v.win.Resize(fyne.NewSize(1000, 700))
-	t.Cleanup(func() {
-		v.jobs.close()
-		v.jobs.wait()
-		if v.vol != nil {
-			v.vol.Close()
-		}
-	})
-	v.start()
-	v.jobs.wait()
+	v := openDemoViewer(t, demo, fyne.NewSize(1000, 700))
 
 	attrs := compute.Attributes()
+	hzDir := t.TempDir()
 	var log []string
 	fail := func(format string, args ...any) {
 		t.Helper()
@@ -235,6 +229,92 @@ func TestRandomInteraction(t *testing.T) {
 			u.maxEntry.SetText(texts[rng.Intn(len(texts))])
 			u.maxEntry.OnSubmitted(u.maxEntry.Text)
 		}},
+		// Horizons: tools, seeds, tracking, cancels, erases, undo, the list.
+		{"horizon tool", func() {
+			v.hzEdit.panel.tool.SetSelected(toolNames[rng.Intn(len(toolNames))])
+		}},
+		{"seed click", func() {
+			v.hzEdit.panel.tool.SetSelected(toolNames[toolSeed])
+			// Mostly on the plot (where a seed can land), sometimes anywhere.
+			pos, ps := v.ui.section.plotRect(v.ui.section.Size())
+			if rng.Intn(4) == 0 {
+				pos, ps = fyne.NewPos(0, 0), v.ui.section.Size()
+			}
+			for i := rng.Intn(3); i >= 0; i-- {
+				v.ui.section.Tapped(&fyne.PointEvent{Position: fyne.NewPos(pos.X+rng.Float32()*ps.Width, pos.Y+rng.Float32()*ps.Height)})
+				if rng.Intn(2) == 0 {
+					v.jobs.wait()
+				}
+			}
+		}},
+		{"track", func() { test.Tap(v.hzEdit.panel.track) }},
+		{"horizon cancel", func() {
+			if !v.hzEdit.progress.box.Hidden {
+				test.Tap(v.hzEdit.progress.cancel)
+			}
+		}},
+		{"erase box", func() {
+			v.hzEdit.panel.tool.SetSelected(toolNames[toolErase])
+			s := v.ui.section.Size()
+			for i := rng.Intn(3); i >= 0; i-- {
+				v.ui.section.Dragged(&fyne.DragEvent{PointEvent: fyne.PointEvent{Position: fyne.NewPos(rng.Float32()*s.Width, rng.Float32()*s.Height)}, Dragged: fyne.Delta{DX: float32(rng.Intn(300) - 150), DY: float32(rng.Intn(300) - 150)}})
+			}
+			v.ui.section.DragEnd()
+		}},
+		{"undo", func() { test.Tap(v.hzEdit.panel.undo) }},
+		{"horizon list", func() {
+			p := v.hzEdit.panel
+			items := v.horizons.all()
+			if len(items) == 0 || rng.Intn(4) == 0 {
+				test.Tap(p.addButton)
+				return
+			}
+			h := items[rng.Intn(len(items))]
+			r := p.rows[h]
+			switch rng.Intn(6) {
+			case 0:
+				test.Tap(r.shown)
+			case 1:
+				test.Tap(r.name)
+			case 2:
+				test.Tap(r.remove)
+			case 3:
+				v.setHorizonColour(h, color.NRGBA{R: uint8(rng.Intn(256)), G: uint8(rng.Intn(256)), B: uint8(rng.Intn(256)), A: 255})
+			case 4:
+				names := []string{"", " ", "Top sand", "Horizon 1", "Base", h.Name}
+				v.renameHorizon(h, names[rng.Intn(len(names))])
+			case 5:
+				test.Tap(p.clearSeeds)
+			}
+		}},
+		{"tracking settings", func() {
+			p := v.hzEdit.panel
+			// Mostly settings the tracker takes (so that tracking runs),
+			// sometimes one it must refuse with a message.
+			good := [][]string{{"4", "8", "12", "30"}, {"0", "40", "90"}, {"0", "0.3", "0.6"}, {"-1", "0", "0.6", "0.9"}}
+			bad := []string{"", "x", "-1", "1e9", "NaN", "-0.5", "2"}
+			es := []*widget.Entry{p.window, p.phaseJump, p.minEnvelope, p.minCorr}
+			for i, e := range es {
+				e.SetText(good[i][rng.Intn(len(good[i]))])
+			}
+			if rng.Intn(5) == 0 {
+				es[rng.Intn(len(es))].SetText(bad[rng.Intn(len(bad))])
+			}
+			es[0].OnSubmitted(es[0].Text)
+			p.event.SetSelected(horizon.Events()[rng.Intn(len(horizon.Events()))])
+		}},
+		{"horizon file", func() {
+			items := v.horizons.all()
+			if len(items) == 0 {
+				return
+			}
+			path := filepath.Join(hzDir, "h.txt")
+			if rng.Intn(2) == 0 {
+				v.saveHorizon(items[rng.Intn(len(items))], path)
+			} else {
+				v.loadHorizon(path)
+			}
+		}},
 		{"figure data", func() {
 			if f, err := v.figureFor("t", 400, 300); err == nil {
 				if _, err := f.Draw(); err != nil {
@@ -264,6 +344,13 @@ func TestRandomInteraction(t *testing.T) {
 	}
 	v.jobs.wait()
 	checkConsistent(t, v, fail)
+	picked := 0
+	for _, h := range v.horizons.items {
+		if h.H != nil {
+			picked += h.H.Picked()
+		}
+	}
+	t.Logf("horizons at the end: %d, %d traces picked; status %q", len(v.horizons.items), picked, v.ui.message.Text)
 }
 
 // checkConsistent checks, once every job has finished, that what the
@@ -314,10 +401,60 @@ func checkConsistent(t *testing.T, v *viewer, fail func(string, ...any)) {
 			}
 		}
 	}
+	checkHorizons(v, fail)
 	vp := v.state.viewport(n, m)
 	for _, x := range []float64{vp.Trace0, vp.Trace1, vp.Sample0, vp.Sample1} {
 		if math.IsNaN(x) || math.IsInf(x, 0) {
 			fail("viewport %+v", vp)
 		}
+	}
+}
+
+// checkHorizons checks, once every job has finished, that the horizon list
+// agrees with itself and with the survey: the active entry exists, every
+// surface and seed lies on the survey's grid, undo stays bounded, the
+// Horizons tab lists every horizon, no horizon job is still shown as
+// running, and hidden horizons are not drawn.
+func checkHorizons(v *viewer, fail func(string, ...any)) {
+	l := &v.horizons
+	if (len(l.items) == 0) != (l.active == -1) || l.active >= len(l.items) {
+		fail("active horizon %d of %d", l.active, len(l.items))
+	}
+	names := map[string]bool{}
+	shown := 0
+	for _, h := range l.items {
+		if names[h.Name] || strings.TrimSpace(h.Name) == "" {
+			fail("horizon name %q empty or twice", h.Name)
+		}
+		names[h.Name] = true
+		if h.H != nil && (h.H.Inlines != v.info.Inline.Count || h.H.Crosslines != v.info.Crossline.Count) {
+			fail("%s: %d x %d grid on a %d x %d survey", h.Name, h.H.Inlines, h.H.Crosslines, v.info.Inline.Count, v.info.Crossline.Count)
+		}
+		for _, s := range h.seeds {
+			if s.Inline < 0 || s.Inline >= v.info.Inline.Count || s.Crossline < 0 || s.Crossline >= v.info.Crossline.Count {
+				fail("%s: seed %+v off the grid", h.Name, s)
+			}
+		}
+		if h.H != nil && h.picked != h.H.Picked() || h.H == nil && h.picked != 0 {
+			fail("%s: %d picks counted, %v on the surface", h.Name, h.picked, h.H != nil)
+		}
+		if len(h.undo) > maxUndo {
+			fail("%s: %d undo entries", h.Name, len(h.undo))
+		}
+		if v.hzEdit.panel.rows[h] == nil {
+			fail("%s is not in the Horizons tab", h.Name)
+		}
+		if !h.Hidden {
+			shown++
+		}
+	}
+	if len(v.hzEdit.panel.list.Objects) != len(l.items) {
+		fail("the Horizons tab lists %d of %d horizons", len(v.hzEdit.panel.list.Objects), len(l.items))
+	}
+	if !v.hzEdit.progress.box.Hidden || v.hzEdit.running != nil {
+		fail("a horizon job is shown as running with no job left")
+	}
+	if len(v.ui.section.marks) > shown {
+		fail("%d horizons drawn, %d shown", len(v.ui.section.marks), shown)
 	}
 }

@@ -58,6 +58,16 @@ type sectionView struct {
 	onResize func()
 	onKey    func(*fyne.KeyEvent)
 	focused  bool
+
+	// Horizons (horizonmarks.go): what a click and a drag do, the marks
+	// drawn over the picture, and the erase box being drawn.
+	tool           horizonTool
+	onSeed         func(trace, sample float64)
+	onErase        func(t0, s0, t1, s1 float64)
+	onShown        func() // after each new picture
+	marks          []sectionMark
+	boxing         bool
+	boxFrom, boxTo fyne.Position
 }
 
 func newSectionView() *sectionView {
@@ -70,6 +80,9 @@ func newSectionView() *sectionView {
 func (v *sectionView) setImage(img image.Image, vp render.Viewport, axes sectionAxes, aspect float64) {
 	v.img, v.vp, v.axes, v.aspect, v.message = img, vp, axes, aspect, ""
 	v.Refresh()
+	if v.onShown != nil {
+		v.onShown()
+	}
 }
 
 // setMessage replaces the section by a line of text.
@@ -178,6 +191,9 @@ func (v *sectionView) focus() {
 // Tapped picks the trace under the pointer and takes the keyboard.
 func (v *sectionView) Tapped(e *fyne.PointEvent) {
 	v.focus()
+	if v.toolTapped(e) {
+		return
+	}
 	t, s, in := v.toData(e.Position)
 	if in && v.onPick != nil {
 		v.onPick(t, s)
@@ -201,6 +217,9 @@ func (v *sectionView) Scrolled(e *fyne.ScrollEvent) {
 
 // Dragged pans: the section follows the pointer.
 func (v *sectionView) Dragged(e *fyne.DragEvent) {
+	if v.toolDragged(e) {
+		return
+	}
 	if v.onPan == nil {
 		return
 	}
@@ -211,7 +230,7 @@ func (v *sectionView) Dragged(e *fyne.DragEvent) {
 }
 
 // DragEnd is part of fyne.Draggable.
-func (v *sectionView) DragEnd() {}
+func (v *sectionView) DragEnd() { v.toolDragEnd() }
 
 // Resize re-renders at the new size.
 func (v *sectionView) Resize(s fyne.Size) {
@@ -263,6 +282,7 @@ type sectionRenderer struct {
 	// Tick marks and labels, made once and reused by every layout.
 	tickLines  linePool
 	tickLabels textPool
+	marks      markObjects // horizons over the picture
 }
 
 func (r *sectionRenderer) Destroy() {}
@@ -270,7 +290,9 @@ func (r *sectionRenderer) Destroy() {}
 func (r *sectionRenderer) MinSize() fyne.Size { return r.v.MinSize() }
 
 func (r *sectionRenderer) Objects() []fyne.CanvasObject {
-	objs := []fyne.CanvasObject{r.bg, r.image, r.frame, r.pickLine, r.pickRow, r.hTitle, r.vTitle, r.message}
+	objs := []fyne.CanvasObject{r.bg, r.image}
+	objs = append(objs, r.marks.objects()...)
+	objs = append(objs, r.frame, r.pickLine, r.pickRow, r.hTitle, r.vTitle, r.message)
 	return append(append(objs, r.tickLines.objects()...), r.tickLabels.objects()...)
 }
 
@@ -313,6 +335,7 @@ func (r *sectionRenderer) Layout(size fyne.Size) {
 	r.message.Move(fyne.NewPos(0, size.Height/2-12))
 	r.message.Resize(fyne.NewSize(size.Width, 24))
 
+	r.marks.layout(v, pos, ps, hasImage)
 	r.pickLine.Hidden = true
 	if hasImage && !math.IsNaN(v.pick) && v.vp.Trace1 > v.vp.Trace0 {
 		fx := float32((v.pick + 0.5 - v.vp.Trace0) / (v.vp.Trace1 - v.vp.Trace0))

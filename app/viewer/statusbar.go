@@ -8,21 +8,22 @@ import (
 )
 
 // statusBar is the line under the window: the values under the cursor, the
-// last message, and the progress of the work and export lanes with their
-// cancel buttons.
+// last message, and the progress of the work, export and header-check
+// lanes with their cancel buttons.
 type statusBar struct {
 	content fyne.CanvasObject
 	cursor  *widget.Label
 	message *widget.Label
 	work    *progressItem
 	export  *progressItem
+	check   *progressItem // the full header check after a sampled open (geometrycheck.go)
 }
 
 func newStatusBar() *statusBar {
-	s := &statusBar{cursor: widget.NewLabel(cursorHint), message: widget.NewLabel(""), work: newProgressItem(), export: newProgressItem()}
+	s := &statusBar{cursor: widget.NewLabel(cursorHint), message: widget.NewLabel(""), work: newProgressItem(), export: newProgressItem(), check: newProgressItem()}
 	s.cursor.TextStyle.Monospace = true
 	s.message.Truncation = fyne.TextTruncateEllipsis
-	s.content = container.NewBorder(nil, nil, s.cursor, container.NewHBox(s.export.box, s.work.box), s.message)
+	s.content = container.NewBorder(nil, nil, s.cursor, container.NewHBox(s.check.box, s.export.box, s.work.box), s.message)
 	return s
 }
 

@@ -19,6 +19,7 @@ import (
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/app"
 
+	"quadtrace/app/indexcache"
 	"quadtrace/app/volume"
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
@@ -38,6 +39,9 @@ type Options struct {
 	// Demo, when not nil, is the size of the demo survey to generate
 	// instead of synth.DefaultConfig (tests use a small one).
 	Demo *synth.Config
+	// IndexCache keeps the geometry indices of opened files (nil: none;
+	// Run uses indexcache.Default when it is nil).
+	IndexCache *indexcache.Cache
 }
 
 // Run opens the viewer window and returns when it is closed. With
@@ -45,6 +49,9 @@ type Options struct {
 // that prevented it.
 func Run(opt Options) error {
 	limitWindowMemory()
+	if opt.IndexCache == nil {
+		opt.IndexCache = indexcache.Default()
+	}
 	a := app.NewWithID("org.quadtrace.viewer")
 	v := newViewer(a, opt, newJobs())
 	v.start()
@@ -127,6 +134,10 @@ type viewer struct {
 
 	holds surveyHolds // the jobs reading each survey
 
+	// horizons are the window's horizons (see horizons.go).
+	horizons horizonList
+	hzEdit   horizonEditor // seeds, tracking, erasing (horizonedit.go)
+
 	// wantPick is the trace to pick in the next data shown (set by a change
 	// of view); history and histPos are the Back/Forward history.
 	wantPick    *pickKeys
@@ -138,7 +149,7 @@ type viewer struct {
 // newViewer builds the window on app a, with its background work run by js;
 // start opens the survey. The caller shows the window.
 func newViewer(a fyne.App, opt Options, js *jobs) *viewer {
-	v := &viewer{histPending: -1, app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
+	v := &viewer{horizons: horizonList{active: -1}, histPending: -1, app: a, opt: opt, jobs: js, segyOpt: opt.SegyOptions, ranges: map[string][2]float32{}, cache: newSectionCache(sectionCacheBytes)}
 	v.win = a.NewWindow("quadtrace")
 	v.buildUI()
 	v.restoreWindowSize()
@@ -169,7 +180,9 @@ func (v *viewer) onUI(j *job, f func()) {
 func (v *viewer) openFile(path string) {
 	opt := v.segyOpt
 	v.startOpen(filepath.Base(path), func(ctx context.Context, progress func(int, int)) (survey, error) {
-		vol, err := volume.OpenContext(ctx, path, opt) // Cancel stops the header scan too
+		// the geometry from the cache or a sample of the headers; the full
+		// check follows in the background (startCheck)
+		vol, err := volume.OpenFast(ctx, path, opt, v.opt.IndexCache) // Cancel stops the header scan too
 		if err != nil {
 			return nil, err
 		}
@@ -250,6 +263,8 @@ func (v *viewer) keepShownSurvey() bool {
 
 // setSurvey shows a newly opened survey from its middle inline.
 func (v *viewer) setSurvey(vol survey) {
+	v.jobs.cancel("check") // of the survey shown before
+	v.setIdle(v.ui.check)
 	v.closeSurvey(v.vol)
 	v.jobs.cancel("render") // a picture of the old survey must not show up
 	v.vol = vol
@@ -260,7 +275,8 @@ func (v *viewer) setSurvey(vol survey) {
 	v.ranges = map[string][2]float32{}
 	v.state = newViewState(v.info)
 	v.wantPick, v.history, v.histPos, v.histPending = nil, nil, 0, -1
-	v.showStatus("") // errors about the survey before do not apply
+	v.resetHorizons() // horizons belong to the survey they were picked on
+	v.showStatus("")  // errors about the survey before do not apply
 	if v.info.IntervalUS <= 0 {
 		// Without a sample interval no attribute can be computed; the
 		// amplitude can still be looked at.
@@ -278,6 +294,7 @@ func (v *viewer) setSurvey(vol survey) {
 		return
 	}
 	v.requestData()
+	v.startCheck()
 }
 
 func copyMap(m map[string]string) map[string]string {

@@ -47,6 +47,7 @@ func (v *viewer) buildUI() {
 	u.attributePanel = newAttributePanel(v)
 	u.displayPanel = newDisplayPanel(v)
 	u.surveyPanel = newSurveyPanel(v)
+	horizonsTab := v.buildHorizonUI()
 
 	workspace := container.New(&workspaceLayout{traceWidth: 300, stripHeight: 150},
 		u.section, u.trace, u.legends.content, u.spectrum)
@@ -55,10 +56,11 @@ func (v *viewer) buildUI() {
 		container.NewTabItem("Attribute", u.attributePanel.content),
 		container.NewTabItem("Display", u.displayPanel.content),
 		container.NewTabItem("Survey", u.surveyPanel.content),
+		container.NewTabItem("Horizons", horizonsTab),
 	)
 	split := container.NewHSplit(tabs, main)
 	split.Offset = 0.24
-	v.win.SetContent(container.NewBorder(nil, container.NewVBox(widget.NewSeparator(), u.statusBar.content), nil, nil, split))
+	v.win.SetContent(container.NewBorder(nil, container.NewVBox(widget.NewSeparator(), container.NewBorder(nil, nil, nil, v.hzEdit.progress.box, u.statusBar.content)), nil, nil, split))
 	v.win.SetMainMenu(v.mainMenu())
 	v.win.SetOnDropped(v.dropped)
 	v.bindKeys()

@@ -10,7 +10,9 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sync/atomic"
 
+	"quadtrace/app/indexcache"
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
 	"quadtrace/segy"
@@ -103,6 +105,20 @@ type Volume struct {
 	store store
 
 	attrs attributeStores // whole-volume brick stores (attribute.go)
+
+	// fast is set for a file opened with OpenFast: what Check needs to
+	// reopen it with the exact index
+	fast *fastOpen
+}
+
+// fastOpen is how a Volume was opened by OpenFast.
+type fastOpen struct {
+	file    *segy.File
+	opt     segy.Options
+	indices *indexcache.Cache
+	stamp   string
+	// checked is set when Check found the hypothesis exact
+	checked atomic.Bool
 }
 
 // Open opens a SEG-Y file read-only.
@@ -118,6 +134,133 @@ func OpenContext(ctx context.Context, path string, opt segy.Options) (*Volume, e
 		return nil, err
 	}
 	return &Volume{name: path, path: path, info: f.Info(), store: fileStore{f}}, nil
+}
+
+// OpenFast opens a SEG-Y file without reading every trace header when it
+// need not (segy.OpenFast): with the geometry index saved in indices for
+// this file version, exact at once; else from a sample of trace headers
+// when they support a regular grid (Exact is then false until Check), or
+// from every header, whose exact index is then saved in indices. indices
+// may be nil (no cache). ctx stops the open.
+func OpenFast(ctx context.Context, path string, opt segy.Options, indices *indexcache.Cache) (*Volume, error) {
+	return openFast(ctx, path, opt, indices, indices.Lookup(path, opt))
+}
+
+func openFast(ctx context.Context, path string, opt segy.Options, indices *indexcache.Cache, fo segy.FastOptions) (*Volume, error) {
+	f, err := segy.OpenFast(ctx, path, opt, fo)
+	if err != nil {
+		return nil, err
+	}
+	v := &Volume{name: path, path: path, info: f.Info(), store: fileStore{f},
+		fast: &fastOpen{file: f, opt: opt, indices: indices, stamp: fo.Stamp}}
+	if f.IndexSource() == segy.IndexFull && indices != nil {
+		// every header was read: keep the index for the next open (a
+		// cache that cannot be written only costs that next open time)
+		if ch, err := f.Check(ctx, nil); err == nil {
+			indices.Store(path, opt, ch.Index)
+		}
+	}
+	return v, nil
+}
+
+// Exact reports whether the volume's geometry index is exact: the demo
+// survey, a file opened with Open, or with OpenFast from every header or
+// a matching saved index. False means a sampled hypothesis (see Check).
+func (v *Volume) Exact() bool {
+	return v.fast == nil || v.fast.file.Exact() || v.fast.checked.Load()
+}
+
+// IndexSource says where a file's geometry index came from (segy.IndexFull
+// for the demo survey and Open).
+func (v *Volume) IndexSource() segy.IndexSource {
+	if v.fast == nil {
+		return segy.IndexFull
+	}
+	return v.fast.file.IndexSource()
+}
+
+// Check reads every trace header of a volume opened by OpenFast from a
+// sampled hypothesis (segy.File.Check: cancellable with ctx, progress
+// every 1024 traces, safe beside reads and Close of v) and saves the
+// exact index in the cache. When the exact Info differs from v's in
+// anything, it returns a new Volume over the same file with the exact
+// index (v is unchanged: the caller shows the new one and closes v when
+// its readers are done), and checked says what changed (checked.Geometry:
+// the sections drawn from v were wrong; checked.Summary in plain words).
+// For an exact volume it returns (nil, checked with nothing changed, nil)
+// at once; for the demo survey (nil, nil, nil).
+func (v *Volume) Check(ctx context.Context, progress func(done, total int)) (exact *Volume, checked *segy.Checked, err error) {
+	if v.fast == nil {
+		return nil, nil, nil
+	}
+	fo := v.fast
+	if fo.file.Exact() || fo.checked.Load() {
+		return nil, &segy.Checked{Info: v.info}, nil
+	}
+	ch, err := fo.file.Check(ctx, progress)
+	if err != nil {
+		return nil, nil, err
+	}
+	fo.indices.Store(v.path, fo.opt, ch.Index) // best effort, as at open
+	if !ch.Refined {
+		fo.checked.Store(true)
+		return nil, ch, nil
+	}
+	nv, err := openFast(ctx, v.path, fo.opt, fo.indices, segy.FastOptions{Saved: ch.Index, Stamp: fo.stamp})
+	if err != nil {
+		return nil, nil, err
+	}
+	if !nv.Exact() {
+		nv.Close()
+		return nil, nil, fmt.Errorf("%s: the file changed while its headers were checked; open it again", v.path)
+	}
+	return nv, ch, nil
+}
+
+// Confirm reports whether the traces of section s are where the geometry
+// index puts them, reading the header of each (next to the samples a
+// section reads anyway): true for an exact volume; for a hypothesis, true
+// when every position of an inline or crossline holds a trace whose
+// header carries that position's numbers. False for a time slice, or a
+// line with a position the hypothesis leaves empty (a trace for it may
+// lie anywhere): the caller then checks the whole file (Check). It cannot
+// see a trace elsewhere in the file that repeats a position of the line
+// (the full check would show the earlier of the two); Check can.
+func (v *Volume) Confirm(ctx context.Context, s Slice) (bool, error) {
+	if v.Exact() {
+		return true, nil
+	}
+	var positions []int
+	var at func(k int) (il, xl int)
+	switch s.Orientation {
+	case Inline:
+		positions = Numbers(v.info.Crossline)
+		at = func(k int) (int, int) { return s.Number, k }
+	case Crossline:
+		positions = Numbers(v.info.Inline)
+		at = func(k int) (int, int) { return k, s.Number }
+	default:
+		return false, nil
+	}
+	off := v.offset(s.Offset)
+	for j, k := range positions {
+		if j%256 == 0 && ctx.Err() != nil {
+			return false, ctx.Err()
+		}
+		il, xl := at(k)
+		i := v.store.traceIndex(il, xl, off)
+		if i < 0 {
+			return false, nil
+		}
+		h, err := v.store.traceHeader(i)
+		if err != nil {
+			return false, err
+		}
+		if h.Inline != il || h.Crossline != xl {
+			return false, nil
+		}
+	}
+	return true, nil
 }
 
 // Demo generates the built-in demo survey in memory with cfg

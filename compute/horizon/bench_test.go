@@ -2,11 +2,13 @@ package horizon_test
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"testing"
 	"time"
 
+	"quadtrace/compute"
 	"quadtrace/compute/horizon"
 	"quadtrace/compute/synth"
 )
@@ -24,6 +26,26 @@ func BenchmarkTrackDemo(b *testing.B) {
 	start := cpuTime()
 	for b.Loop() {
 		h, err := horizon.Track(context.Background(), src, seeds, trackOptions, nil)
+		if err != nil || h.Picked() < 29000 {
+			b.Fatal(err, h.Picked())
+		}
+	}
+	reportCPU(b, start)
+}
+
+// BenchmarkTrackDemoInterference is BenchmarkTrackDemo with the
+// interference rule on besides (MinSeparationMS at the tuning thickness of
+// the demo's 40 Hz source wavelet, 9.7 ms): its cost is the search for
+// events of the opposite polarity around each proposal.
+func BenchmarkTrackDemoInterference(b *testing.B) {
+	s := demo(b, synth.DefaultConfig())
+	src := source(b, s)
+	seeds := seedsFor(s, surface(b, s, synth.SurfaceSeafloor), [2]int{75, 100})
+	opt := trackOptions
+	opt.MinSeparationMS = horizon.TuningThicknessMS(synth.SourcePeakHz)
+	start := cpuTime()
+	for b.Loop() {
+		h, err := horizon.Track(context.Background(), src, seeds, opt, nil)
 		if err != nil || h.Picked() < 29000 {
 			b.Fatal(err, h.Picked())
 		}
@@ -116,6 +138,98 @@ func BenchmarkMapDemo(b *testing.B) {
 			start := cpuTime()
 			for b.Loop() {
 				if _, err := horizon.Map(context.Background(), src, h, spec, nil); err != nil {
+					b.Fatal(err)
+				}
+			}
+			reportCPU(b, start)
+		})
+	}
+}
+
+// BenchmarkSlabDemo measures what the window's map waits for on the
+// 150 x 200 demo survey with its seafloor tracked, from a slab read once
+// with the margin the default windowed attributes need (84 ms: SlabMarginMS
+// of sweetness's 40 ms window), 30 ms or 50 ms above and below the horizon
+// (stretches of 117 and 137 samples at 2 ms: FFTs of 128 and 256):
+// "attribute/ID" is an attribute change (the attribute on the slab's
+// stretches, then the RMS map over -20..+20 ms), "stat" a change of
+// statistic or window (the map alone), and "whole-trace/ID" the same
+// attribute change done on whole traces (compute's attribute of the whole
+// survey, then horizon.Map: what horizonjob.MapAttribute does, inline by
+// inline). The target for an attribute change is under 100 ms.
+func BenchmarkSlabDemo(b *testing.B) {
+	s := demo(b, synth.DefaultConfig())
+	src := source(b, s)
+	h, err := horizon.Track(context.Background(), src, seedsFor(s, surface(b, s, synth.SurfaceSeafloor), [2]int{75, 100}), trackOptions, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	ctx := context.Background()
+	lookup := func(id string) (*compute.Attribute, compute.Params) {
+		a, err := compute.Lookup(id)
+		if err != nil {
+			b.Fatal(err)
+		}
+		p, err := a.Resolve(nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		return a, p
+	}
+	sweet, sp := lookup("sweetness")
+	spec := horizon.MapSpec{Stat: horizon.RMS, FromMS: -20, ToMS: 20}
+	ids := []string{"envelope", "instantaneous-frequency", "sweetness"}
+	for _, half := range []float64{30, 50} {
+		slab, err := horizon.NewSlab(ctx, src, h, horizon.SlabSpec{AboveMS: half, BelowMS: half, MarginMS: horizon.SlabMarginMS(sweet, sp)}, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Logf("slab of +-%g ms on %d traces: %.1f MB", half, h.Picked(), float64(slab.Bytes())/1e6)
+		for _, id := range ids {
+			a, p := lookup(id)
+			b.Run(fmt.Sprintf("%gms/attribute/%s", half, id), func(b *testing.B) {
+				start := cpuTime()
+				for b.Loop() {
+					as, err := slab.Attribute(ctx, a, p)
+					if err != nil {
+						b.Fatal(err)
+					}
+					if _, err := as.Map(spec); err != nil {
+						b.Fatal(err)
+					}
+				}
+				reportCPU(b, start)
+			})
+		}
+		a, p := lookup("envelope")
+		as, err := slab.Attribute(ctx, a, p)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(fmt.Sprintf("%gms/stat", half), func(b *testing.B) {
+			start := cpuTime()
+			for b.Loop() {
+				if _, err := as.Map(horizon.MapSpec{Stat: horizon.MaxAbs, FromMS: -30, ToMS: 10}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			reportCPU(b, start)
+		})
+	}
+	for _, id := range ids {
+		a, p := lookup(id)
+		b.Run("whole-trace/"+id, func(b *testing.B) {
+			start := cpuTime()
+			for b.Loop() {
+				attr, err := a.Compute(ctx, compute.Section{Traces: s.Traces, DT: s.IntervalMS() / 1000}, p, nil)
+				if err != nil {
+					b.Fatal(err)
+				}
+				asrc, err := horizon.NewTraces(attr.Traces, 150, 200, attr.DT, 0)
+				if err != nil {
+					b.Fatal(err)
+				}
+				if _, err := horizon.Map(ctx, asrc, h, spec, nil); err != nil {
 					b.Fatal(err)
 				}
 			}

@@ -164,43 +164,70 @@ func Map(ctx context.Context, src Source, top *Horizon, spec MapSpec, progress f
 
 // mapTrace returns the map's value at one trace.
 func mapTrace(src Source, g Grid, top *Horizon, spec MapSpec, il, xl int, buf []float32) (float64, error) {
-	k := il*g.Crosslines + xl
-	t0 := top.TimeMS[k]
-	if top.State[k] == Empty || math.IsNaN(t0) {
+	w, ok := mapWindow(g, top, spec, il*g.Crosslines+xl)
+	if !ok {
 		return math.NaN(), nil
-	}
-	start, end := t0+spec.FromMS, t0+spec.ToMS
-	if spec.Base != nil {
-		if spec.Base.State[k] == Empty || math.IsNaN(spec.Base.TimeMS[k]) {
-			return math.NaN(), nil
-		}
-		end = spec.Base.TimeMS[k] + spec.ToMS
 	}
 	a, err := src.Trace(il, xl, buf)
 	if err != nil {
 		return 0, err
 	}
+	if w.value {
+		return w.interpolate(a[int(math.Floor(w.x)):]), nil
+	}
+	return windowStat(a[w.lo:w.hi+1], spec.Stat), nil
+}
+
+// traceWindow is what a map reads on one trace: for Value the fractional
+// sample x of the horizon, otherwise the samples lo to hi (ends included).
+type traceWindow struct {
+	value  bool
+	x      float64
+	lo, hi int
+	last   bool // Value: floor(x) is the trace's last sample
+}
+
+// mapWindow returns the samples the map reads on trace k, and false when
+// the map is NaN there (no pick, the horizon or the window off the trace).
+// Window samples are those j with start <= time(j) <= end, clamped in
+// floating point before conversion so that windows far off the trace stay
+// empty.
+func mapWindow(g Grid, top *Horizon, spec MapSpec, k int) (traceWindow, bool) {
+	t0 := top.TimeMS[k]
+	if top.State[k] == Empty || math.IsNaN(t0) {
+		return traceWindow{}, false
+	}
 	if spec.Stat == Value {
 		x := g.sampleAt(t0)
-		if !(x >= 0 && x <= float64(len(a)-1)) {
-			return math.NaN(), nil
+		if !(x >= 0 && x <= float64(g.Samples-1)) {
+			return traceWindow{}, false
 		}
-		i := int(math.Floor(x))
-		if i == len(a)-1 {
-			return float64(a[i]), nil
-		}
-		f := x - float64(i)
-		return (1-f)*float64(a[i]) + f*float64(a[i+1]), nil
+		return traceWindow{value: true, x: x, last: int(math.Floor(x)) == g.Samples-1}, true
 	}
-	// Samples j with start <= time(j) <= end, clamped in floating point
-	// before conversion so that windows far off the trace stay empty.
-	n := float64(len(a))
+	start, end := t0+spec.FromMS, t0+spec.ToMS
+	if spec.Base != nil {
+		if spec.Base.State[k] == Empty || math.IsNaN(spec.Base.TimeMS[k]) {
+			return traceWindow{}, false
+		}
+		end = spec.Base.TimeMS[k] + spec.ToMS
+	}
+	n := float64(g.Samples)
 	lo := int(math.Max(0, math.Min(n, math.Ceil(g.sampleAt(start)-1e-9))))
 	hi := int(math.Max(-1, math.Min(n-1, math.Floor(g.sampleAt(end)+1e-9))))
 	if lo > hi {
-		return math.NaN(), nil
+		return traceWindow{}, false
 	}
-	return windowStat(a[lo:hi+1], spec.Stat), nil
+	return traceWindow{lo: lo, hi: hi}, true
+}
+
+// interpolate returns Value's linear interpolation at w.x from a, which
+// starts at sample floor(w.x).
+func (w traceWindow) interpolate(a []float32) float64 {
+	if w.last {
+		return float64(a[0])
+	}
+	f := w.x - math.Floor(w.x)
+	return (1-f)*float64(a[0]) + f*float64(a[1])
 }
 
 // windowStat returns statistic s (not Value) of the samples in w, gaps

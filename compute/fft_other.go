@@ -1,0 +1,14 @@
+//go:build !amd64 || purego
+
+package compute
+
+// haveSIMD is false where fft_amd64.s does not build: every pass runs in
+// Go.
+const haveSIMD = false
+
+// applySIMD runs nothing here: there are no vector passes.
+func (g *fftStage) applySIMD(y, x []complex128) bool { return false }
+
+// instFillVector writes nothing here: InstantaneousSet.fill does every
+// sample in Go.
+func instFillVector(a, ph, f, c []float32, x, h, dx, dh []float64, eps float64) int { return 0 }

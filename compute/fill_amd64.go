@@ -1,0 +1,24 @@
+//go:build amd64 && !purego
+
+package compute
+
+// instFillSIMD writes for samples j < n (n a multiple of 4; the rest are
+// left alone) the envelope a, phase ph in degrees, frequency f in Hz and
+// cosine of phase c of the analytic trace x + ih with derivatives dx, dh,
+// by the formulas of InstantaneousSet.fill (atan2 by atan2s's polynomial),
+// four samples per step with AVX2 and FMA (haveSIMD). Gaps are not its
+// business.
+//
+//go:noescape
+func instFillSIMD(a, ph, f, c *float32, x, h, dx, dh *float64, n int, eps float64)
+
+// instFillVector runs instFillSIMD on the longest multiple of 4 of the
+// trace and returns how many samples it wrote.
+func instFillVector(a, ph, f, c []float32, x, h, dx, dh []float64, eps float64) int {
+	n := len(x) &^ 3
+	if !haveSIMD || n == 0 || len(a) < n || len(ph) < n || len(f) < n || len(c) < n || len(h) < n || len(dx) < n || len(dh) < n {
+		return 0
+	}
+	instFillSIMD(&a[0], &ph[0], &f[0], &c[0], &x[0], &h[0], &dx[0], &dh[0], n, eps)
+	return n
+}

@@ -1,0 +1,127 @@
+//go:build amd64 && !purego
+
+#include "textflag.h"
+
+// The instantaneous set's per-sample formulas (InstantaneousSet.fill),
+// four samples at a time in 256-bit registers; see instFillSIMD in
+// fill_amd64.go for the contract.
+
+#define C4X(name, bits) \
+	DATA name<>+0(SB)/8, bits; \
+	DATA name<>+8(SB)/8, bits; \
+	DATA name<>+16(SB)/8, bits; \
+	DATA name<>+24(SB)/8, bits; \
+	GLOBL name<>(SB), RODATA|NOPTR, $32
+
+C4X(absmask, $0x7fffffffffffffff)
+C4X(signmask, $0x8000000000000000)
+C4X(tiny, $0x0000000000000001)      // smallest subnormal: 0/tiny = 0
+C4X(one, $1.0)
+C4X(minusone, $-1.0)
+C4X(halfpi, $1.5707963267948966)
+C4X(pi, $3.141592653589793)
+C4X(todeg, $57.29577951308232)
+C4X(inv2pi, $0.15915494309189535)
+C4X(atc0, $0.9999998864002476)      // atanC0..atanC8 of atan.go
+C4X(atc1, $-0.33332597062776337)
+C4X(atc2, $0.19985906898953018)
+C4X(atc3, $-0.14161228574093698)
+C4X(atc4, $0.10498940435713522)
+C4X(atc5, $-0.07234841340631744)
+C4X(atc6, $0.03978100294214533)
+C4X(atc7, $-0.014401208208164165)
+C4X(atc8, $0.002456684442660159)
+
+// func instFillSIMD(a, ph, f, c *float32, x, h, dx, dh *float64, n int, eps float64)
+TEXT ·instFillSIMD(SB), NOSPLIT, $0-80
+	MOVQ a+0(FP), R8
+	MOVQ ph+8(FP), R9
+	MOVQ f+16(FP), R10
+	MOVQ c+24(FP), R11
+	MOVQ x+32(FP), SI
+	MOVQ h+40(FP), DI
+	MOVQ dx+48(FP), AX
+	MOVQ dh+56(FP), BX
+	MOVQ n+64(FP), CX
+	VBROADCASTSD eps+72(FP), Y9
+	SHRQ $2, CX
+	JEQ  done
+	XORQ DX, DX               // byte offset into the float64 inputs
+
+loop:
+	VMOVUPD (SI)(DX*1), Y10   // x
+	VMOVUPD (DI)(DX*1), Y11   // h
+	// Phase: atan of t = min(|x|,|h|) / max(|x|,|h|) by the polynomial of
+	// atan.go (Estrin's scheme), then the octant from |h| > |x| and the
+	// signs of x and h, as atan2s.
+	VANDPD absmask<>(SB), Y10, Y12
+	VANDPD absmask<>(SB), Y11, Y13
+	VCMPPD $0x11, Y13, Y12, Y8 // |x| < |h|: swap
+	VMAXPD Y13, Y12, Y14
+	VMAXPD tiny<>(SB), Y14, Y14
+	VMINPD Y13, Y12, Y15
+	VDIVPD Y14, Y15, Y0       // t
+	VMULPD Y0, Y0, Y1         // t²
+	VMULPD Y1, Y1, Y2         // t⁴
+	VMULPD Y2, Y2, Y3         // t⁸
+	VMOVUPD atc1<>(SB), Y4
+	VFMADD213PD atc0<>(SB), Y1, Y4 // q01
+	VMOVUPD atc3<>(SB), Y5
+	VFMADD213PD atc2<>(SB), Y1, Y5 // q23
+	VMOVUPD atc5<>(SB), Y6
+	VFMADD213PD atc4<>(SB), Y1, Y6 // q45
+	VMOVUPD atc7<>(SB), Y7
+	VFMADD213PD atc6<>(SB), Y1, Y7 // q67
+	VFMADD231PD Y5, Y2, Y4    // q03 = q01 + q23 t⁴
+	VFMADD231PD Y7, Y2, Y6    // q47 = q45 + q67 t⁴
+	VMOVUPD atc8<>(SB), Y5
+	VFMADD213PD Y6, Y3, Y5    // q47 + c8 t⁸
+	VFMADD213PD Y4, Y3, Y5    // q03 + (...) t⁸
+	VMULPD Y5, Y0, Y0         // p
+	VMOVUPD halfpi<>(SB), Y1
+	VSUBPD Y0, Y1, Y1
+	VBLENDVPD Y8, Y1, Y0, Y0  // swap: π/2 - p
+	VMOVUPD pi<>(SB), Y1
+	VSUBPD Y0, Y1, Y1
+	VBLENDVPD Y10, Y1, Y0, Y0 // x's sign bit set: π - p
+	VANDPD signmask<>(SB), Y11, Y1
+	VORPD Y1, Y0, Y0          // the sign of h
+	VMULPD todeg<>(SB), Y0, Y0
+	VCVTPD2PSY Y0, X0
+	VMOVUPS X0, (R9)
+	// Envelope r = sqrt(x² + h²), inv = 1/(x² + h² + eps).
+	VMULPD Y10, Y10, Y0
+	VFMADD231PD Y11, Y11, Y0  // a²
+	VSQRTPD Y0, Y1            // r
+	VADDPD Y9, Y0, Y2
+	VMOVUPD one<>(SB), Y3
+	VDIVPD Y2, Y3, Y3         // inv
+	VCVTPD2PSY Y1, X4
+	VMOVUPS X4, (R8)
+	// Frequency (x h' - h x') / 2π · inv.
+	VMOVUPD (AX)(DX*1), Y4
+	VMOVUPD (BX)(DX*1), Y5
+	VMULPD Y5, Y10, Y6
+	VFNMADD231PD Y4, Y11, Y6
+	VMULPD inv2pi<>(SB), Y6, Y6
+	VMULPD Y3, Y6, Y6
+	VCVTPD2PSY Y6, X6
+	VMOVUPS X6, (R10)
+	// Cosine of phase x r inv, clamped to -1..1.
+	VMULPD Y1, Y10, Y7
+	VMULPD Y3, Y7, Y7
+	VMAXPD minusone<>(SB), Y7, Y7
+	VMINPD one<>(SB), Y7, Y7
+	VCVTPD2PSY Y7, X7
+	VMOVUPS X7, (R11)
+	ADDQ $32, DX
+	ADDQ $16, R8
+	ADDQ $16, R9
+	ADDQ $16, R10
+	ADDQ $16, R11
+	DECQ CX
+	JNE  loop
+
+done:
+	VZEROUPPER
+	RET

@@ -1,0 +1,182 @@
+package segy
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/gob"
+	"errors"
+	"fmt"
+)
+
+// A saved index (Checked.Index) is the exact geometry index of one file
+// version, for OpenFast to use instead of reading every trace header:
+//
+//	"QTGEOIDX" | gob(savedIndex) | SHA-256 of everything before
+//
+// It is used only when the checksum holds and it matches the file being
+// opened: the caller's stamp, the file size, the options, the bytes before
+// the first trace (textual and binary headers), and the raw headers of
+// savedProbes traces spread through the file. Anything else makes OpenFast
+// ignore it and sample the file as if there were none.
+const savedMagic = "QTGEOIDX"
+
+// savedVersion changes whenever savedIndex or the geometry decision does,
+// so entries written by another version are ignored.
+const savedVersion = 1
+
+// savedProbes is how many trace headers (first, last and spread between)
+// a saved index records and checks against the file.
+const savedProbes = 64
+
+type savedIndex struct {
+	Version  int
+	Stamp    string
+	Size     int64
+	Options  Options
+	Head     [32]byte // SHA-256 of the bytes before the first trace
+	Probes   []int
+	ProbeSum [32]byte // SHA-256 of the probes' header blocks, in order
+	Info     Info
+	ILR, XLR Range
+	Offsets  []int
+	Grid     []int32
+}
+
+// probeTraces lists the traces a saved index checks.
+func probeTraces(n int) []int {
+	if n <= 0 {
+		return nil
+	}
+	k := min(n, savedProbes)
+	out := make([]int, 0, k+1)
+	for j := 0; j < k; j++ {
+		out = append(out, int(int64(j)*int64(n)/int64(k)))
+	}
+	if out[len(out)-1] != n-1 {
+		out = append(out, n-1)
+	}
+	return out
+}
+
+// fingerprint hashes the bytes before the first trace and the header
+// blocks of the probe traces.
+func (f *File) fingerprint(probes []int) (head, sum [32]byte, err error) {
+	b, err := f.bytesAt(0, int(f.dataStart), nil)
+	if err != nil {
+		return head, sum, f.errf(-1, 1, "reading headers: %v", err)
+	}
+	head = sha256.Sum256(b)
+	got, err := f.readHeaders(probes) // many reads in flight (cold cache)
+	if err != nil {
+		return head, sum, err
+	}
+	h := sha256.New()
+	for _, i := range probes {
+		r, ok := got[i]
+		if !ok {
+			return head, sum, fmt.Errorf("probe trace %d outside 0..%d", i, f.ntraces-1)
+		}
+		h.Write(r)
+	}
+	copy(sum[:], h.Sum(nil))
+	return head, sum, nil
+}
+
+// saveIndex encodes the file's exact index (see savedMagic).
+func (f *File) saveIndex() ([]byte, error) {
+	if !f.exact {
+		return nil, errors.New("segy: only an exact index is saved")
+	}
+	s := savedIndex{Version: savedVersion, Stamp: f.stamp, Size: f.fileSize, Options: f.opt, Info: f.info,
+		ILR: f.geo.ilR, XLR: f.geo.xlR, Offsets: f.geo.offsets, Grid: f.geo.grid, Probes: probeTraces(f.ntraces)}
+	var err error
+	if s.Head, s.ProbeSum, err = f.fingerprint(s.Probes); err != nil {
+		return nil, err
+	}
+	var b bytes.Buffer
+	b.WriteString(savedMagic)
+	if err := gob.NewEncoder(&b).Encode(&s); err != nil {
+		return nil, fmt.Errorf("%s: encoding the geometry index: %w", f.path, err)
+	}
+	sum := sha256.Sum256(b.Bytes())
+	b.Write(sum[:])
+	return b.Bytes(), nil
+}
+
+// useSaved installs a saved index when it matches the file (see
+// savedMagic) and reports whether it did; a mismatch or damage leaves the
+// file as it was.
+func (f *File) useSaved(data []byte) bool {
+	s, ok := decodeSaved(data)
+	if !ok || s.Stamp != f.stamp || s.Size != f.fileSize || s.Options != f.opt ||
+		s.Info.Traces != f.ntraces || s.Info.Samples != f.samples || !slices64Equal(s.Probes, probeTraces(f.ntraces)) {
+		return false
+	}
+	head, sum, err := f.fingerprint(s.Probes)
+	if err != nil || head != s.Head || sum != s.ProbeSum {
+		return false
+	}
+	if !plausibleGrid(s, f.ntraces) {
+		return false
+	}
+	f.info = s.Info
+	if f.info.Warnings == nil {
+		f.info.Warnings = []string{} // gob drops empty slices
+	}
+	f.geo = geometry{ilR: s.ILR, xlR: s.XLR, offsets: s.Offsets, grid: s.Grid}
+	f.info.Offsets = s.Offsets
+	return true
+}
+
+func slices64Equal(a, b []int) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// decodeSaved checks the frame and checksum and decodes the entry.
+func decodeSaved(data []byte) (savedIndex, bool) {
+	var s savedIndex
+	if len(data) < len(savedMagic)+sha256.Size || string(data[:len(savedMagic)]) != savedMagic {
+		return s, false
+	}
+	body, tail := data[:len(data)-sha256.Size], data[len(data)-sha256.Size:]
+	if sum := sha256.Sum256(body); !bytes.Equal(sum[:], tail) {
+		return s, false
+	}
+	if err := gob.NewDecoder(bytes.NewReader(body[len(savedMagic):])).Decode(&s); err != nil || s.Version != savedVersion {
+		return savedIndex{}, false
+	}
+	return s, true
+}
+
+// plausibleGrid checks that a decoded index can be used without a read
+// out of range: the grid's size matches its ranges and every entry is a
+// trace of the file or -1.
+func plausibleGrid(s savedIndex, n int) bool {
+	if s.ILR.Count <= 0 || s.XLR.Count <= 0 || s.ILR.Step <= 0 || s.XLR.Step <= 0 {
+		return false
+	}
+	if !fitsGrid(s.ILR, s.XLR, gridLimit(n)) {
+		return false
+	}
+	cells := int64(s.ILR.Count) * int64(s.XLR.Count) * int64(max(1, len(s.Offsets)))
+	if cells != int64(len(s.Grid)) || cells > int64(gridLimit(n)) {
+		return false
+	}
+	for _, t := range s.Grid {
+		if t < -1 || int(t) >= n {
+			return false
+		}
+	}
+	if s.Info.Inline != s.ILR || s.Info.Crossline != s.XLR {
+		return false
+	}
+	return true
+}
