@@ -3,6 +3,7 @@ package palettes
 import (
 	"image/color"
 	"math"
+	"sync"
 
 	colorful "github.com/lucasb-eyer/go-colorful"
 )
@@ -283,13 +284,17 @@ func divergingPath(centreL, endL, peakC, negHue, posHue float64) func(float64) l
 func cyclicPath(midL, swing, hueAtEnds float64) func(float64) lch {
 	l := func(u float64) float64 { return midL - swing*math.Cos(2*math.Pi*u) }
 	h := func(u float64) float64 { return math.Mod(hueAtEnds+360*u, 360) }
-	c := math.Inf(1)
-	for k := range 720 {
-		u := float64(k) / 720
-		c = math.Min(c, maxChroma(l(u), h(u)))
-	}
-	c *= gamutMargin * gamutMargin
-	return func(u float64) lch { return lch{l(u), c, h(u)} }
+	// the chroma is found when the palette is first generated, not when
+	// the designs are listed
+	chroma := sync.OnceValue(func() float64 {
+		c := math.Inf(1)
+		for k := range 720 {
+			u := float64(k) / 720
+			c = math.Min(c, maxChroma(l(u), h(u)))
+		}
+		return c * gamutMargin * gamutMargin
+	})
+	return func(u float64) lch { return lch{l(u), chroma(), h(u)} }
 }
 
 // designs lists quadtrace's palettes. Every hue path and lightness profile

@@ -117,14 +117,31 @@ func (p *Palette) Reversed() *Palette {
 	return r
 }
 
-// builtin holds the palettes generated once; All and ByName hand out copies,
-// so nothing a caller does can change them.
-var builtin = sync.OnceValue(func() []Palette {
+// builtinPalette is a built-in palette by name and family, generated the
+// first time it is asked for (generating one takes milliseconds, all of
+// them about a tenth of a second: a command that draws with one palette
+// generates that one only).
+type builtinPalette struct {
+	name   string
+	family Family
+	build  func() Palette
+}
+
+// builtin lists the built-in palettes, ordered by family then name; each
+// is generated once; All and ByName hand out copies, so nothing a caller
+// does can change them.
+var builtin = sync.OnceValue(func() []builtinPalette {
 	designs := designs()
-	out := make([]Palette, len(designs))
+	out := make([]builtinPalette, len(designs))
 	for i, d := range designs {
-		out[i] = d.build()
+		out[i] = builtinPalette{name: d.name, family: d.family, build: sync.OnceValue(d.build)}
 	}
+	sort.SliceStable(out, func(i, j int) bool {
+		if out[i].family != out[j].family {
+			return out[i].family < out[j].family
+		}
+		return out[i].name < out[j].name
+	})
 	return out
 })
 
@@ -133,15 +150,9 @@ func All() []*Palette {
 	b := builtin()
 	out := make([]*Palette, len(b))
 	for i := range b {
-		p := b[i]
+		p := b[i].build()
 		out[i] = &p
 	}
-	sort.SliceStable(out, func(i, j int) bool {
-		if out[i].Family != out[j].Family {
-			return out[i].Family < out[j].Family
-		}
-		return out[i].Name < out[j].Name
-	})
 	return out
 }
 
@@ -150,17 +161,18 @@ func All() []*Palette {
 func ByName(name string) (*Palette, error) {
 	want := strings.ToLower(strings.TrimSpace(name))
 	base, reversed := strings.CutSuffix(want, "-r")
-	for _, p := range All() {
-		if p.Name == base {
+	for _, b := range builtin() {
+		if b.name == base {
+			p := b.build()
 			if reversed {
 				return p.Reversed(), nil
 			}
-			return p, nil
+			return &p, nil
 		}
 	}
 	names := make([]string, 0, 8)
-	for _, p := range All() {
-		names = append(names, p.Name)
+	for _, b := range builtin() {
+		names = append(names, b.name)
 	}
 	return nil, fmt.Errorf("palette %q: unknown name (known: %s)", name, strings.Join(names, ", "))
 }

@@ -4,6 +4,7 @@ import (
 	"image/color"
 	"math"
 	"strings"
+	"sync"
 	"testing"
 
 	colorful "github.com/lucasb-eyer/go-colorful"
@@ -388,5 +389,52 @@ func TestCatalogue(t *testing.T) {
 	}
 	if _, err := ByName("no-such-map"); err == nil || !strings.Contains(err.Error(), "no-such-map") {
 		t.Errorf("unknown name error = %v", err)
+	}
+}
+
+// BenchmarkGenerate times generating each built-in palette from its
+// design (what the first ByName of that name costs a process; All
+// generates every one).
+//
+// Run: go test -run '^$' -bench Generate ./palettes/
+func BenchmarkGenerate(b *testing.B) {
+	for _, d := range designs() {
+		b.Run(d.name, func(b *testing.B) {
+			for b.Loop() {
+				d.build()
+			}
+		})
+	}
+}
+
+// TestConcurrentFirstUse: palettes generated on first use are the same
+// whichever goroutines ask first and in what order (run with -race).
+func TestConcurrentFirstUse(t *testing.T) {
+	names := []string{"lumbry", "kestrine", "orbel", "slatine", "pyrrel"}
+	got := make([][]*Palette, 8)
+	var wg sync.WaitGroup
+	for g := range got {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := range names {
+				p, err := ByName(names[(k+g)%len(names)])
+				if err != nil {
+					t.Error(err)
+					return
+				}
+				got[g] = append(got[g], p)
+			}
+		}()
+	}
+	wg.Wait()
+	for _, p := range All() {
+		for g := range got {
+			for _, q := range got[g] {
+				if q.Name == p.Name && q.Table != p.Table {
+					t.Errorf("%s: goroutine %d got another table", p.Name, g)
+				}
+			}
+		}
 	}
 }

@@ -61,6 +61,12 @@ type Figure struct {
 	// Geo, for a map whose survey has coordinates, adds a north arrow and
 	// the X/Y coordinates of the map's corners; nil draws neither.
 	Geo *MapGeo
+	// Lines are drawn over a map (MapAspect > 0) in map cell coordinates
+	// (contours, the survey's outline), in order, before the ground grid.
+	Lines []MapLines
+	// Ground, for a map, draws lines of equal projected X and Y over it,
+	// labelled in metres; nil draws none.
+	Ground *GroundGrid
 }
 
 // MapGeo places a map on the ground.
@@ -340,6 +346,22 @@ func (f Figure) Draw() (*image.RGBA, error) {
 	p := lay.Plot
 	if f.MapAspect > 0 {
 		drawMap(img, p, f.Base, f.Overlay, f.MapAspect)
+		nh, nv, _ := f.cells()
+		DrawMapLines(img, p, nh, nv, f.Lines)
+		if f.Ground != nil {
+			var avoid []image.Rectangle
+			if f.Geo != nil {
+				for _, b := range geoLabelBoxes(tf, *f.Geo, p) {
+					if !b.Empty() {
+						avoid = append(avoid, b.Inset(-2))
+					}
+				}
+			}
+			if !lay.North.Empty() {
+				avoid = append(avoid, lay.North.Inset(-2))
+			}
+			drawGroundGrid(img, tf, *f.Ground, p, nh, nv, avoid)
+		}
 	} else {
 		drawSection(img, p, f.Base, f.Overlay, f.Wiggle, f.View)
 	}

@@ -18,6 +18,43 @@ func northDisc(tf typeface, p image.Rectangle) image.Rectangle {
 	return image.Rect(cx-r, cy-r, cx+r, cy+r)
 }
 
+// geoLabelBoxes returns the boxes of the corner labels of g inside the map
+// rectangle p (empty where a corner has no label, or where it would
+// overlap another), in Corners order.
+func geoLabelBoxes(tf typeface, g MapGeo, p image.Rectangle) [4]image.Rectangle {
+	fs := float64(tf.label.Metrics().Height.Ceil())
+	asc := tf.label.Metrics().Ascent.Ceil()
+	desc := tf.label.Metrics().Descent.Ceil()
+	pad := int(fs * 0.3)
+	var out [4]image.Rectangle
+	at := [4]struct {
+		x, y          int
+		right, bottom bool
+	}{{p.Min.X, p.Min.Y, false, false}, {p.Max.X, p.Min.Y, true, false}, {p.Min.X, p.Max.Y, false, true}, {p.Max.X, p.Max.Y, true, true}}
+	for k, s := range g.Corners {
+		if s == "" {
+			continue
+		}
+		w := textWidth(tf.label, s)
+		x0, y0 := at[k].x+pad, at[k].y+pad
+		if at[k].right {
+			x0 = at[k].x - pad - w - 2*pad
+		}
+		if at[k].bottom {
+			y0 = at[k].y - pad - asc - desc - 2*pad
+		}
+		out[k] = image.Rect(x0, y0, x0+w+2*pad, y0+asc+desc+2*pad)
+	}
+	// On a small map the labels would overlap: keep the top-left and
+	// bottom-left ones, then the others that fit.
+	for _, pair := range [][2]int{{2, 0}, {1, 0}, {3, 2}, {3, 1}} {
+		if out[pair[0]].Overlaps(out[pair[1]]) {
+			out[pair[0]] = image.Rectangle{}
+		}
+	}
+	return out
+}
+
 // drawGeo draws, inside the map rectangle p, a north arrow in the disc
 // (see northDisc) and the corners' coordinate labels on white boxes.
 func drawGeo(img *image.RGBA, tf typeface, g MapGeo, p, disc image.Rectangle) {
@@ -25,27 +62,19 @@ func drawGeo(img *image.RGBA, tf typeface, g MapGeo, p, disc image.Rectangle) {
 	asc := tf.label.Metrics().Ascent.Ceil()
 	desc := tf.label.Metrics().Descent.Ceil()
 	pad := int(fs * 0.3)
-	label := func(s string, x, y int, right, bottom bool) {
-		if s == "" {
+	boxes := geoLabelBoxes(tf, g, p)
+	label := func(k int) {
+		if g.Corners[k] == "" || boxes[k].Empty() {
 			return
 		}
-		w := textWidth(tf.label, s)
-		x0, y0 := x+pad, y+pad
-		if right {
-			x0 = x - pad - w - 2*pad
-		}
-		if bottom {
-			y0 = y - pad - asc - desc - 2*pad
-		}
-		box := image.Rect(x0, y0, x0+w+2*pad, y0+asc+desc+2*pad)
+		box := boxes[k]
 		fillRect(img, box, pageColour)
 		strokeRect(img, box, frameColour)
-		drawText(img, tf.label, inkColour, s, box.Min.X+pad, box.Min.Y+pad+asc, anchorLeft)
+		drawText(img, tf.label, inkColour, g.Corners[k], box.Min.X+pad, box.Min.Y+pad+asc, anchorLeft)
 	}
-	label(g.Corners[0], p.Min.X, p.Min.Y, false, false)
-	label(g.Corners[1], p.Max.X, p.Min.Y, true, false)
-	label(g.Corners[2], p.Min.X, p.Max.Y, false, true)
-	label(g.Corners[3], p.Max.X, p.Max.Y, true, true)
+	for k := range g.Corners {
+		label(k)
+	}
 	if math.IsNaN(g.NorthDegrees) || math.IsInf(g.NorthDegrees, 0) {
 		return
 	}

@@ -14,12 +14,25 @@ import (
 // metresPerInch is exact by definition of the inch (common practice).
 const metresPerInch = 0.0254
 
+// pngLevel is the deflate level of every PNG quadtrace writes: image/png's
+// BestSpeed (compress/flate level 1). PNG is lossless at every level, so
+// the pixels are the same; measured on a 1200x800 figure of one inline
+// (BenchmarkEncodePNG, one run), it encodes about 4 times faster than
+// DefaultCompression for a file about a quarter larger (figures with
+// wiggles or an overlay: about 3 times faster, under a tenth larger).
+const pngLevel = png.BestSpeed
+
 // EncodePNG writes img as PNG with its physical resolution recorded: a pHYs
 // chunk (PNG specification, 3rd ed., section 11.3.5.3) of dpi converted to
 // pixels per metre, the same for x and y, unit specifier 1 (metre),
-// inserted right after IHDR in the standard library encoder's output. dpi
-// must be positive and finite.
+// inserted right after IHDR in the standard library encoder's output
+// (compressed at pngLevel). dpi must be positive and finite.
 func EncodePNG(w io.Writer, img image.Image, dpi float64) error {
+	return encodePNG(w, img, dpi, pngLevel)
+}
+
+// encodePNG is EncodePNG at a given compression level.
+func encodePNG(w io.Writer, img image.Image, dpi float64, level png.CompressionLevel) error {
 	if !(dpi > 0) || math.IsInf(dpi, 0) {
 		return fmt.Errorf("png: resolution %v dpi: want a positive number", dpi)
 	}
@@ -28,7 +41,8 @@ func EncodePNG(w io.Writer, img image.Image, dpi float64) error {
 		return fmt.Errorf("png: resolution %v dpi: out of range for pHYs", dpi)
 	}
 	var buf bytes.Buffer
-	if err := png.Encode(&buf, img); err != nil {
+	enc := png.Encoder{CompressionLevel: level}
+	if err := enc.Encode(&buf, img); err != nil {
 		return fmt.Errorf("png: encode: %w", err)
 	}
 	b := buf.Bytes()

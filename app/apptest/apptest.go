@@ -275,3 +275,23 @@ func StrayTemps(t testing.TB, dir string) []string {
 	}
 	return all
 }
+
+// NoLeftovers fails t when folder dir holds anything, or when a file this
+// process has open (/proc/self/fd, Linux) lies in it: what a cache that
+// promises no leftovers must leave after it is closed.
+func NoLeftovers(t testing.TB, dir string) {
+	t.Helper()
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, e := range entries {
+		t.Errorf("left behind in %s: %s", dir, e.Name())
+	}
+	fds, _ := os.ReadDir("/proc/self/fd")
+	for _, fd := range fds {
+		if target, err := os.Readlink(filepath.Join("/proc/self/fd", fd.Name())); err == nil && strings.HasPrefix(target, dir) {
+			t.Errorf("still open in %s: %s", dir, target)
+		}
+	}
+}

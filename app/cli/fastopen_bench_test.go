@@ -3,7 +3,6 @@
 package cli
 
 import (
-	"bytes"
 	"context"
 	"fmt"
 	"os"
@@ -60,8 +59,9 @@ func cpuTime() time.Duration {
 //   - open-inline: volume.OpenFast and figure.Draw of the middle inline's
 //     amplitude (1200x800), with no geometry cache (the sampled open), or
 //     with the file's index in the cache;
-//   - figure: the figure command of the middle inline, no index cached
-//     (cold) and cached (warm);
+//   - figure: the figure command (its own process) of the middle inline,
+//     cold and warm, with no index cached and with the file's index in
+//     the cache;
 //   - segyio-open: /usr/bin/python3 opening the file with segyio (Debian
 //     python3-segyio; the interpreter's start and import included, and
 //     timed alone as python-import-segyio);
@@ -143,19 +143,41 @@ func BenchmarkOpenLarge(b *testing.B) {
 	run("cold/open-inline/cached-index", true, func(b *testing.B) { openDraw(b, cached, segy.IndexSaved) })
 	run("warm/open-inline/cached-index", false, func(b *testing.B) { openDraw(b, cached, segy.IndexSaved) })
 
+	// The figure command as its own process (the test binary as the
+	// command, see TestMain), so that what a process does once (runtime
+	// start, palette generation, font parsing) is counted in every run.
 	png := filepath.Join(b.TempDir(), "f.png")
 	fig := func(cacheDir string) func(b *testing.B) {
 		return func(b *testing.B) {
-			b.Setenv(indexcache.EnvDir, cacheDir)
-			var stderr bytes.Buffer
-			if code := Figure([]string{path, "--inline", strconv.Itoa(inline), "--size", "1200x800", "--out", png}, &bytes.Buffer{}, &stderr); code != exitOK {
-				b.Fatalf("figure: %s", stderr.String())
+			cmd := exec.Command(os.Args[0], path, "--inline", strconv.Itoa(inline), "--size", "1200x800", "--out", png)
+			cmd.Env = append(os.Environ(), childEnv+"=figure", indexcache.EnvDir+"="+cacheDir)
+			if out, err := cmd.CombinedOutput(); err != nil {
+				b.Fatalf("figure: %v: %s", err, out)
 			}
 		}
 	}
+	// A figure of a regular file confirms its line and stores no index:
+	// the cache of the "cached-index" runs is filled by a check.
 	figCache := b.TempDir()
-	fig(figCache)(b) // the index in the cache for "warm"
+	b.Setenv(indexcache.EnvDir, figCache)
+	if v, err := volume.OpenFast(ctx, path, segy.Options{}, indexcache.Default()); err != nil {
+		b.Fatal(err)
+	} else {
+		if nv, _, err := v.Check(ctx, nil); err != nil {
+			b.Fatal(err)
+		} else if nv != nil {
+			nv.Close()
+		}
+		v.Close()
+	}
+	if v, err := volume.OpenFast(ctx, path, segy.Options{}, indexcache.Default()); err != nil || v.IndexSource() != segy.IndexSaved {
+		b.Fatalf("the figure's cache holds no index of %s (%v)", path, err)
+	} else {
+		v.Close()
+	}
 	run("cold/figure-inline/no-index-cached", true, func(b *testing.B) { fig(b.TempDir())(b) })
+	run("cold/figure-inline/cached-index", true, fig(figCache))
+	run("warm/figure-inline/no-index-cached", false, func(b *testing.B) { fig(b.TempDir())(b) })
 	run("warm/figure-inline/cached-index", false, fig(figCache))
 
 	segytest.NeedPython(b, "segyio")

@@ -29,6 +29,7 @@ it as a SEG-Y revision 1 file. The same seed gives the same survey.`, stdout, st
 	fs.Float64Var(&cfg.Noise, "noise", cfg.Noise, "noise level relative to the signal's RMS")
 	fs.Int64Var(&cfg.Seed, "seed", cfg.Seed, "random seed (the same seed gives the same survey)")
 	format := fs.String("format", "ieee", "sample format: ieee (format 5) or ibm (format 1)")
+	repeat := fs.Int("repeat", 1, "write the survey's inlines this many times, inline numbers continuing\n(large test files; memory holds one copy)")
 	pos, code, done := c.parse(args)
 	if done {
 		return code
@@ -40,6 +41,9 @@ it as a SEG-Y revision 1 file. The same seed gives the same survey.`, stdout, st
 	cfg.IntervalUS = int(*intervalMS*1000 + 0.5)
 	if err := cfg.Validate(); err != nil {
 		return c.usage("%v", err)
+	}
+	if *repeat < 1 {
+		return c.usage("--repeat %d: want at least 1", *repeat)
 	}
 	f, err := parseFormat(*format)
 	if err != nil {
@@ -54,10 +58,10 @@ it as a SEG-Y revision 1 file. The same seed gives the same survey.`, stdout, st
 	if err != nil {
 		return c.fail("", err)
 	}
-	if err := volume.WriteSurvey(ctx, out, s, segy.WriteOptions{Format: f}); err != nil {
+	if err := volume.WriteSurveyRepeated(ctx, out, s, segy.WriteOptions{Format: f}, *repeat); err != nil {
 		return c.fail(out, err)
 	}
 	fmt.Fprintf(stdout, "%s: %d inlines x %d crosslines x %d samples at %g ms (%s, %s)\n",
-		out, cfg.Inlines, cfg.Crosslines, cfg.Samples, float64(cfg.IntervalUS)/1000, s.Name, s.Basin)
+		out, *repeat*cfg.Inlines, cfg.Crosslines, cfg.Samples, float64(cfg.IntervalUS)/1000, s.Name, s.Basin)
 	return exitOK
 }

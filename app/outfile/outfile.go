@@ -444,8 +444,10 @@ func removeStale(dir string) {
 // (Windows) a named file that the caller removes. Name() is then the path;
 // for an unnamed file it names no directory entry and removing it does
 // nothing. For caches the program writes and reads itself, never outputs.
-func Scratch(pattern string) (*os.File, error) {
-	dir := os.TempDir()
+func Scratch(pattern string) (*os.File, error) { return ScratchIn(os.TempDir(), pattern) }
+
+// ScratchIn is Scratch in folder dir (e.g. the user's cache folder).
+func ScratchIn(dir, pattern string) (*os.File, error) {
 	if fh, err := openUnnamed(dir); err == nil {
 		return fh, nil
 	}

@@ -14,8 +14,9 @@ type sectionCache struct {
 	items  map[string]*volume.Section
 }
 
-// sectionCacheBytes is the memory the viewer spends on recent sections.
-const sectionCacheBytes = 512 << 20
+// sectionCacheBytes is the memory the viewer spends on recent sections
+// (its share of windowMemoryBound, see memory.go).
+const sectionCacheBytes = 256 << 20
 
 func newSectionCache(budget int64) *sectionCache {
 	return &sectionCache{budget: budget, items: map[string]*volume.Section{}}

@@ -68,6 +68,9 @@ func renderSection(req renderRequest, basePal, ovPal *palettes.Palette) renderRe
 			ov = &o
 		}
 		render.DrawMap(res.img, base, ov, aspect)
+		if d.pending() {
+			res.pending = hatchPending(res.img, render.MapRect(res.img.Bounds(), r1-r0, c1-c0, aspect), d, r0, r1, c0, c1)
+		}
 		res.axes = sectionAxes{HTitle: "Crossline", VTitle: "Inline", HKeys: amp.Keys, VKeys: amp.InlineKeys}
 		res.hist = histogramOf(res.colourLayer(), histogramWidth, histogramHeight)
 		return res
@@ -92,6 +95,48 @@ func renderSection(req renderRequest, basePal, ovPal *palettes.Palette) renderRe
 	res.axes = sectionAxes{HTitle: h, VTitle: "Time (ms)", HKeys: amp.Keys, T0MS: amp.T0 * 1000, DTMS: amp.DT * 1000}
 	res.hist = histogramOf(res.colourLayer(), histogramWidth, histogramHeight)
 	return res
+}
+
+// The hatch over cells of a time slice not computed yet: light grey with
+// darker diagonal lines, unlike any palette's colours and the background.
+var (
+	pendingLight = color.RGBA{208, 208, 208, 255}
+	pendingDark  = color.RGBA{150, 150, 150, 255}
+)
+
+// hatchPending hatches the pixels of rect (the map of rows r0..r1 and
+// columns c0..c1 of the grid) whose cell is pending in any layer of d, and
+// reports whether any was.
+func hatchPending(img *image.RGBA, rect image.Rectangle, d shown, r0, r1, c0, c1 int) bool {
+	var masks [][][]bool
+	for _, s := range []*volume.Section{d.amp, d.base, d.over} {
+		if s != nil && s.Pending != nil {
+			masks = append(masks, s.Pending)
+		}
+	}
+	ni, nx := r1-r0, c1-c0
+	if len(masks) == 0 || rect.Empty() || ni <= 0 || nx <= 0 {
+		return false
+	}
+	any := false
+	for py := rect.Min.Y; py < rect.Max.Y; py++ {
+		row := r0 + (py-rect.Min.Y)*ni/rect.Dy()
+		for px := rect.Min.X; px < rect.Max.X; px++ {
+			col := c0 + (px-rect.Min.X)*nx/rect.Dx()
+			for _, m := range masks {
+				if row < len(m) && col < len(m[row]) && m[row][col] {
+					c := pendingLight
+					if (px+py)%8 < 2 {
+						c = pendingDark
+					}
+					img.SetRGBA(px, py, c)
+					any = true
+					break
+				}
+			}
+		}
+	}
+	return any
 }
 
 // wiggleColour draws amplitude wiggles, on screen and in figures.

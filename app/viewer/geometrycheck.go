@@ -79,6 +79,7 @@ func (v *viewer) replaceSurvey(nv survey, ch *segy.Checked) {
 	v.jobs.cancel("render")
 	v.closeSurvey(old)
 	v.vol = nv
+	limitSurveyMemory(nv)
 	v.info = nv.Info()
 	v.data = shown{}
 	v.cache.clear()

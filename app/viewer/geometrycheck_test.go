@@ -21,7 +21,7 @@ import (
 
 // newCheckViewer makes a window on fyne's test driver with opt, not yet
 // started; its jobs are stopped and its survey closed when the test ends.
-func newCheckViewer(t *testing.T, opt Options) *viewer {
+func newCheckViewer(t testing.TB, opt Options) *viewer {
 	t.Helper()
 	v := newViewer(test.NewTempApp(t), opt, newQueuedJobs())
 	v.win.Resize(fyne.NewSize(1400, 900))

@@ -47,7 +47,7 @@ func openHorizonViewer(t *testing.T) (*viewer, *synth.Survey) {
 
 // openDemoViewer starts a viewer of the given size on the fyne test driver
 // with the demo survey of cfg, and waits until its jobs are done.
-func openDemoViewer(t *testing.T, cfg synth.Config, size fyne.Size) *viewer {
+func openDemoViewer(t testing.TB, cfg synth.Config, size fyne.Size) *viewer {
 	t.Helper()
 	v := newCheckViewer(t, Options{Demo: &cfg})
 	v.win.Resize(size)

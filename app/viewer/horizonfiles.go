@@ -68,7 +68,11 @@ func writeHorizonFile(vol survey, offset int, surface *horizon.Horizon, path str
 // loadHorizon reads a horizon text file in the background and adds it to
 // the list as a new horizon named after the file; an error names the file
 // and the line.
-func (v *viewer) loadHorizon(path string) {
+func (v *viewer) loadHorizon(path string) { v.loadHorizonThen(path, nil) }
+
+// loadHorizonThen is loadHorizon that then calls then (when not nil) with
+// the new horizon, once it is in the list (the map view shows it).
+func (v *viewer) loadHorizonThen(path string, then func(*namedHorizon)) {
 	if v.vol == nil {
 		return
 	}
@@ -88,7 +92,10 @@ func (v *viewer) loadHorizon(path string) {
 				return // another survey was opened meanwhile
 			}
 			v.showStatus(fmt.Sprintf("Read %s: %d traces picked", filepath.Base(path), picked))
-			v.horizons.addSurface(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)), h, picked)
+			n := v.horizons.addSurface(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)), h, picked)
+			if then != nil {
+				then(n)
+			}
 		})
 	})
 }

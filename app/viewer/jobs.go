@@ -32,6 +32,7 @@ type jobs struct {
 type laneState struct {
 	gen    uint64
 	cancel context.CancelFunc
+	active int // goroutines of the lane not returned yet, cancelled ones too
 }
 
 func newJobs() *jobs {
@@ -97,12 +98,29 @@ func (js *jobs) start(lane string, run func(j *job)) {
 	ls.cancel = cancel
 	j := &job{ctx: ctx, js: js, lane: lane, gen: ls.gen}
 	js.running.Add(1)
+	ls.active++
 	js.mu.Unlock()
 	go func() {
 		defer js.running.Add(-1)
+		defer func() {
+			js.mu.Lock()
+			ls.active--
+			js.mu.Unlock()
+		}()
 		defer cancel()
 		run(j)
 	}()
+}
+
+// active says how many goroutines of the lane have not returned, the
+// cancelled ones that are still finishing included.
+func (js *jobs) active(lane string) int {
+	js.mu.Lock()
+	defer js.mu.Unlock()
+	if ls := js.lanes[lane]; ls != nil {
+		return ls.active
+	}
+	return 0
 }
 
 // background runs f in a goroutine outside every lane: it is never

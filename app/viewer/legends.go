@@ -74,6 +74,9 @@ func (r *legendRow) set(a *compute.Attribute, l render.Layer, note string) {
 	r.box.Show()
 }
 
+// pendingNote explains the hatch over a time slice still being computed.
+const pendingNote = "grey hatch: not computed yet"
+
 // refresh shows a colour key for each layer of a render of plan pl drawn
 // with the state st's opacity.
 func (s *legendStrip) refresh(pl layerPlan, res renderResult, st *viewState) {
@@ -82,11 +85,18 @@ func (s *legendStrip) refresh(pl layerPlan, res renderResult, st *viewState) {
 		if st.OpacityFollowsValue {
 			note += " following the value"
 		}
+		if res.pending {
+			note += "; " + pendingNote
+		}
 		s.rows[0].set(pl.Overlay, res.ov, note)
 		s.rows[1].set(pl.Base, res.base, "base")
 		return
 	}
-	s.rows[0].set(pl.Base, res.base, "")
+	note := ""
+	if res.pending {
+		note = pendingNote
+	}
+	s.rows[0].set(pl.Base, res.base, note)
 	s.rows[1].box.Hide()
 }
 

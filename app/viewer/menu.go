@@ -19,6 +19,7 @@ func (v *viewer) mainMenu() *fyne.MainMenu {
 		fyne.NewMenuItem("Open the demo survey", v.openDemo),
 		fyne.NewMenuItemSeparator(),
 		fyne.NewMenuItem("Save figure…", v.showFigureDialog),
+		fyne.NewMenuItem("Map a horizon file…", v.showHorizonFileDialog),
 		fyne.NewMenuItem("Export attribute volume…", v.showExportDialog),
 	)
 	var items []*fyne.MenuItem

@@ -19,6 +19,14 @@ type dataRequest struct {
 	baseParams, overParams   map[string]string
 	cond                     compute.Conditioning
 	ampKey, baseKey, overKey string
+	// partial, when not nil, is given the data as far as they are computed
+	// while a time slice is filled (see partialData); it is called on the
+	// job's goroutine, at most a few times a second, and only when
+	// partialWanted (if not nil) says so: a partial slice is made only once
+	// the picture of the one before has been drawn, so renders of partial
+	// slices (tens of megabytes each on a large survey) never pile up.
+	partial       func(shown)
+	partialWanted func() bool
 }
 
 // dataRequestFor works out the sections state st needs.
@@ -34,29 +42,23 @@ func dataRequestFor(st *viewState) dataRequest {
 	return r
 }
 
-// satisfied reports whether d already holds what r asks for.
+// satisfied reports whether d already holds what r asks for, complete.
 func (r dataRequest) satisfied(d shown) bool {
-	return d.ampKey == r.ampKey && d.baseKey == r.baseKey && d.overKey == r.overKey
+	return d.ampKey == r.ampKey && d.baseKey == r.baseKey && d.overKey == r.overKey && !d.pending()
 }
 
 // fetchData reads and computes the sections of req, reusing those of have
-// and of cached whose keys match. progress(label) gives the progress callback of a
-// computation. It runs in a background job.
+// and of cached whose keys match (never a partial one). progress(label)
+// gives the progress callback of a computation; while a time slice is
+// filled, req.partial gets the data so far. It runs in a background job.
 func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cached map[string]*volume.Section, progress func(label string) func(done, total int)) (shown, error) {
 	var out shown
 	reuse := func(key string) *volume.Section {
-		if s := cached[key]; s != nil {
+		if s := cached[key]; s != nil && s.Pending == nil {
 			return s
 		}
-		switch {
-		case key == out.ampKey && out.amp != nil:
-			return out.amp
-		case key == have.ampKey && have.amp != nil:
-			return have.amp
-		case key == have.baseKey && have.base != nil:
-			return have.base
-		case key == have.overKey && have.over != nil:
-			return have.over
+		if s := reused(key, out, have); s != nil && s.Pending == nil {
+			return s
 		}
 		return nil
 	}
@@ -64,7 +66,8 @@ func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cac
 		if s := reuse(key); s != nil {
 			return s, nil
 		}
-		if a.ID == amplitudeID && c.IsZero() {
+		timeSlice := req.slice.Orientation == volume.TimeSlice
+		if a.ID == amplitudeID && c.IsZero() && !timeSlice {
 			s, err := vol.Read(ctx, req.slice)
 			return &s, err
 		}
@@ -73,14 +76,17 @@ func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cac
 			return nil, fmt.Errorf("%s: %w", a.Name, err)
 		}
 		label := "Computing " + strings.ToLower(a.Name)
-		if req.slice.Orientation == volume.TimeSlice {
+		if a.ID == amplitudeID && c.IsZero() {
+			label = "Reading amplitude"
+		}
+		if timeSlice {
 			label += " for the whole volume"
 		}
 		var pf func(int, int)
 		if progress != nil {
 			pf = progress(label)
 		}
-		if req.slice.Orientation != volume.TimeSlice && out.amp != nil {
+		if !timeSlice && out.amp != nil && out.amp.Pending == nil {
 			// The amplitude of this section is in hand (read above):
 			// computing from it spares the survey a second read and copy
 			// of the section (fresh memory, a page fault per 4 KiB).
@@ -89,6 +95,20 @@ func fetchData(ctx context.Context, vol survey, req dataRequest, have shown, cac
 				return nil, fmt.Errorf("%s: %s %d: %s: %w", vol.Name(), req.slice.Orientation, req.slice.Number, a.ID, err)
 			}
 			return &s, nil
+		}
+		if timeSlice && req.partial != nil {
+			var thr progressThrottle
+			shownPf := pf
+			pf = func(done, total int) {
+				if shownPf != nil {
+					shownPf(done, total)
+				}
+				if done < total && thr.due(done, total) && (req.partialWanted == nil || req.partialWanted()) {
+					if so, ok := vol.AttributeSoFar(req.slice, a, p, c); ok && so.Pending != nil {
+						req.partial(partialData(out, req, key, &so))
+					}
+				}
+			}
 		}
 		s, err := vol.Attribute(ctx, req.slice, a, p, c, pf)
 		return &s, err
@@ -131,6 +151,71 @@ func attributeOf(ctx context.Context, amp volume.Section, a *compute.Attribute, 
 	return amp, nil
 }
 
+// pending reports whether some cell of d is not computed yet (a time slice
+// drawn while it is filled).
+func (d shown) pending() bool {
+	return (d.amp != nil && d.amp.Pending != nil) || (d.base != nil && d.base.Pending != nil) || (d.over != nil && d.over.Pending != nil)
+}
+
+// reused returns the section with key among those made so far (out) and
+// those shown now (have), or nil.
+func reused(key string, out, have shown) *volume.Section {
+	switch {
+	case key == out.ampKey && out.amp != nil:
+		return out.amp
+	case key == have.ampKey && have.amp != nil:
+		return have.amp
+	case key == have.baseKey && have.base != nil:
+		return have.base
+	case key == have.overKey && have.over != nil:
+		return have.over
+	}
+	return nil
+}
+
+// partialData is the data of req as far as they are computed: the
+// sections made so far (out), so for the layer with key, and for the
+// layers not reached yet a grid of so's shape with every cell pending.
+func partialData(out shown, req dataRequest, key string, so *volume.Section) shown {
+	pendingGrid := func() *volume.Section {
+		ni, nx := len(so.Traces), 0
+		if ni > 0 {
+			nx = len(so.Traces[0])
+		}
+		nan := float32(math.NaN())
+		vals, flags := make([]float32, ni*nx), make([]bool, ni*nx)
+		for k := range vals {
+			vals[k], flags[k] = nan, true
+		}
+		p := *so
+		p.Traces, p.Pending = make([][]float32, ni), make([][]bool, ni)
+		for i := range ni {
+			p.Traces[i], p.Pending[i] = vals[i*nx:(i+1)*nx:(i+1)*nx], flags[i*nx:(i+1)*nx:(i+1)*nx]
+		}
+		return &p
+	}
+	var blank *volume.Section
+	pick := func(k string, have *volume.Section) *volume.Section {
+		switch {
+		case k == key:
+			return so
+		case have != nil:
+			return have
+		case blank == nil:
+			blank = pendingGrid()
+		}
+		return blank
+	}
+	d := shown{ampKey: req.ampKey, baseKey: req.baseKey, plan: req.plan, baseParams: req.baseParams, overParams: req.overParams, cond: req.cond}
+	d.amp = pick(req.ampKey, out.amp)
+	d.base = pick(req.baseKey, out.base)
+	if req.plan.Overlay != nil {
+		d.overKey = req.overKey
+		d.over = pick(req.overKey, out.over)
+	}
+	return d
+}
+
 // requestData starts a job that reads and computes whatever the state needs
 // and the shown data lack; it cancels any such job still running.
 func (v *viewer) requestData() {
@@ -151,6 +236,7 @@ func (v *viewer) requestData() {
 		v.backToShown()
 	}
 	v.setBusy(v.ui.work, "Reading "+strings.ToLower(v.state.title(v.info)), 0, 0, cancel)
+	v.setFocus()
 	v.startWithSurvey("data", func(j *job, vol survey) {
 		var thr progressThrottle
 		progress := func(label string) func(done, total int) {
@@ -160,6 +246,10 @@ func (v *viewer) requestData() {
 				}
 			}
 		}
+		req.partial = func(d shown) {
+			v.onUI(j, func() { v.showData(d, false) })
+		}
+		req.partialWanted = func() bool { return v.jobs.active("render") == 0 }
 		out, err := fetchData(j.ctx, vol, req, have, cached, progress)
 		if j.ctx.Err() != nil {
 			return
@@ -172,24 +262,57 @@ func (v *viewer) requestData() {
 				v.failSnapshot(err)
 				return
 			}
-			newShape := v.data.amp == nil || sectionShape(v.data.amp) != sectionShape(out.amp)
-			before, hadPick := v.pickedKeys()
-			v.data = out
-			v.shownState = v.state.dataFields()
-			v.cache.put(out.ampKey, out.amp)
-			v.cache.put(out.baseKey, out.base)
-			v.cache.put(out.overKey, out.over)
-			if newShape {
-				n, m := v.dims()
-				v.state.fit(n, m)
-			}
-			v.placePick(before, hadPick)
-			v.recordView()
-			v.refreshNavigation()
-			v.requestRender()
-			v.requestTrace()
+			v.showData(out, true)
 		})
 	})
+}
+
+// showData makes d the shown data and draws them: the final data of a
+// request (kept in the section cache, recorded in the view history, trace
+// panel redrawn) or, final false, a time slice as far as it is computed,
+// drawn with its pending cells hatched while the job goes on.
+func (v *viewer) showData(d shown, final bool) {
+	newShape := v.data.amp == nil || sectionShape(v.data.amp) != sectionShape(d.amp)
+	before, hadPick := v.pickedKeys()
+	v.data = d
+	v.shownState = v.state.dataFields()
+	if final {
+		v.cache.put(d.ampKey, d.amp)
+		v.cache.put(d.baseKey, d.base)
+		v.cache.put(d.overKey, d.over)
+	}
+	if newShape {
+		n, m := v.dims()
+		v.state.fit(n, m)
+	}
+	v.placePick(before, hadPick)
+	if final {
+		v.recordView()
+	}
+	v.refreshNavigation()
+	v.requestRender()
+	if final {
+		v.requestTrace()
+	}
+}
+
+// setFocus tells the survey where the view is, so whole-volume work
+// (time slices of attributes) starts there: the shown line, or for a time
+// slice the picked trace, else the last inline and crossline shown.
+func (v *viewer) setFocus() {
+	const none = math.MinInt // on no survey: no preference along that axis
+	switch v.state.Orientation {
+	case volume.Inline:
+		v.vol.SetFocus(v.state.Inline, none, v.state.SampleIndex)
+	case volume.Crossline:
+		v.vol.SetFocus(none, v.state.Crossline, v.state.SampleIndex)
+	default:
+		if k, ok := v.pickedKeys(); ok {
+			v.vol.SetFocus(k.inline, k.crossline, v.state.SampleIndex)
+			return
+		}
+		v.vol.SetFocus(v.state.Inline, v.state.Crossline, v.state.SampleIndex)
+	}
 }
 
 // backToShown undoes the requested change whose data were cancelled, so the
@@ -244,6 +367,7 @@ type renderResult struct {
 	hasOv     bool
 	newRanges map[string][2]float32
 	hist      valueHistogram // of the layer the colour control sets
+	pending   bool           // cells not computed yet are hatched
 }
 
 // requestRender renders the shown data at the section view's size in the
@@ -265,7 +389,9 @@ func (v *viewer) requestRender() {
 		res := renderSection(req, basePal, ovPal)
 		v.onUI(j, func() {
 			for k, r := range res.newRanges {
-				if _, ok := v.ranges[k]; !ok { // the first range found is kept
+				// the first range found on complete data is kept; a time
+				// slice still being computed may show only a corner
+				if _, ok := v.ranges[k]; !ok && !res.pending {
 					v.ranges[k] = r
 				}
 			}
@@ -275,7 +401,9 @@ func (v *viewer) requestRender() {
 			v.sectionDrawn++
 			v.ui.legends.refresh(req.plan, res, &v.state)
 			v.ui.displayPanel.setHistogram(res.hist, colourLayer(req.plan))
-			v.maybeSnapshot()
+			if !res.pending {
+				v.maybeSnapshot()
+			}
 		})
 	})
 }

@@ -229,6 +229,81 @@ func TestRandomInteraction(t *testing.T) {
 			u.maxEntry.SetText(texts[rng.Intn(len(texts))])
 			u.maxEntry.OnSubmitted(u.maxEntry.Text)
 		}},
+		{"open map", func() {
+			// A horizon on the survey's grid with random times (some
+			// empty, some off the traces), or an existing one.
+			if all := v.horizons.all(); len(all) > 0 && rng.Intn(3) == 0 {
+				v.showMap(all[rng.Intn(len(all))])
+				return
+			}
+			h := horizon.New(max(v.info.Inline.Count, 1), max(v.info.Crossline.Count, 1))
+			t0 := rng.Float64() * 600
+			for k := range h.TimeMS {
+				if rng.Intn(5) > 0 {
+					h.TimeMS[k], h.Quality[k], h.State[k] = t0+rng.Float64()*40-20, 1, horizon.Tracked
+				}
+			}
+			v.showMap(v.horizons.addSurface("", h, h.Picked()))
+		}},
+		{"map settings", func() {
+			p := v.ui.mapPanel
+			if p == nil {
+				return
+			}
+			switch rng.Intn(8) {
+			case 0:
+				p.showPick.SetSelected([]string{mapShowTime, mapShowAttribute}[rng.Intn(2)])
+			case 1:
+				p.attrPick.SetSelected(attrs[rng.Intn(len(attrs))].Name)
+			case 2:
+				p.statPick.SetSelected(statLabels[rng.Intn(len(statLabels))])
+			case 3:
+				texts := []string{"", "x", "-10", "10", "0", "-40", "80", "1e9", "NaN"}
+				p.fromEntry.SetText(texts[rng.Intn(len(texts))])
+				p.toEntry.SetText(texts[rng.Intn(len(texts))])
+				p.applyWindow()
+			case 4:
+				if o := p.basePick.Options; len(o) > 0 {
+					p.basePick.SetSelected(o[rng.Intn(len(o))])
+				}
+			case 5:
+				p.palettePick.SetSelected(p.palettePick.Options[rng.Intn(len(p.palettePick.Options))])
+			case 6:
+				test.Tap(p.contourCheck)
+			case 7:
+				texts := []string{"", "auto", "0", "-1", "0.001", "2", "25", "abc"}
+				p.contourEntry.OnSubmitted(texts[rng.Intn(len(texts))])
+			}
+		}},
+		{"map click", func() {
+			if p := v.ui.mapPanel; p != nil {
+				s := p.view.Size()
+				p.view.Tapped(&fyne.PointEvent{Position: fyne.NewPos(rng.Float32()*s.Width, rng.Float32()*s.Height)})
+				p.view.MouseMoved(&desktop.MouseEvent{PointEvent: fyne.PointEvent{Position: fyne.NewPos(rng.Float32()*s.Width, rng.Float32()*s.Height)}})
+			}
+		}},
+		{"map cancel or close", func() {
+			p := v.ui.mapPanel
+			switch {
+			case p == nil:
+			case !p.work.box.Hidden && rng.Intn(2) == 0:
+				test.Tap(p.work.cancel)
+			case rng.Intn(3) == 0:
+				v.closeMap()
+			case len(v.horizons.all()) > 0:
+				all := v.horizons.all()
+				v.deleteHorizon(all[rng.Intn(len(all))]) // as the Horizons tab does
+			}
+		}},
+		{"map data", func() {
+			if p := v.ui.mapPanel; p != nil && p.shownMap != nil {
+				if c, err := p.mapContentNow(); err == nil {
+					if _, _, err := drawMap(c, 500, 400); err != nil {
+						fail("map figure of the shown map: %v", err)
+					}
+				}
+			}
+		}},
 		// Horizons: tools, seeds, tracking, cancels, erases, undo, the list.
 		{"horizon tool", func() {
 			v.hzEdit.panel.tool.SetSelected(toolNames[rng.Intn(len(toolNames))])
@@ -401,12 +476,42 @@ func checkConsistent(t *testing.T, v *viewer, fail func(string, ...any)) {
 			}
 		}
 	}
+	checkMapConsistent(v, fail)
 	checkHorizons(v, fail)
 	vp := v.state.viewport(n, m)
 	for _, x := range []float64{vp.Trace0, vp.Trace1, vp.Sample0, vp.Sample1} {
 		if math.IsNaN(x) || math.IsInf(x, 0) {
 			fail("viewport %+v", vp)
 		}
+	}
+}
+
+// checkMapConsistent checks, with every job done, that an open map shows
+// its horizon or says why not, on the survey's grid, with the section's
+// line and the pick where the shown data put them.
+func checkMapConsistent(v *viewer, fail func(string, ...any)) {
+	p := v.ui.mapPanel
+	if p == nil || !p.open {
+		return
+	}
+	if p.hz == nil || v.horizons.index(p.hz) < 0 {
+		fail("the map shows a horizon that is not in the list")
+	}
+	if p.view.message == "" {
+		if p.shownMap == nil || p.view.img == nil {
+			fail("the map shows no message and no map")
+		}
+		if p.view.nh != v.info.Crossline.Count || p.view.nv != v.info.Inline.Count {
+			fail("map of %d x %d cells on a survey of %d inlines x %d crosslines", p.view.nh, p.view.nv, v.info.Inline.Count, v.info.Crossline.Count)
+		}
+		if p.shownTop != p.hz.H {
+			fail("the map was made along another surface than its horizon's")
+		}
+	}
+	lr, lc, pc, pr := p.view.lineRow, p.view.lineCol, p.view.pickCol, p.view.pickRow
+	p.refreshMarks()
+	if !same(lr, p.view.lineRow) || !same(lc, p.view.lineCol) || !same(pc, p.view.pickCol) || !same(pr, p.view.pickRow) {
+		fail("map marks at row %v col %v pick %v,%v; the shown data put them at %v %v %v,%v", lr, lc, pc, pr, p.view.lineRow, p.view.lineCol, p.view.pickCol, p.view.pickRow)
 	}
 }
 

@@ -53,6 +53,7 @@ type curveSource struct {
 // requestTrace fills the trace panel for the picked trace in the
 // background: its amplitude and attribute curves and its spectrum.
 func (v *viewer) requestTrace() {
+	v.ui.mapPanel.refreshMarks() // the pick on the map
 	d := v.data
 	if !d.complete() || v.state.PickTrace < 0 || v.vol == nil {
 		v.ui.trace.setMessage("Click a trace to see it here")

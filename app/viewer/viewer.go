@@ -48,6 +48,7 @@ type Options struct {
 // opt.Snapshot set it returns after writing the snapshot, or with the error
 // that prevented it.
 func Run(opt Options) error {
+	limitWindowMemory()
 	if opt.IndexCache == nil {
 		opt.IndexCache = indexcache.Default()
 	}
@@ -70,6 +71,11 @@ type survey interface {
 	Trace(inline, crossline, offset int) ([]float32, error)
 	Attribute(ctx context.Context, s volume.Slice, a *compute.Attribute, p compute.Params, cond compute.Conditioning, progress func(done, total int)) (volume.Section, error)
 	TraceAttribute(ctx context.Context, inline, crossline, offset int, a *compute.Attribute, p compute.Params, cond compute.Conditioning) ([]float32, error)
+	// AttributeSoFar is a time slice of an attribute as far as it is
+	// computed (pending cells marked), without waiting.
+	AttributeSoFar(s volume.Slice, a *compute.Attribute, p compute.Params, cond compute.Conditioning) (volume.Section, bool)
+	// SetFocus says where the view is, so whole-volume work starts there.
+	SetFocus(inline, crossline, sample int)
 	// WriteDemo writes the in-memory demo survey as SEG-Y (an error for a file).
 	WriteDemo(ctx context.Context, path string, opt segy.WriteOptions) error
 }
@@ -262,6 +268,7 @@ func (v *viewer) setSurvey(vol survey) {
 	v.closeSurvey(v.vol)
 	v.jobs.cancel("render") // a picture of the old survey must not show up
 	v.vol = vol
+	limitSurveyMemory(vol)
 	v.info = vol.Info()
 	v.data = shown{}
 	v.cache.clear()

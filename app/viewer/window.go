@@ -24,6 +24,12 @@ type widgets struct {
 	*statusBar
 
 	recentMenu *fyne.MenuItem
+
+	// workArea holds the workspace, or the workspace and the map view
+	// side by side (mappanel.go); mapPanel is nil until a map is shown.
+	workArea  *fyne.Container
+	workspace fyne.CanvasObject
+	mapPanel  *mapPanel
 }
 
 // buildUI makes the window's content, menus and keys.
@@ -51,7 +57,9 @@ func (v *viewer) buildUI() {
 
 	workspace := container.New(&workspaceLayout{traceWidth: 300, stripHeight: 150},
 		u.section, u.trace, u.legends.content, u.spectrum)
-	main := container.NewBorder(u.navigationBar.content, nil, nil, nil, workspace)
+	u.workspace = workspace
+	u.workArea = container.NewStack(workspace)
+	main := container.NewBorder(u.navigationBar.content, nil, nil, nil, u.workArea)
 	tabs := container.NewAppTabs(
 		container.NewTabItem("Attribute", u.attributePanel.content),
 		container.NewTabItem("Display", u.displayPanel.content),
@@ -109,6 +117,7 @@ func (v *viewer) refreshControls() {
 func (v *viewer) refreshNavigation() {
 	v.ui.navigationBar.refresh(&v.state, v.info)
 	v.refreshTitle()
+	v.ui.mapPanel.refreshMarks() // the section's place on the map
 }
 
 // refreshTitle names the survey and the view in the window's title.

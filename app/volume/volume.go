@@ -10,7 +10,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"sync"
 	"sync/atomic"
 
 	"quadtrace/app/indexcache"
@@ -74,6 +73,10 @@ type Section struct {
 	// MapAspect is, for a TimeSlice, the metres per crossline step over the
 	// metres per inline step (1 when unknown).
 	MapAspect float64
+	// Pending, for a TimeSlice still being computed (Volume.AttributeSoFar),
+	// is true at the cells not computed yet (their values are NaN); nil when
+	// every cell is computed.
+	Pending [][]bool
 }
 
 // store is what a Volume reads from: a SEG-Y file or an in-memory survey.
@@ -101,8 +104,7 @@ type Volume struct {
 	info  segy.Info
 	store store
 
-	mu    sync.Mutex
-	cache map[string]*attributeVolume
+	attrs attributeStores // whole-volume brick stores (attribute.go)
 
 	// fast is set for a file opened with OpenFast: what Check needs to
 	// reopen it with the exact index
@@ -131,7 +133,7 @@ func OpenContext(ctx context.Context, path string, opt segy.Options) (*Volume, e
 	if err != nil {
 		return nil, err
 	}
-	return &Volume{name: path, path: path, info: f.Info(), store: fileStore{f}, cache: map[string]*attributeVolume{}}, nil
+	return &Volume{name: path, path: path, info: f.Info(), store: fileStore{f}}, nil
 }
 
 // OpenFast opens a SEG-Y file without reading every trace header when it
@@ -149,7 +151,7 @@ func openFast(ctx context.Context, path string, opt segy.Options, indices *index
 	if err != nil {
 		return nil, err
 	}
-	v := &Volume{name: path, path: path, info: f.Info(), store: fileStore{f}, cache: map[string]*attributeVolume{},
+	v := &Volume{name: path, path: path, info: f.Info(), store: fileStore{f},
 		fast: &fastOpen{file: f, opt: opt, indices: indices, stamp: fo.Stamp}}
 	if f.IndexSource() == segy.IndexFull && indices != nil {
 		// every header was read: keep the index for the next open (a
@@ -273,7 +275,7 @@ func Demo(ctx context.Context, cfg synth.Config, progress func(done, total int))
 
 // FromSurvey wraps an already generated demo survey.
 func FromSurvey(s *synth.Survey) *Volume {
-	return &Volume{name: s.Name + " (demo survey)", info: surveyInfo(s), store: surveyStore{s}, cache: map[string]*attributeVolume{}}
+	return &Volume{name: s.Name + " (demo survey)", info: surveyInfo(s), store: surveyStore{s}}
 }
 
 // Info returns what the survey holds, as `quadtrace scan` reports it.
@@ -285,14 +287,10 @@ func (v *Volume) Name() string { return v.name }
 // Path is the SEG-Y file's path, or "" for the in-memory demo survey.
 func (v *Volume) Path() string { return v.path }
 
-// Close releases the file mapping and any cached attribute volumes.
+// Close releases the whole-volume stores (their temporary files) and the
+// file mapping.
 func (v *Volume) Close() error {
-	v.mu.Lock()
-	for k, c := range v.cache {
-		c.release()
-		delete(v.cache, k)
-	}
-	v.mu.Unlock()
+	v.attrs.close()
 	return v.store.close()
 }
 
@@ -407,6 +405,13 @@ func (v *Volume) Read(ctx context.Context, s Slice) (Section, error) {
 	case TimeSlice:
 		if s.Number < 0 || s.Number >= v.info.Samples {
 			return Section{}, fmt.Errorf("%s: sample %d is outside 0 to %d", v.name, s.Number, v.info.Samples-1)
+		}
+		if v.UsesAmplitudeBricks() {
+			a, err := compute.Lookup("amplitude")
+			if err != nil {
+				return Section{}, err
+			}
+			return v.Attribute(ctx, s, a, compute.Params{}, compute.Conditioning{}, nil)
 		}
 		grid, err := v.store.timeSlice(s.Number, off)
 		if err != nil {

@@ -3,9 +3,9 @@ package volume
 import (
 	"context"
 	"math"
-	"os"
 	"testing"
 
+	"quadtrace/app/bricks"
 	"quadtrace/compute"
 	"quadtrace/compute/synth"
 	"quadtrace/segy"
@@ -79,9 +79,10 @@ func TestSectionsFollowCorpusRule(t *testing.T) {
 	}
 }
 
-// TestTimeSliceAttributeMatchesSections checks the whole-volume cache: the
+// TestTimeSliceAttributeMatchesSections checks the whole-volume store: the
 // envelope time slice at a sample equals the envelope of each inline
-// section at that sample, both in memory and through the temporary file.
+// section at that sample (attribute_test.go checks every sample, with
+// small bricks and a tiny memory bound).
 func TestTimeSliceAttributeMatchesSections(t *testing.T) {
 	cfg := synth.DefaultConfig()
 	cfg.Inlines, cfg.Crosslines, cfg.Samples = 7, 11, 300
@@ -99,6 +100,7 @@ func TestTimeSliceAttributeMatchesSections(t *testing.T) {
 	}
 	ctx := context.Background()
 	v := FromSurvey(s)
+	v.SetBrickOptions(bricks.Options{Dir: t.TempDir()}, 0, 0)
 	defer v.Close()
 	const sample = 150
 	var calls int
@@ -110,7 +112,7 @@ func TestTimeSliceAttributeMatchesSections(t *testing.T) {
 		t.Error("no progress reported while computing the volume")
 	}
 	for i, il := range ts.InlineKeys {
-		sec, err := v.Attribute(ctx, Slice{Orientation: Inline, Number: il}, a, p, compute.Conditioning{}, nil)
+		sec, err := directAttribute(ctx, v, Slice{Orientation: Inline, Number: il}, a, p, compute.Conditioning{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -120,37 +122,6 @@ func TestTimeSliceAttributeMatchesSections(t *testing.T) {
 			}
 		}
 	}
-	// The same through the temporary-file cache.
-	c, err := v.computeVolume(ctx, a, p, compute.Conditioning{}, 0, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	mem := c.mem
-	f, err := newAttributeVolume(c.ninl, c.nx, c.ns)
-	if err != nil {
-		t.Fatal(err)
-	}
-	f.mem = nil
-	if f.file, err = os.CreateTemp(t.TempDir(), "cache"); err != nil {
-		t.Fatal(err)
-	}
-	for slot := 0; slot < c.ninl*c.nx; slot++ {
-		if err := f.put(slot, [][]float32{mem[slot*c.ns : (slot+1)*c.ns]}); err != nil {
-			t.Fatal(err)
-		}
-	}
-	grid, err := f.slice(sample)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i := range grid {
-		for j := range grid[i] {
-			if grid[i][j] != ts.Traces[i][j] {
-				t.Fatalf("file cache (%d,%d) = %v, memory %v", i, j, grid[i][j], ts.Traces[i][j])
-			}
-		}
-	}
-	f.release()
 }
 
 // TestCancelledTimeSlice: a cancelled context stops the volume job.

@@ -1,0 +1,431 @@
+package bricks
+
+import (
+	"context"
+	"errors"
+	"math"
+	"runtime"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"quadtrace/app/apptest"
+)
+
+// value is the test volume's sample (i, x, z): every sample distinct, so
+// any misplaced one shows.
+func value(i, x, z int) float32 { return float32(i*1000000 + x*1000 + z) }
+
+// valueFill computes tiles of value, counting calls and recording tiles.
+type valueFill struct {
+	mu    sync.Mutex
+	shape Shape
+	tiles []Tile
+	gate  chan struct{} // when not nil, each tile waits for one receive
+	began chan Tile     // when not nil, told of each tile before the gate
+}
+
+func (f *valueFill) fill(ctx context.Context, t Tile) ([][]float32, error) {
+	if f.began != nil {
+		f.began <- t
+	}
+	if f.gate != nil {
+		select {
+		case <-f.gate:
+		case <-ctx.Done():
+			return nil, ctx.Err()
+		}
+	}
+	f.mu.Lock()
+	f.tiles = append(f.tiles, t)
+	f.mu.Unlock()
+	out := make([][]float32, 0, t.Traces())
+	for i := t.I0; i < t.I1; i++ {
+		for x := t.X0; x < t.X1; x++ {
+			tr := make([]float32, f.shape.Samples)
+			for z := range tr {
+				tr[z] = value(i, x, z)
+			}
+			out = append(out, tr)
+		}
+	}
+	return out, nil
+}
+
+func newTestStore(t *testing.T, shape Shape, f *valueFill, cache *Cache, opt Options) *Store {
+	t.Helper()
+	f.shape = shape
+	if opt.Dir == "" {
+		opt.Dir = t.TempDir()
+	}
+	s, err := New("test volume", shape, f.fill, cache, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { s.Close() })
+	return s
+}
+
+// checkAll reads every time slice, inline and crossline of a filled store
+// and compares each sample with value; sections must come back when
+// resident is true (every brick fits the cache), else they may be refused.
+func checkAll(t *testing.T, s *Store, resident bool) {
+	t.Helper()
+	sh := s.Shape()
+	for z := range sh.Samples {
+		grid, pending, err := s.TimeSlice(z)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if pending != nil {
+			t.Fatalf("sample %d: pending cells in a filled store", z)
+		}
+		for i := range sh.Inlines {
+			for x := range sh.Crosslines {
+				if grid[i][x] != value(i, x, z) {
+					t.Fatalf("time slice %d at (%d,%d) = %v, want %v", z, i, x, grid[i][x], value(i, x, z))
+				}
+			}
+		}
+	}
+	for i := range sh.Inlines {
+		traces, ok, err := s.Inline(i)
+		if err != nil || (resident && !ok) {
+			t.Fatalf("inline %d: ok %v, %v", i, ok, err)
+		}
+		for x, tr := range traces {
+			for z, v := range tr {
+				if v != value(i, x, z) {
+					t.Fatalf("inline %d crossline %d sample %d = %v, want %v", i, x, z, v, value(i, x, z))
+				}
+			}
+		}
+	}
+	for x := range sh.Crosslines {
+		traces, ok, err := s.Crossline(x)
+		if err != nil || (resident && !ok) {
+			t.Fatalf("crossline %d: ok %v, %v", x, ok, err)
+		}
+		for i, tr := range traces {
+			for z, v := range tr {
+				if v != value(i, x, z) {
+					t.Fatalf("crossline %d inline %d sample %d = %v, want %v", x, i, z, v, value(i, x, z))
+				}
+			}
+		}
+	}
+}
+
+// TestEverySampleInItsPlace fills stores whose sizes are and are not
+// multiples of the brick edge and reads back every sample through time
+// slices, inlines and crosslines.
+func TestEverySampleInItsPlace(t *testing.T) {
+	for _, c := range []struct {
+		shape Shape
+		edge  int
+	}{
+		{Shape{16, 24, 32}, 8},
+		{Shape{13, 29, 37}, 8},
+		{Shape{1, 1, 5}, 4},
+		{Shape{3, 70, 9}, 64},
+	} {
+		s := newTestStore(t, c.shape, &valueFill{}, NewCache(64<<20), Options{Edge: c.edge})
+		if err := s.Wait(context.Background(), nil); err != nil {
+			t.Fatal(err)
+		}
+		checkAll(t, s, true)
+	}
+}
+
+// TestTinyMemoryBound: a cache bound of two bricks holds at most two
+// bricks while the store fills and is read, every time slice (planes read
+// from the file) is right, and sections crossing bricks no longer resident
+// are refused, never wrong.
+func TestTinyMemoryBound(t *testing.T) {
+	const edge = 8
+	brick := int64(edge * edge * edge * 4)
+	cache := NewCache(2 * brick)
+	s := newTestStore(t, Shape{20, 30, 40}, &valueFill{}, cache, Options{Edge: edge})
+	if err := s.Wait(context.Background(), nil); err != nil {
+		t.Fatal(err)
+	}
+	if cache.Used() > 2*brick {
+		t.Fatalf("after filling, %d bytes resident, bound %d", cache.Used(), 2*brick)
+	}
+	checkAll(t, s, false)
+	if _, ok, _ := s.Inline(0); ok {
+		t.Error("inline 0 read from bricks that cannot all be resident")
+	}
+	if cache.Used() > 2*brick || cache.Used() == 0 {
+		t.Fatalf("after reading, %d bytes resident, bound %d", cache.Used(), 2*brick)
+	}
+	s.Close()
+	if cache.Used() != 0 {
+		t.Errorf("closed store left %d bytes resident", cache.Used())
+	}
+}
+
+// TestNearestFirst: with one worker the columns are filled in order of
+// distance from the focus, for a point (time slice) and for a line (an
+// inline section: distance along inlines only).
+func TestNearestFirst(t *testing.T) {
+	const edge = 4
+	shape := Shape{40, 36, 8}
+	for _, focus := range [][2]float64{{21, 9}, {0, 35}, {17, math.NaN()}} {
+		f := &valueFill{}
+		s := newTestStore(t, shape, f, nil, Options{Edge: edge, Workers: 1})
+		s.SetFocus(focus[0], focus[1])
+		if err := s.Wait(context.Background(), nil); err != nil {
+			t.Fatal(err)
+		}
+		dist := func(tl Tile) float64 {
+			d := func(lo, hi int, at float64) float64 {
+				if math.IsNaN(at) {
+					return 0
+				}
+				return math.Max(0, math.Max(float64(lo)-at, at-float64(hi-1)))
+			}
+			return math.Hypot(d(tl.I0, tl.I1, focus[0]), d(tl.X0, tl.X1, focus[1]))
+		}
+		if len(f.tiles) != 10*9 {
+			t.Fatalf("%d columns filled, want 90", len(f.tiles))
+		}
+		if d := dist(f.tiles[0]); d != 0 {
+			t.Errorf("focus %v: first column %+v is %g traces away", focus, f.tiles[0], d)
+		}
+		for k := 1; k < len(f.tiles); k++ {
+			if dist(f.tiles[k]) < dist(f.tiles[k-1]) {
+				t.Fatalf("focus %v: column %d %+v (distance %g) after %+v (distance %g)", focus, k, f.tiles[k], dist(f.tiles[k]), f.tiles[k-1], dist(f.tiles[k-1]))
+			}
+		}
+	}
+}
+
+// TestProgressiveSliceMarksPending: while only some columns are filled,
+// a time slice has their values and marks every other cell pending (NaN);
+// a moved focus changes which column comes next.
+func TestProgressiveSliceMarksPending(t *testing.T) {
+	const edge = 8
+	f := &valueFill{gate: make(chan struct{}), began: make(chan Tile, 100)}
+	shape := Shape{20, 30, 12}
+	s := newTestStore(t, shape, f, NewCache(1<<20), Options{Edge: edge, Workers: 1})
+	s.SetFocus(0, 0)
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	waited := make(chan error, 1)
+	go func() { waited <- s.Wait(ctx, nil) }()
+	if tl := <-f.began; tl != (Tile{0, 8, 0, 8}) {
+		t.Fatalf("first column %+v, want the one at the focus", tl)
+	}
+	s.SetFocus(19, 29)
+	f.gate <- struct{}{} // column (0,0) completes
+	if tl := <-f.began; tl != (Tile{16, 20, 24, 30}) {
+		t.Fatalf("after the focus moved, column %+v, want the far corner's", tl)
+	}
+	f.gate <- struct{}{}
+	waitDone(t, s, 2)
+	grid, pending, err := s.TimeSlice(5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if pending == nil {
+		t.Fatal("a partly filled store gave no pending cells")
+	}
+	filledCell := func(i, x int) bool { return (i < 8 && x < 8) || (i >= 16 && x >= 24) }
+	for i := range shape.Inlines {
+		for x := range shape.Crosslines {
+			switch {
+			case filledCell(i, x) && (pending[i][x] || grid[i][x] != value(i, x, 5)):
+				t.Fatalf("filled cell (%d,%d): pending %v value %v, want %v", i, x, pending[i][x], grid[i][x], value(i, x, 5))
+			case !filledCell(i, x) && (!pending[i][x] || !math.IsNaN(float64(grid[i][x]))):
+				t.Fatalf("unfilled cell (%d,%d): pending %v value %v", i, x, pending[i][x], grid[i][x])
+			}
+		}
+	}
+	if _, ok, err := s.Inline(3); ok || err != nil {
+		t.Errorf("inline 3 crosses unfilled columns but came back ok %v, %v", ok, err)
+	}
+	cancel()
+	if err := <-waited; !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled wait returned %v", err)
+	}
+	close(f.gate)
+	if err := s.Wait(context.Background(), nil); err != nil {
+		t.Fatal(err)
+	}
+	checkAll(t, s, false)
+}
+
+func waitDone(t *testing.T, s *Store, n int) {
+	t.Helper()
+	deadline := time.Now().Add(10 * time.Second)
+	for {
+		if done, _ := s.Progress(); done >= n {
+			return
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("no %d columns filled in 10 s", n)
+		}
+		time.Sleep(time.Millisecond)
+	}
+}
+
+// TestSharedWaiters: several waiters at once share one filling (each
+// column computed once) and all see it complete.
+func TestSharedWaiters(t *testing.T) {
+	f := &valueFill{}
+	s := newTestStore(t, Shape{30, 30, 10}, f, nil, Options{Edge: 4, Workers: 3})
+	var wg sync.WaitGroup
+	errs := make([]error, 8)
+	for k := range errs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			errs[k] = s.Wait(context.Background(), func(done, total int) {})
+		}()
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			t.Fatal(err)
+		}
+	}
+	if len(f.tiles) != 64 {
+		t.Errorf("%d columns computed for 8 waiters, want 64 (each once)", len(f.tiles))
+	}
+	checkAll(t, s, false)
+}
+
+// TestFillErrorStops: a failing column stops the store with an error that
+// names what failed, and every waiter gets it.
+func TestFillErrorStops(t *testing.T) {
+	fail := func(ctx context.Context, tl Tile) ([][]float32, error) {
+		return nil, errors.New("disk on fire at trace 7")
+	}
+	s, err := New("envelope", Shape{10, 10, 10}, fail, nil, Options{Dir: t.TempDir(), Edge: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Wait(context.Background(), nil); err == nil || !strings.Contains(err.Error(), "disk on fire") {
+		t.Errorf("wait returned %v", err)
+	}
+	short := func(ctx context.Context, tl Tile) ([][]float32, error) { return make([][]float32, 1), nil }
+	s2, err := New("envelope", Shape{10, 10, 10}, short, nil, Options{Dir: t.TempDir(), Edge: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s2.Close()
+	if err := s2.Wait(context.Background(), nil); err == nil || !strings.Contains(err.Error(), "want 16") {
+		t.Errorf("wrong trace count: wait returned %v", err)
+	}
+}
+
+// TestCancelAnyMomentLeavesNothing closes stores at moments spread over
+// their filling: the cache folder stays empty, no open file of the process
+// points into it, and a waiter gets an error, never a hang.
+func TestCancelAnyMomentLeavesNothing(t *testing.T) {
+	dir := t.TempDir()
+	for k := range 12 {
+		f := &valueFill{}
+		s, err := New("test", Shape{40, 40, 50}, func(ctx context.Context, tl Tile) ([][]float32, error) {
+			return f.fill(ctx, tl)
+		}, NewCache(1<<16), Options{Dir: dir, Edge: 4})
+		f.shape = s.Shape()
+		if err != nil {
+			t.Fatal(err)
+		}
+		ctx, cancel := context.WithCancel(context.Background())
+		waited := make(chan error, 1)
+		go func() { waited <- s.Wait(ctx, nil) }()
+		time.Sleep(time.Duration(k) * 300 * time.Microsecond)
+		if k%2 == 0 {
+			cancel()
+		}
+		s.Close()
+		select {
+		case <-waited:
+		case <-time.After(10 * time.Second):
+			t.Fatal("a waiter hung after Close")
+		}
+		cancel()
+		if _, _, err := s.TimeSlice(0); !ErrClosed(err) {
+			t.Errorf("time slice of a closed store: %v", err)
+		}
+	}
+	apptest.NoLeftovers(t, dir)
+}
+
+// TestNoRoomRefused: a store larger than the cache folder's free space is
+// refused before anything is written, naming the folder and both sizes.
+func TestNoRoomRefused(t *testing.T) {
+	free, ok := freeBytes(t.TempDir())
+	if !ok {
+		t.Skip("free space unknown on this system")
+	}
+	n := int(math.Sqrt(float64(free/(64*4)))) + 1000 // far more than free
+	_, err := New("envelope", Shape{n, n, 64}, (&valueFill{}).fill, nil, Options{Dir: t.TempDir()})
+	if err == nil || !strings.Contains(err.Error(), "free") {
+		t.Errorf("store of %d x %d traces in a folder with %d bytes free: %v", n, n, free, err)
+	}
+}
+
+// TestParseBytes reads the memory setting's forms.
+func TestParseBytes(t *testing.T) {
+	for s, want := range map[string]int64{"1024": 1024, "512M": 512 << 20, "2G": 2 << 30, "2GiB": 2 << 30, "64k": 64 << 10, "3 MB": 3 << 20} {
+		if got, err := ParseBytes(s); err != nil || got != want {
+			t.Errorf("ParseBytes(%q) = %d, %v; want %d", s, got, err, want)
+		}
+	}
+	for _, s := range []string{"", "lots", "-5M", "1.5G", "99999999999G"} {
+		if _, err := ParseBytes(s); err == nil {
+			t.Errorf("ParseBytes(%q) accepted", s)
+		}
+	}
+	t.Setenv("QUADTRACE_BRICK_MEMORY", "many")
+	if _, err := DefaultMemory(); err == nil || !strings.Contains(err.Error(), "QUADTRACE_BRICK_MEMORY") {
+		t.Errorf("bad setting: %v", err)
+	}
+	t.Setenv("QUADTRACE_BRICK_MEMORY", "")
+	if n, err := DefaultMemory(); err != nil || n <= 0 {
+		t.Errorf("default memory %d, %v", n, err)
+	}
+}
+
+// TestResidentBrickHoldsOnlyItself: time slices read while the store fills
+// keep the first brick of each column recently used while the second is
+// dropped; the memory held must stay near the bound (each brick its own
+// array), not grow by whole columns.
+func TestResidentBrickHoldsOnlyItself(t *testing.T) {
+	const brick = 64 * 64 * 64 * 4
+	budget := int64(10 * brick)
+	cache := NewCache(budget)
+	shape := Shape{64 * 32, 64, 128} // 32 columns of 2 bricks of 1 MiB
+	f := &valueFill{shape: shape}
+	var s *Store
+	touch := func(ctx context.Context, tl Tile) ([][]float32, error) {
+		if _, _, err := s.TimeSlice(0); err != nil { // layer 0 becomes recently used
+			return nil, err
+		}
+		return f.fill(ctx, tl)
+	}
+	s, err := New("test", shape, touch, cache, Options{Dir: t.TempDir(), Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	runtime.GC()
+	var before runtime.MemStats
+	runtime.ReadMemStats(&before)
+	if err := s.Wait(context.Background(), nil); err != nil {
+		t.Fatal(err)
+	}
+	runtime.GC()
+	var after runtime.MemStats
+	runtime.ReadMemStats(&after)
+	held := int64(after.HeapAlloc) - int64(before.HeapAlloc)
+	if held > budget*13/10 {
+		t.Errorf("%d MiB held after filling with resident bricks bounded to %d MiB", held>>20, budget>>20)
+	}
+}
