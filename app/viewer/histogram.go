@@ -48,13 +48,17 @@ func histogramOf(l render.Layer, w, h int) valueHistogram {
 		return hs
 	}
 	var counts [histogramBins]int
+	// One multiplication per value, not a division (the division was half
+	// of this loop): a value on a bin edge may fall one bin over, which
+	// the picture cannot show.
+	scale := histogramBins / (hs.max - hs.min)
 	for _, tr := range l.Data {
 		for _, x := range tr {
 			f := float64(x)
-			if math.IsNaN(f) || math.IsInf(f, 0) {
+			if f-f != 0 { // NaN or ±Inf
 				continue
 			}
-			k := min(int((f-hs.min)/(hs.max-hs.min)*histogramBins), histogramBins-1)
+			k := min(int((f-hs.min)*scale), histogramBins-1)
 			counts[k]++
 		}
 	}
