@@ -340,28 +340,21 @@ func (s *Store) fillColumn(t int) error {
 		return fmt.Errorf("%s: column of inlines %d-%d, crosslines %d-%d: %d traces computed, want %d", s.name, tl.I0, tl.I1-1, tl.X0, tl.X1-1, len(traces), tl.Traces())
 	}
 	nx := tl.X1 - tl.X0
-	e, e2 := s.edge, s.edge*s.edge
+	e := s.edge
 	for k, tr := range traces {
 		if len(tr) != s.shape.Samples {
 			return fmt.Errorf("%s: column of inlines %d-%d, crosslines %d-%d: trace %d has %d samples, want %d", s.name, tl.I0, tl.I1-1, tl.X0, tl.X1-1, k, len(tr), s.shape.Samples)
 		}
 	}
-	// Brick by brick, so the scattered writes stay inside one brick; each
-	// brick is its own allocation, so a brick kept resident holds only
-	// itself (a sub-slice of one column-wide array would keep the whole
-	// column alive: measured 1.2 GB held for 192 MB of resident bricks).
+	// Each brick is its own allocation, so a brick kept resident holds
+	// only itself (a sub-slice of one column-wide array would keep the
+	// whole column alive: measured 1.2 GB held for 192 MB of resident
+	// bricks).
 	bricks := make([][]float32, s.ntz)
-	for z := range s.ntz {
-		brick := make([]float32, s.brickFloats)
-		z0, z1 := z*e, min(s.shape.Samples, (z+1)*e)
-		for k, tr := range traces {
-			at := (k/nx)*e + k%nx
-			for zk, v := range tr[z0:z1] {
-				brick[zk*e2+at] = v
-			}
-		}
-		bricks[z] = brick
+	for z := range bricks {
+		bricks[z] = make([]float32, s.brickFloats)
 	}
+	transpose(bricks, traces, nx, e, s.shape.Samples)
 	s.fileMu.RLock()
 	defer s.fileMu.RUnlock()
 	if s.file == nil {
@@ -379,6 +372,40 @@ func (s *Store) fillColumn(t int) error {
 		}
 	}
 	return nil
+}
+
+// transposeBlock is how many traces of one inline transpose copies
+// together: one 64-byte cache line of each brick plane is written whole
+// while the block's traces are read forwards, 16 streams at once.
+const transposeBlock = 16
+
+// transpose writes a column's traces into its bricks: trace k (inline-major,
+// nx traces to an inline of the tile) at sample z lands in brick z/e at
+// (z%e)*e*e + (k/nx)*e + k%nx (time-slowest). It works in blocks of
+// transposeBlock neighbouring traces of one inline so every write fills a
+// cache line of one plane and every read walks its trace forwards (the
+// trace-by-trace scatter it replaced wrote 4-byte values 16 KiB apart:
+// BenchmarkFillColumn). Cells of a brick outside the tile or beyond the
+// last sample are left as they are.
+func transpose(bricks, traces [][]float32, nx, e, ns int) {
+	e2 := e * e
+	for k0 := 0; k0 < len(traces); k0 += nx {
+		row := traces[k0 : k0+nx]
+		at0 := (k0 / nx) * e // first cell of this inline in a plane
+		for x0 := 0; x0 < nx; x0 += transposeBlock {
+			block := row[x0:min(nx, x0+transposeBlock)]
+			for z, brick := range bricks {
+				z0, z1 := z*e, min(ns, (z+1)*e)
+				for zk := z0; zk < z1; zk++ {
+					off := (zk-z0)*e2 + at0 + x0
+					dst := brick[off : off+len(block) : off+len(block)]
+					for j, tr := range block {
+						dst[j] = tr[zk]
+					}
+				}
+			}
+		}
+	}
 }
 
 // TimeSlice returns the values at sample k, [inline][crossline], and the

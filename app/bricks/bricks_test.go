@@ -429,3 +429,51 @@ func TestResidentBrickHoldsOnlyItself(t *testing.T) {
 		t.Errorf("%d MiB held after filling with resident bricks bounded to %d MiB", held>>20, budget>>20)
 	}
 }
+
+// TestTransposeEqualsDirect: the cache-blocked transposition puts every
+// sample where the direct formula says (brick z/e, cell
+// (z%e)*e*e + (k/nx)*e + k%nx), for tiles narrower than a block, wider than
+// one, partial tiles and a partial last brick; cells it must not touch keep
+// their value.
+func TestTransposeEqualsDirect(t *testing.T) {
+	for _, c := range []struct{ ni, nx, e, ns int }{
+		{1, 1, 1, 1}, {3, 5, 8, 11}, {8, 8, 8, 16}, {7, 20, 32, 33}, {64, 64, 64, 751}, {2, 17, 17, 40},
+	} {
+		traces := make([][]float32, c.ni*c.nx)
+		for k := range traces {
+			traces[k] = make([]float32, c.ns)
+			for z := range traces[k] {
+				traces[k][z] = float32(k*1000 + z + 1)
+			}
+		}
+		ntz := (c.ns + c.e - 1) / c.e
+		const untouched = -7
+		bricks := make([][]float32, ntz)
+		for z := range bricks {
+			bricks[z] = make([]float32, c.e*c.e*c.e)
+			for i := range bricks[z] {
+				bricks[z][i] = untouched
+			}
+		}
+		transpose(bricks, traces, c.nx, c.e, c.ns)
+		want := make([][]float32, ntz)
+		for z := range want {
+			want[z] = make([]float32, c.e*c.e*c.e)
+			for i := range want[z] {
+				want[z][i] = untouched
+			}
+		}
+		for k, tr := range traces {
+			for z, v := range tr {
+				want[z/c.e][(z%c.e)*c.e*c.e+(k/c.nx)*c.e+k%c.nx] = v
+			}
+		}
+		for z := range want {
+			for i := range want[z] {
+				if bricks[z][i] != want[z][i] {
+					t.Fatalf("%+v: brick %d cell %d = %v, want %v", c, z, i, bricks[z][i], want[z][i])
+				}
+			}
+		}
+	}
+}
