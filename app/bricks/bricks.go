@@ -51,9 +51,13 @@ func (t Tile) Traces() int { return (t.I1 - t.I0) * (t.X1 - t.X0) }
 
 // FillFunc computes the traces of one tile, inline-major: trace
 // (i, x) of the tile at index (i-I0)*(X1-X0)+(x-X0), each Samples long (NaN
-// where the survey has no trace). It must honour ctx and may be called from
-// several goroutines at once.
-type FillFunc func(ctx context.Context, t Tile) ([][]float32, error)
+// where the survey has no trace). dst is scratch it may fill and return
+// (t.Traces() traces of Samples each, owned by the calling filler and
+// reused for its next column, so a fill touches no fresh memory), or it
+// returns traces of its own; either way it keeps no reference to what it
+// returns. It must honour ctx and may be called from several goroutines at
+// once.
+type FillFunc func(ctx context.Context, t Tile, dst [][]float32) ([][]float32, error)
 
 // Options set where a store keeps its file and how it fills.
 type Options struct {
@@ -252,6 +256,7 @@ func (s *Store) startFillers() {
 // filler fills columns, nearest the focus first, while anyone waits.
 func (s *Store) filler() {
 	defer s.fillersRunning.Done()
+	var scratch []float32 // this filler's columns, one after another
 	for {
 		s.mu.Lock()
 		t := -1
@@ -266,7 +271,10 @@ func (s *Store) filler() {
 		s.state[t] = filling
 		s.mu.Unlock()
 
-		err := s.fillColumn(t)
+		if scratch == nil {
+			scratch = make([]float32, s.edge*s.edge*s.shape.Samples)
+		}
+		err := s.fillColumn(t, scratch)
 
 		s.mu.Lock()
 		switch {
@@ -329,10 +337,11 @@ func (s *Store) tile(t int) Tile {
 	return Tile{I0: ti * s.edge, I1: min(s.shape.Inlines, (ti+1)*s.edge), X0: tx * s.edge, X1: min(s.shape.Crosslines, (tx+1)*s.edge)}
 }
 
-// fillColumn computes tile t and writes its bricks.
-func (s *Store) fillColumn(t int) error {
+// fillColumn computes tile t, with scratch (edge*edge*Samples floats) as
+// the fill's dst, and writes its bricks.
+func (s *Store) fillColumn(t int, scratch []float32) error {
 	tl := s.tile(t)
-	traces, err := s.fill(s.fillCtx, tl)
+	traces, err := s.fill(s.fillCtx, tl, rows(scratch[:tl.Traces()*s.shape.Samples], tl.Traces(), s.shape.Samples))
 	if err != nil {
 		return err
 	}

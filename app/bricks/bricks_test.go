@@ -26,7 +26,7 @@ type valueFill struct {
 	began chan Tile     // when not nil, told of each tile before the gate
 }
 
-func (f *valueFill) fill(ctx context.Context, t Tile) ([][]float32, error) {
+func (f *valueFill) fill(ctx context.Context, t Tile, dst [][]float32) ([][]float32, error) {
 	if f.began != nil {
 		f.began <- t
 	}
@@ -40,17 +40,20 @@ func (f *valueFill) fill(ctx context.Context, t Tile) ([][]float32, error) {
 	f.mu.Lock()
 	f.tiles = append(f.tiles, t)
 	f.mu.Unlock()
-	out := make([][]float32, 0, t.Traces())
+	// into the filler's scratch (reused from column to column, partial
+	// tiles included), so the tests check that reuse
 	for i := t.I0; i < t.I1; i++ {
 		for x := t.X0; x < t.X1; x++ {
-			tr := make([]float32, f.shape.Samples)
+			tr := dst[(i-t.I0)*(t.X1-t.X0)+x-t.X0]
+			if len(tr) != f.shape.Samples {
+				return nil, errors.New("scratch trace of the wrong length")
+			}
 			for z := range tr {
 				tr[z] = value(i, x, z)
 			}
-			out = append(out, tr)
 		}
 	}
-	return out, nil
+	return dst, nil
 }
 
 func newTestStore(t *testing.T, shape Shape, f *valueFill, cache *Cache, opt Options) *Store {
@@ -300,7 +303,7 @@ func TestSharedWaiters(t *testing.T) {
 // TestFillErrorStops: a failing column stops the store with an error that
 // names what failed, and every waiter gets it.
 func TestFillErrorStops(t *testing.T) {
-	fail := func(ctx context.Context, tl Tile) ([][]float32, error) {
+	fail := func(ctx context.Context, tl Tile, dst [][]float32) ([][]float32, error) {
 		return nil, errors.New("disk on fire at trace 7")
 	}
 	s, err := New("envelope", Shape{10, 10, 10}, fail, nil, Options{Dir: t.TempDir(), Edge: 4})
@@ -311,7 +314,9 @@ func TestFillErrorStops(t *testing.T) {
 	if err := s.Wait(context.Background(), nil); err == nil || !strings.Contains(err.Error(), "disk on fire") {
 		t.Errorf("wait returned %v", err)
 	}
-	short := func(ctx context.Context, tl Tile) ([][]float32, error) { return make([][]float32, 1), nil }
+	short := func(ctx context.Context, tl Tile, dst [][]float32) ([][]float32, error) {
+		return make([][]float32, 1), nil
+	}
 	s2, err := New("envelope", Shape{10, 10, 10}, short, nil, Options{Dir: t.TempDir(), Edge: 4})
 	if err != nil {
 		t.Fatal(err)
@@ -329,8 +334,8 @@ func TestCancelAnyMomentLeavesNothing(t *testing.T) {
 	dir := t.TempDir()
 	for k := range 12 {
 		f := &valueFill{}
-		s, err := New("test", Shape{40, 40, 50}, func(ctx context.Context, tl Tile) ([][]float32, error) {
-			return f.fill(ctx, tl)
+		s, err := New("test", Shape{40, 40, 50}, func(ctx context.Context, tl Tile, dst [][]float32) ([][]float32, error) {
+			return f.fill(ctx, tl, dst)
 		}, NewCache(1<<16), Options{Dir: dir, Edge: 4})
 		f.shape = s.Shape()
 		if err != nil {
@@ -404,11 +409,11 @@ func TestResidentBrickHoldsOnlyItself(t *testing.T) {
 	shape := Shape{64 * 32, 64, 128} // 32 columns of 2 bricks of 1 MiB
 	f := &valueFill{shape: shape}
 	var s *Store
-	touch := func(ctx context.Context, tl Tile) ([][]float32, error) {
+	touch := func(ctx context.Context, tl Tile, dst [][]float32) ([][]float32, error) {
 		if _, _, err := s.TimeSlice(0); err != nil { // layer 0 becomes recently used
 			return nil, err
 		}
-		return f.fill(ctx, tl)
+		return f.fill(ctx, tl, dst)
 	}
 	s, err := New("test", shape, touch, cache, Options{Dir: t.TempDir(), Workers: 1})
 	if err != nil {
