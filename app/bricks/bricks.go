@@ -361,7 +361,11 @@ func (s *Store) fillColumn(t int, scratch []float32) error {
 	// bricks).
 	bricks := make([][]float32, s.ntz)
 	for z := range bricks {
-		bricks[z] = make([]float32, s.brickFloats)
+		if s.cache != nil {
+			bricks[z] = s.cache.newBrick(s.brickFloats)
+		} else {
+			bricks[z] = make([]float32, s.brickFloats)
+		}
 	}
 	transpose(bricks, traces, nx, e, s.shape.Samples)
 	s.fileMu.RLock()
@@ -498,7 +502,8 @@ func (s *Store) copyPlane(grid [][]float32, t, z, zk int, buf []float32) error {
 	e, e2 := s.edge, s.edge*s.edge
 	tl := s.tile(t)
 	src := buf
-	if b := s.resident(t*s.ntz + z); b != nil {
+	if b, pin := s.resident(t*s.ntz + z); b != nil {
+		defer s.cache.unpin(pin)
 		src = b[zk*e2 : (zk+1)*e2]
 	} else {
 		// only the rows of the plane the tile uses
@@ -550,14 +555,21 @@ func (s *Store) section(n int, tileOf, at func(k int) int) ([][]float32, bool, e
 	}
 	s.mu.Unlock()
 	var bricks [][]float32 // tile-major, then depth
+	var pins []*entry      // unpinned when the traces are copied
+	defer func() {
+		for _, pin := range pins {
+			s.cache.unpin(pin)
+		}
+	}()
 	for k0 := 0; k0 < n; k0 += s.edge {
 		t := tileOf(k0)
 		for z := range s.ntz {
-			b := s.resident(t*s.ntz + z)
+			b, pin := s.resident(t*s.ntz + z)
 			if b == nil {
 				return nil, false, nil
 			}
 			bricks = append(bricks, b)
+			pins = append(pins, pin)
 		}
 	}
 	ns, e2 := s.shape.Samples, s.edge*s.edge
@@ -576,11 +588,13 @@ func (s *Store) section(n int, tileOf, at func(k int) int) ([][]float32, bool, e
 	return traces, true, nil
 }
 
-func (s *Store) resident(b int) []float32 {
+// resident returns brick b when it is in the cache, pinned: the caller
+// calls s.cache.unpin(pin) when it has copied what it needs.
+func (s *Store) resident(b int) (data []float32, pin *entry) {
 	if s.cache == nil {
-		return nil
+		return nil, nil
 	}
-	return s.cache.get(s, b)
+	return s.cache.pin(s, b)
 }
 
 // Close stops the filling (columns in progress are abandoned), drops the

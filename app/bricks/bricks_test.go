@@ -3,6 +3,7 @@ package bricks
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"runtime"
 	"strings"
@@ -481,4 +482,118 @@ func TestTransposeEqualsDirect(t *testing.T) {
 			}
 		}
 	}
+}
+
+// TestPinnedBrickNotRecycled: a brick evicted while pinned is not handed
+// out again until unpinned; one evicted unpinned is (the free list), and
+// the free list stays within its bound.
+func TestPinnedBrickNotRecycled(t *testing.T) {
+	const n = 1024 // floats: 4 KiB bricks
+	c := NewCache(16 * n * 4)
+	s := &Store{}
+	a := make([]float32, n)
+	c.put(s, 0, a)
+	got, pin := c.pin(s, 0)
+	if &got[0] != &a[0] {
+		t.Fatal("pin returned another brick")
+	}
+	for b := 1; b <= 16; b++ { // evicts brick 0 (least recently used)
+		c.put(s, b, make([]float32, n))
+	}
+	if d, _ := c.pin(s, 0); d != nil {
+		t.Fatal("brick 0 still resident")
+	}
+	for range 3 {
+		if nb := c.newBrick(n); &nb[0] == &a[0] {
+			t.Fatal("a pinned brick was handed out for a new column")
+		}
+	}
+	c.unpin(pin)
+	if nb := c.newBrick(n); &nb[0] != &a[0] {
+		t.Error("the unpinned evicted brick was not reused")
+	}
+	for b := 17; b < 200; b++ {
+		c.put(s, b, make([]float32, n))
+	}
+	if c.freeBytes > c.maxFreeBytes() {
+		t.Errorf("free list holds %d bytes, bound %d", c.freeBytes, c.maxFreeBytes())
+	}
+}
+
+// TestReadersWhileBricksRecycle: time slices, inlines and crosslines read
+// over and over while a store fills through a cache small enough that
+// bricks are evicted and their memory reused all along: every value a
+// reader gets is right (run with -race too).
+func TestReadersWhileBricksRecycle(t *testing.T) {
+	const edge = 8
+	brick := int64(edge * edge * edge * 4)
+	shape := Shape{40, 40, 50}
+	cache := NewCache(32 * brick)
+	s := newTestStore(t, shape, &valueFill{}, cache, Options{Edge: edge})
+	done := make(chan struct{})
+	errs := make(chan error, 3)
+	read := func(r int) {
+		for k := 0; ; k++ {
+			select {
+			case <-done:
+				errs <- nil
+				return
+			default:
+			}
+			var err error
+			switch r {
+			case 0:
+				z := (k * 7) % shape.Samples
+				grid, pending, e := s.TimeSlice(z)
+				err = e
+				for i := range grid {
+					for x, v := range grid[i] {
+						if (pending == nil || !pending[i][x]) && v != value(i, x, z) {
+							err = fmt.Errorf("time slice %d at (%d,%d) = %v, want %v", z, i, x, v, value(i, x, z))
+						}
+					}
+				}
+			case 1:
+				i := k % shape.Inlines
+				traces, _, e := s.Inline(i)
+				err = e
+				for x, tr := range traces {
+					for z, v := range tr {
+						if v != value(i, x, z) {
+							err = fmt.Errorf("inline %d crossline %d sample %d = %v, want %v", i, x, z, v, value(i, x, z))
+						}
+					}
+				}
+			case 2:
+				x := k % shape.Crosslines
+				traces, _, e := s.Crossline(x)
+				err = e
+				for i, tr := range traces {
+					for z, v := range tr {
+						if v != value(i, x, z) {
+							err = fmt.Errorf("crossline %d inline %d sample %d = %v, want %v", x, i, z, v, value(i, x, z))
+						}
+					}
+				}
+			}
+			if err != nil {
+				errs <- err
+				return
+			}
+		}
+	}
+	for r := range 3 {
+		go read(r)
+	}
+	werr := s.Wait(context.Background(), nil)
+	close(done)
+	for range 3 {
+		if err := <-errs; err != nil {
+			t.Error(err)
+		}
+	}
+	if werr != nil {
+		t.Fatal(werr)
+	}
+	checkAll(t, s, false)
 }
