@@ -2,11 +2,13 @@ package volume
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"os"
 	"slices"
 	"sync"
+	"sync/atomic"
 
 	"quadtrace/app/bricks"
 	"quadtrace/compute"
@@ -441,20 +443,8 @@ func (v *Volume) fillFunc(a *compute.Attribute, p compute.Params, cond compute.C
 			defer inputs.Put(buf)
 			in = rowsOf((*buf)[:t.Traces()*ns], t.Traces(), ns)
 		}
-		k := 0
-		for i := t.I0; i < t.I1; i++ {
-			if err := ctx.Err(); err != nil {
-				return nil, err
-			}
-			for x := t.X0; x < t.X1; x++ {
-				buf := in[k]
-				k++
-				if idx := v.store.traceIndex(inlines[i], crosslines[x], offset); idx < 0 {
-					fillNaN(buf)
-				} else if _, err := v.store.readTrace(idx, buf); err != nil {
-					return nil, err
-				}
-			}
+		if err := v.readTile(ctx, t, in, inlines, crosslines, offset); err != nil {
+			return nil, err
 		}
 		if amplitude {
 			return in, nil
@@ -472,6 +462,50 @@ func (v *Volume) fillFunc(a *compute.Attribute, p compute.Params, cond compute.C
 		}
 		return dst, nil
 	}
+}
+
+// tileReaders is how many goroutines read the inlines of one column: each
+// inline's run of traces is a separate stretch of a file, and a cold
+// file's pages come in by one synchronous fault at a time per reader, so
+// several readers keep several reads in flight (as the file's own time
+// slice keeps one per core on a file read straight through).
+const tileReaders = 8
+
+// readTile reads tile t's traces at the given offset into dst (inline-major,
+// NaN where the survey has no trace), inline by inline over tileReaders
+// goroutines.
+func (v *Volume) readTile(ctx context.Context, t bricks.Tile, dst [][]float32, inlines, crosslines []int, offset int) error {
+	nx := t.X1 - t.X0
+	var next atomic.Int64
+	errs := make([]error, min(tileReaders, t.I1-t.I0))
+	var wg sync.WaitGroup
+	for w := range errs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := t.I0 + int(next.Add(1)-1)
+				if i >= t.I1 {
+					return
+				}
+				if err := ctx.Err(); err != nil {
+					errs[w] = err
+					return
+				}
+				for x := t.X0; x < t.X1; x++ {
+					buf := dst[(i-t.I0)*nx+x-t.X0]
+					if idx := v.store.traceIndex(inlines[i], crosslines[x], offset); idx < 0 {
+						fillNaN(buf)
+					} else if _, err := v.store.readTrace(idx, buf); err != nil {
+						errs[w] = err
+						return
+					}
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	return errors.Join(errs...)
 }
 
 // rowsOf cuts flat into n rows of m.
