@@ -17,15 +17,16 @@ func BenchmarkFillColumn(b *testing.B) {
 			traces[k][z] = float32(k + z)
 		}
 	}
-	fill := func(ctx context.Context, t Tile) ([][]float32, error) { return traces, nil }
+	fill := func(ctx context.Context, t Tile, _ [][]float32) ([][]float32, error) { return traces, nil }
 	s, err := New("bench", shape, fill, nil, Options{Dir: b.TempDir()})
 	if err != nil {
 		b.Fatal(err)
 	}
 	defer s.Close()
 	b.SetBytes(int64(64 * 64 * shape.Samples * 4))
+	scratch := make([]float32, 64*64*shape.Samples)
 	for range b.N {
-		if err := s.fillColumn(0); err != nil {
+		if err := s.fillColumn(0, scratch); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -3,6 +3,7 @@ package bricks
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"runtime"
 	"strings"
@@ -26,7 +27,7 @@ type valueFill struct {
 	began chan Tile     // when not nil, told of each tile before the gate
 }
 
-func (f *valueFill) fill(ctx context.Context, t Tile) ([][]float32, error) {
+func (f *valueFill) fill(ctx context.Context, t Tile, dst [][]float32) ([][]float32, error) {
 	if f.began != nil {
 		f.began <- t
 	}
@@ -40,17 +41,20 @@ func (f *valueFill) fill(ctx context.Context, t Tile) ([][]float32, error) {
 	f.mu.Lock()
 	f.tiles = append(f.tiles, t)
 	f.mu.Unlock()
-	out := make([][]float32, 0, t.Traces())
+	// into the filler's scratch (reused from column to column, partial
+	// tiles included), so the tests check that reuse
 	for i := t.I0; i < t.I1; i++ {
 		for x := t.X0; x < t.X1; x++ {
-			tr := make([]float32, f.shape.Samples)
+			tr := dst[(i-t.I0)*(t.X1-t.X0)+x-t.X0]
+			if len(tr) != f.shape.Samples {
+				return nil, errors.New("scratch trace of the wrong length")
+			}
 			for z := range tr {
 				tr[z] = value(i, x, z)
 			}
-			out = append(out, tr)
 		}
 	}
-	return out, nil
+	return dst, nil
 }
 
 func newTestStore(t *testing.T, shape Shape, f *valueFill, cache *Cache, opt Options) *Store {
@@ -300,7 +304,7 @@ func TestSharedWaiters(t *testing.T) {
 // TestFillErrorStops: a failing column stops the store with an error that
 // names what failed, and every waiter gets it.
 func TestFillErrorStops(t *testing.T) {
-	fail := func(ctx context.Context, tl Tile) ([][]float32, error) {
+	fail := func(ctx context.Context, tl Tile, dst [][]float32) ([][]float32, error) {
 		return nil, errors.New("disk on fire at trace 7")
 	}
 	s, err := New("envelope", Shape{10, 10, 10}, fail, nil, Options{Dir: t.TempDir(), Edge: 4})
@@ -311,7 +315,9 @@ func TestFillErrorStops(t *testing.T) {
 	if err := s.Wait(context.Background(), nil); err == nil || !strings.Contains(err.Error(), "disk on fire") {
 		t.Errorf("wait returned %v", err)
 	}
-	short := func(ctx context.Context, tl Tile) ([][]float32, error) { return make([][]float32, 1), nil }
+	short := func(ctx context.Context, tl Tile, dst [][]float32) ([][]float32, error) {
+		return make([][]float32, 1), nil
+	}
 	s2, err := New("envelope", Shape{10, 10, 10}, short, nil, Options{Dir: t.TempDir(), Edge: 4})
 	if err != nil {
 		t.Fatal(err)
@@ -329,8 +335,8 @@ func TestCancelAnyMomentLeavesNothing(t *testing.T) {
 	dir := t.TempDir()
 	for k := range 12 {
 		f := &valueFill{}
-		s, err := New("test", Shape{40, 40, 50}, func(ctx context.Context, tl Tile) ([][]float32, error) {
-			return f.fill(ctx, tl)
+		s, err := New("test", Shape{40, 40, 50}, func(ctx context.Context, tl Tile, dst [][]float32) ([][]float32, error) {
+			return f.fill(ctx, tl, dst)
 		}, NewCache(1<<16), Options{Dir: dir, Edge: 4})
 		f.shape = s.Shape()
 		if err != nil {
@@ -404,11 +410,11 @@ func TestResidentBrickHoldsOnlyItself(t *testing.T) {
 	shape := Shape{64 * 32, 64, 128} // 32 columns of 2 bricks of 1 MiB
 	f := &valueFill{shape: shape}
 	var s *Store
-	touch := func(ctx context.Context, tl Tile) ([][]float32, error) {
+	touch := func(ctx context.Context, tl Tile, dst [][]float32) ([][]float32, error) {
 		if _, _, err := s.TimeSlice(0); err != nil { // layer 0 becomes recently used
 			return nil, err
 		}
-		return f.fill(ctx, tl)
+		return f.fill(ctx, tl, dst)
 	}
 	s, err := New("test", shape, touch, cache, Options{Dir: t.TempDir(), Workers: 1})
 	if err != nil {
@@ -428,4 +434,166 @@ func TestResidentBrickHoldsOnlyItself(t *testing.T) {
 	if held > budget*13/10 {
 		t.Errorf("%d MiB held after filling with resident bricks bounded to %d MiB", held>>20, budget>>20)
 	}
+}
+
+// TestTransposeEqualsDirect: the cache-blocked transposition puts every
+// sample where the direct formula says (brick z/e, cell
+// (z%e)*e*e + (k/nx)*e + k%nx), for tiles narrower than a block, wider than
+// one, partial tiles and a partial last brick; cells it must not touch keep
+// their value.
+func TestTransposeEqualsDirect(t *testing.T) {
+	for _, c := range []struct{ ni, nx, e, ns int }{
+		{1, 1, 1, 1}, {3, 5, 8, 11}, {8, 8, 8, 16}, {7, 20, 32, 33}, {64, 64, 64, 751}, {2, 17, 17, 40},
+	} {
+		traces := make([][]float32, c.ni*c.nx)
+		for k := range traces {
+			traces[k] = make([]float32, c.ns)
+			for z := range traces[k] {
+				traces[k][z] = float32(k*1000 + z + 1)
+			}
+		}
+		ntz := (c.ns + c.e - 1) / c.e
+		const untouched = -7
+		bricks := make([][]float32, ntz)
+		for z := range bricks {
+			bricks[z] = make([]float32, c.e*c.e*c.e)
+			for i := range bricks[z] {
+				bricks[z][i] = untouched
+			}
+		}
+		transpose(bricks, traces, c.nx, c.e, c.ns)
+		want := make([][]float32, ntz)
+		for z := range want {
+			want[z] = make([]float32, c.e*c.e*c.e)
+			for i := range want[z] {
+				want[z][i] = untouched
+			}
+		}
+		for k, tr := range traces {
+			for z, v := range tr {
+				want[z/c.e][(z%c.e)*c.e*c.e+(k/c.nx)*c.e+k%c.nx] = v
+			}
+		}
+		for z := range want {
+			for i := range want[z] {
+				if bricks[z][i] != want[z][i] {
+					t.Fatalf("%+v: brick %d cell %d = %v, want %v", c, z, i, bricks[z][i], want[z][i])
+				}
+			}
+		}
+	}
+}
+
+// TestPinnedBrickNotRecycled: a brick evicted while pinned is not handed
+// out again until unpinned; one evicted unpinned is (the free list), and
+// the free list stays within its bound.
+func TestPinnedBrickNotRecycled(t *testing.T) {
+	const n = 1024 // floats: 4 KiB bricks
+	c := NewCache(16 * n * 4)
+	s := &Store{}
+	a := make([]float32, n)
+	c.put(s, 0, a)
+	got, pin := c.pin(s, 0)
+	if &got[0] != &a[0] {
+		t.Fatal("pin returned another brick")
+	}
+	for b := 1; b <= 16; b++ { // evicts brick 0 (least recently used)
+		c.put(s, b, make([]float32, n))
+	}
+	if d, _ := c.pin(s, 0); d != nil {
+		t.Fatal("brick 0 still resident")
+	}
+	for range 3 {
+		if nb := c.newBrick(n); &nb[0] == &a[0] {
+			t.Fatal("a pinned brick was handed out for a new column")
+		}
+	}
+	c.unpin(pin)
+	if nb := c.newBrick(n); &nb[0] != &a[0] {
+		t.Error("the unpinned evicted brick was not reused")
+	}
+	for b := 17; b < 200; b++ {
+		c.put(s, b, make([]float32, n))
+	}
+	if c.freeBytes > c.maxFreeBytes() {
+		t.Errorf("free list holds %d bytes, bound %d", c.freeBytes, c.maxFreeBytes())
+	}
+}
+
+// TestReadersWhileBricksRecycle: time slices, inlines and crosslines read
+// over and over while a store fills through a cache small enough that
+// bricks are evicted and their memory reused all along: every value a
+// reader gets is right (run with -race too).
+func TestReadersWhileBricksRecycle(t *testing.T) {
+	const edge = 8
+	brick := int64(edge * edge * edge * 4)
+	shape := Shape{40, 40, 50}
+	cache := NewCache(32 * brick)
+	s := newTestStore(t, shape, &valueFill{}, cache, Options{Edge: edge})
+	done := make(chan struct{})
+	errs := make(chan error, 3)
+	read := func(r int) {
+		for k := 0; ; k++ {
+			select {
+			case <-done:
+				errs <- nil
+				return
+			default:
+			}
+			var err error
+			switch r {
+			case 0:
+				z := (k * 7) % shape.Samples
+				grid, pending, e := s.TimeSlice(z)
+				err = e
+				for i := range grid {
+					for x, v := range grid[i] {
+						if (pending == nil || !pending[i][x]) && v != value(i, x, z) {
+							err = fmt.Errorf("time slice %d at (%d,%d) = %v, want %v", z, i, x, v, value(i, x, z))
+						}
+					}
+				}
+			case 1:
+				i := k % shape.Inlines
+				traces, _, e := s.Inline(i)
+				err = e
+				for x, tr := range traces {
+					for z, v := range tr {
+						if v != value(i, x, z) {
+							err = fmt.Errorf("inline %d crossline %d sample %d = %v, want %v", i, x, z, v, value(i, x, z))
+						}
+					}
+				}
+			case 2:
+				x := k % shape.Crosslines
+				traces, _, e := s.Crossline(x)
+				err = e
+				for i, tr := range traces {
+					for z, v := range tr {
+						if v != value(i, x, z) {
+							err = fmt.Errorf("crossline %d inline %d sample %d = %v, want %v", x, i, z, v, value(i, x, z))
+						}
+					}
+				}
+			}
+			if err != nil {
+				errs <- err
+				return
+			}
+		}
+	}
+	for r := range 3 {
+		go read(r)
+	}
+	werr := s.Wait(context.Background(), nil)
+	close(done)
+	for range 3 {
+		if err := <-errs; err != nil {
+			t.Error(err)
+		}
+	}
+	if werr != nil {
+		t.Fatal(werr)
+	}
+	checkAll(t, s, false)
 }
