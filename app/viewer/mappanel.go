@@ -95,12 +95,15 @@ type mapPanel struct {
 	attrSlabKey string
 	shownMap    *horizon.AttributeMap // the values shown, inline-major
 	shownTop    *horizon.Horizon      // the surface they were made along
-	madeFor     survey                // the survey the map was asked for
-	madeKey     string                // the attribute key it was asked with (attrKey)
-	content0    mapContent            // the content last drawn
-	outline     []render.Segment
-	outlineOf   survey
-	drawn       int // maps drawn so far (tests)
+	// contours: the contour lines of the last map drawn, kept while the
+	// horizon's times and the interval stay the same.
+	contours  *contourLines
+	madeFor   survey     // the survey the map was asked for
+	madeKey   string     // the attribute key it was asked with (attrKey)
+	content0  mapContent // the content last drawn
+	outline   []render.Segment
+	outlineOf survey
+	drawn     int // maps drawn so far (tests)
 }
 
 // showMap shows horizon h as a map beside the section (the seam the
@@ -757,6 +760,10 @@ func (p *mapPanel) mapContentNow() (mapContent, error) {
 		}
 		if c.contourMS > 0 {
 			caption = append(caption, "contours of time every "+trimFloat(c.contourMS)+" ms")
+			if p.contours == nil || !p.contours.serves(c.times, c.contourMS) {
+				p.contours = &contourLines{times: c.times, intervalMS: c.contourMS}
+			}
+			c.contours = p.contours
 		}
 	}
 	if b := binCaption(v.info); b != "" {
