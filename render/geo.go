@@ -92,13 +92,16 @@ func drawGeo(img *image.RGBA, tf typeface, g MapGeo, p, disc image.Rectangle) {
 	// Head: a triangle at the tip.
 	hx, hy := -uy, ux // perpendicular
 	h := r * 0.35
-	b := img.Bounds()
-	z := vector.NewRasterizer(b.Dx(), b.Dy())
-	z.MoveTo(float32(tipX), float32(tipY))
-	z.LineTo(float32(tipX-ux*h+hx*h*0.5), float32(tipY-uy*h+hy*h*0.5))
-	z.LineTo(float32(tipX-ux*h-hx*h*0.5), float32(tipY-uy*h-hy*h*0.5))
-	z.ClosePath()
-	z.Draw(img, b, image.NewUniform(color.RGBA(inkColour)), image.Point{})
+	// The head lies inside the disc: only the disc is rasterised.
+	if b := disc.Intersect(img.Bounds()); !b.Empty() {
+		ox, oy := float64(b.Min.X), float64(b.Min.Y)
+		z := vector.NewRasterizer(b.Dx(), b.Dy())
+		z.MoveTo(float32(tipX-ox), float32(tipY-oy))
+		z.LineTo(float32(tipX-ux*h+hx*h*0.5-ox), float32(tipY-uy*h+hy*h*0.5-oy))
+		z.LineTo(float32(tipX-ux*h-hx*h*0.5-ox), float32(tipY-uy*h-hy*h*0.5-oy))
+		z.ClosePath()
+		z.Draw(img, b, image.NewUniform(color.RGBA(inkColour)), image.Point{})
+	}
 	nx, ny := cx+ux*r*0.72, cy+uy*r*0.72
 	drawText(img, tf.label, inkColour, "N", int(nx), int(ny)+(asc-desc)/2, anchorCentre)
 }

@@ -14,12 +14,44 @@ import (
 
 // StrokePolyline draws the polyline through (xs[i], ys[i]) (pixel
 // coordinates of dst) with the given width and colour. A point with a NaN
-// or infinite coordinate breaks the line.
+// or infinite coordinate breaks the line. Only the polyline's bounding box
+// (widened by the stroke) is rasterised: a short stroke on a large image
+// (a north arrow, a scale bar) costs its own size, not the image's.
 func StrokePolyline(dst *image.RGBA, xs, ys []float64, width float64, c color.RGBA) {
-	b := dst.Bounds()
-	z := vector.NewRasterizer(b.Dx(), b.Dy())
+	n := min(len(xs), len(ys))
 	hw := width / 2
-	for i := 1; i < len(xs) && i < len(ys); i++ {
+	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+	for i := range n {
+		if s := xs[i] + ys[i]; math.IsNaN(s) || math.IsInf(s, 0) {
+			continue
+		}
+		x0, x1 = math.Min(x0, xs[i]), math.Max(x1, xs[i])
+		y0, y1 = math.Min(y0, ys[i]), math.Max(y1, ys[i])
+	}
+	if !(x1 >= x0) {
+		return
+	}
+	// The quads below reach hw along and across a segment past its ends:
+	// at most hw*sqrt(2) from an end; one pixel more for anti-aliasing.
+	m := hw*math.Sqrt2 + 1
+	b := dst.Bounds()
+	if x0-m > float64(b.Min.X) {
+		b.Min.X = int(math.Floor(x0 - m))
+	}
+	if y0-m > float64(b.Min.Y) {
+		b.Min.Y = int(math.Floor(y0 - m))
+	}
+	if x1+m < float64(b.Max.X) {
+		b.Max.X = int(math.Ceil(x1 + m))
+	}
+	if y1+m < float64(b.Max.Y) {
+		b.Max.Y = int(math.Ceil(y1 + m))
+	}
+	if b.Empty() {
+		return
+	}
+	z := vector.NewRasterizer(b.Dx(), b.Dy())
+	for i := 1; i < n; i++ {
 		x0, y0, x1, y1 := xs[i-1]-float64(b.Min.X), ys[i-1]-float64(b.Min.Y), xs[i]-float64(b.Min.X), ys[i]-float64(b.Min.Y)
 		if s := x0 + y0 + x1 + y1; math.IsNaN(s) || math.IsInf(s, 0) {
 			continue

@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -422,42 +423,72 @@ func TestMapLineFollowsNavigation(t *testing.T) {
 }
 
 // TestMapContoursOfThePlane: the time contours drawn over the map lie on
-// the plane's lines of equal time (closed form), at the interval asked.
+// the plane's lines of equal time (closed form), at the interval asked,
+// also after the interval changes (the panel keeps the contours traced for
+// one interval and horizon: a change of interval or of the horizon's times
+// must not draw the kept ones), and a redraw with nothing changed draws
+// the kept ones.
 func TestMapContoursOfThePlane(t *testing.T) {
 	v := mapTestViewer(t)
 	v.showMap(planeHorizon(v))
 	v.jobs.wait()
 	p := v.ui.mapPanel
-	p.contourEntry.SetText("5")
-	p.contourEntry.OnSubmitted("5")
-	v.jobs.wait()
+	check := func(interval float64) *contourLines {
+		t.Helper()
+		txt := strconv.FormatFloat(interval, 'g', -1, 64)
+		p.contourEntry.SetText(txt)
+		p.contourEntry.OnSubmitted(txt)
+		v.jobs.wait()
+		c, err := p.mapContentNow()
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := c.figure(900, 700)
+		if err != nil {
+			t.Fatal(err)
+		}
+		n := 0
+		for _, set := range f.Lines {
+			if set.Colour != contourInk.Colour {
+				continue
+			}
+			for _, s := range set.Segments {
+				t0, t1 := planeTime(s.Y0-0.5, s.X0-0.5), planeTime(s.Y1-0.5, s.X1-0.5)
+				if math.Abs(t0-t1) > 1e-3 || math.Abs(math.Mod(t0+interval/2, interval)-interval/2) > 1e-3 {
+					t.Fatalf("contour segment %+v runs from %.4f to %.4f ms, not along a multiple of %g ms", s, t0, t1, interval)
+				}
+				n++
+			}
+		}
+		if n < 50*5/int(interval) {
+			t.Errorf("%d contour segments every %g ms", n, interval)
+		}
+		return c.contours
+	}
+	first := check(5)
+	if again := check(5); again != first || again == nil {
+		t.Errorf("a redraw with the same horizon and interval traced the contours again")
+	}
+	check(10)
+	check(5)
+	p.contourEntry.OnSubmitted("-2")
+	if p.set.contourMS != 5 {
+		t.Errorf("a negative contour interval was taken: %v", p.set.contourMS)
+	}
+	// Other times on the same grid: the kept contours do not serve them.
 	c, err := p.mapContentNow()
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := c.figure(900, 700)
-	if err != nil {
-		t.Fatal(err)
-	}
-	n := 0
-	for _, set := range f.Lines {
-		if set.Colour != contourInk.Colour {
-			continue
-		}
-		for _, s := range set.Segments {
-			t0, t1 := planeTime(s.Y0-0.5, s.X0-0.5), planeTime(s.Y1-0.5, s.X1-0.5)
-			if math.Abs(t0-t1) > 1e-3 || math.Abs(math.Mod(t0+2.5, 5)-2.5) > 1e-3 {
-				t.Fatalf("contour segment %+v runs from %.4f to %.4f ms, not along a multiple of 5 ms", s, t0, t1)
-			}
-			n++
+	shifted := make([][]float32, len(c.times))
+	for r, row := range c.times {
+		shifted[r] = make([]float32, len(row))
+		for i, x := range row {
+			shifted[r][i] = x + 2.5
 		}
 	}
-	if n < 50 {
-		t.Errorf("%d contour segments", n)
-	}
-	p.contourEntry.OnSubmitted("-2")
-	if p.set.contourMS != 5 {
-		t.Errorf("a negative contour interval was taken: %v", p.set.contourMS)
+	if c.contours.serves(shifted, 5) || c.contours.serves(c.times, 10) || !c.contours.serves(c.times, 5) {
+		t.Errorf("kept contours serve other times or another interval, or not their own")
 	}
 }
 

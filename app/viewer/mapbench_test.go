@@ -3,6 +3,7 @@ package viewer
 import (
 	"context"
 	"testing"
+	"time"
 
 	"fyne.io/fyne/v2"
 
@@ -47,6 +48,15 @@ func mapBenchViewer(b *testing.B) (*viewer, *mapPanel) {
 	return v, p
 }
 
+// reportCPU reports the process's CPU time per iteration since cpu (all
+// goroutines: the jobs' workers too) beside the wall time: on the shared
+// machine wall time is an upper bound, CPU time the work done.
+func reportCPU(b *testing.B, cpu time.Duration) {
+	if d := processCPU() - cpu; d > 0 {
+		b.ReportMetric(float64(d)/1e6/float64(b.N), "cpu-ms/op")
+	}
+}
+
 // BenchmarkMapStatisticChange is the time from a change of statistic to
 // the redrawn attribute map in the window (map from the kept strips,
 // figure drawn at the view's size, handed to the view), for the envelope
@@ -57,11 +67,13 @@ func BenchmarkMapStatisticChange(b *testing.B) {
 	kept := p.attrSlab
 	stats := []horizon.Stat{horizon.Mean, horizon.MaxAbs, horizon.RMS, horizon.MinAbs, horizon.MeanAbs, horizon.Value}
 	i := 0
+	cpu := processCPU()
 	for b.Loop() {
 		p.statPick.SetSelected(statLabels[stats[i%len(stats)]-1])
 		v.jobs.wait()
 		i++
 	}
+	reportCPU(b, cpu)
 	if p.attrSlab != kept {
 		b.Fatal("a change of statistic computed the attribute again")
 	}
@@ -73,11 +85,13 @@ func BenchmarkMapPaletteChange(b *testing.B) {
 	v, p := mapBenchViewer(b)
 	names := []string{"lumbry", "pyrrel", "lumbry-r", "slatine"}
 	i := 0
+	cpu := processCPU()
 	for b.Loop() {
 		p.palettePick.SetSelected(names[i%len(names)])
 		v.jobs.wait()
 		i++
 	}
+	reportCPU(b, cpu)
 }
 
 // BenchmarkMapAttributeChange is the time from a change of attribute to
@@ -88,11 +102,13 @@ func BenchmarkMapAttributeChange(b *testing.B) {
 	ids := []string{"instantaneous-frequency", "envelope"}
 	i := 0
 	slab := p.slab
+	cpu := processCPU()
 	for b.Loop() {
 		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
 		v.jobs.wait()
 		i++
 	}
+	reportCPU(b, cpu)
 	if p.slab != slab {
 		b.Fatal("a change of attribute read the traces again")
 	}
@@ -108,11 +124,13 @@ func BenchmarkMapConditionedAttributeChange(b *testing.B) {
 	v.jobs.wait()
 	ids := []string{"instantaneous-frequency", "envelope"}
 	i := 0
+	cpu := processCPU()
 	for b.Loop() {
 		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
 		v.jobs.wait()
 		i++
 	}
+	reportCPU(b, cpu)
 	if p.strips == nil {
 		b.Fatal("no whole-trace strips")
 	}

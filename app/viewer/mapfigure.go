@@ -3,6 +3,7 @@ package viewer
 import (
 	"fmt"
 	"image/color"
+	"sync"
 
 	"quadtrace/app/figure"
 	"quadtrace/app/style"
@@ -25,6 +26,7 @@ type mapContent struct {
 	clip           float64
 	times          [][]float32 // contoured when contourMS > 0
 	contourMS      float64
+	contours       *contourLines // the contours of times every contourMS, when kept; nil: traced at each draw
 	outline        []render.Segment
 	ground         *render.GroundGrid
 	geo            *render.MapGeo
@@ -53,6 +55,55 @@ func (c mapContent) mapLayer() (render.Layer, render.Legend) {
 	}
 	l := render.Layer{Data: c.values, Palette: c.pal, Lo: lo, Hi: hi, Opacity: 1}
 	return l, render.Legend{Name: "Time", Unit: "ms", Palette: c.pal, Lo: float64(lo), Hi: float64(hi)}
+}
+
+// traceContours returns the contour segments of times at every multiple
+// of intervalMS over their range.
+func traceContours(times [][]float32, intervalMS float64) []render.Segment {
+	lo, hi := render.PercentileRange(times, 100, false)
+	var segs []render.Segment
+	for _, level := range render.ContourLevels(float64(lo), float64(hi), intervalMS) {
+		segs = append(segs, render.Contours(times, level)...)
+	}
+	return segs
+}
+
+// contourLines keeps the contours of a horizon's times at one interval,
+// traced once (by the first draw that needs them, in its job) and shared
+// by every later draw of the same times and interval: a change of
+// attribute, statistic or palette redraws the map without tracing them
+// again. Safe for concurrent use.
+type contourLines struct {
+	times      [][]float32
+	intervalMS float64
+	once       sync.Once
+	segs       []render.Segment
+}
+
+// serves says whether the kept contours are those of times (equal values;
+// NaNs equal) every intervalMS.
+func (cl *contourLines) serves(times [][]float32, intervalMS float64) bool {
+	if cl.intervalMS != intervalMS || len(cl.times) != len(times) {
+		return false
+	}
+	for r, row := range times {
+		kept := cl.times[r]
+		if len(kept) != len(row) {
+			return false
+		}
+		for i, t := range row {
+			if k := kept[i]; k != t && !(k != k && t != t) {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+// segments returns the contour segments, tracing them on the first call.
+func (cl *contourLines) segments() []render.Segment {
+	cl.once.Do(func() { cl.segs = traceContours(cl.times, cl.intervalMS) })
+	return cl.segs
 }
 
 // autoContourMS is a round contour interval giving about ten lines over
@@ -86,11 +137,12 @@ func (c mapContent) figure(w, h int) (render.Figure, error) {
 		f.MapAspect = 1
 	}
 	if c.contourMS > 0 && c.times != nil {
-		lo, hi := render.PercentileRange(c.times, 100, false)
 		// Every level in one set: one rasterisation for all of them.
 		set := contourInk
-		for _, level := range render.ContourLevels(float64(lo), float64(hi), c.contourMS) {
-			set.Segments = append(set.Segments, render.Contours(c.times, level)...)
+		if c.contours != nil && c.contours.serves(c.times, c.contourMS) {
+			set.Segments = c.contours.segments()
+		} else {
+			set.Segments = traceContours(c.times, c.contourMS)
 		}
 		f.Lines = append(f.Lines, set)
 	}

@@ -95,12 +95,15 @@ type mapPanel struct {
 	attrSlabKey string
 	shownMap    *horizon.AttributeMap // the values shown, inline-major
 	shownTop    *horizon.Horizon      // the surface they were made along
-	madeFor     survey                // the survey the map was asked for
-	madeKey     string                // the attribute key it was asked with (attrKey)
-	content0    mapContent            // the content last drawn
-	outline     []render.Segment
-	outlineOf   survey
-	drawn       int // maps drawn so far (tests)
+	// contours: the contour lines of the last map drawn, kept while the
+	// horizon's times and the interval stay the same.
+	contours  *contourLines
+	madeFor   survey     // the survey the map was asked for
+	madeKey   string     // the attribute key it was asked with (attrKey)
+	content0  mapContent // the content last drawn
+	outline   []render.Segment
+	outlineOf survey
+	drawn     int // maps drawn so far (tests)
 }
 
 // showMap shows horizon h as a map beside the section (the seam the
@@ -458,7 +461,8 @@ func (p *mapPanel) request() {
 	if p.madeFor != v.vol {
 		// Another survey: nothing made for the one before applies.
 		p.shownMap, p.shownTop, p.strips, p.stripsVol = nil, nil, nil, nil
-		p.slab, p.slabVol, p.slabTop, p.attrSlab = nil, nil, nil, nil
+		p.releaseAttrSlab()
+		p.slab, p.slabVol, p.slabTop = nil, nil, nil
 		p.view.setMessage("Computing the map…")
 	}
 	p.madeFor = v.vol
@@ -560,6 +564,11 @@ func (p *mapPanel) slabMaker(h *horizon.Horizon, spec horizon.MapSpec, a *comput
 	if attrSlab != nil && p.attrSlabKey != key {
 		attrSlab = nil
 	}
+	if attrSlab != nil {
+		// The job's hold on the kept attribute (a later attribute
+		// may otherwise reuse its memory while the job maps it).
+		attrSlab.Retain()
+	}
 	offset := v.state.Offset
 	heavy := slab == nil || attrSlab == nil
 	run := func(ctx context.Context, vol survey, progress func(int, int)) (*horizon.AttributeMap, func(), error) {
@@ -581,12 +590,34 @@ func (p *mapPanel) slabMaker(h *horizon.Horizon, spec horizon.MapSpec, a *comput
 			}
 		}
 		m, err := attrSlab.Map(spec)
+		if err != nil {
+			attrSlab.Release()
+			return nil, nil, err
+		}
+		// keep hands the job's hold to the panel (a job that is no longer
+		// current never keeps: its hold is left to the garbage collector).
 		return m, func() {
 			p.slab, p.slabVol, p.slabTop = slab, vol, h
-			p.attrSlab, p.attrSlabKey = attrSlab, key
-		}, err
+			if p.attrSlab == attrSlab {
+				attrSlab.Release()
+			} else {
+				p.releaseAttrSlab()
+				p.attrSlab = attrSlab
+			}
+			p.attrSlabKey = key
+		}, nil
 	}
 	return run, heavy
+}
+
+// releaseAttrSlab drops the panel's hold on the kept attribute slab: its
+// memory goes to the next attribute computed on the slab once no job maps
+// it any more.
+func (p *mapPanel) releaseAttrSlab() {
+	if p.attrSlab != nil {
+		p.attrSlab.Release()
+		p.attrSlab = nil
+	}
 }
 
 // mapJob makes a map in a job: the map, and a function the UI goroutine
@@ -729,6 +760,10 @@ func (p *mapPanel) mapContentNow() (mapContent, error) {
 		}
 		if c.contourMS > 0 {
 			caption = append(caption, "contours of time every "+trimFloat(c.contourMS)+" ms")
+			if p.contours == nil || !p.contours.serves(c.times, c.contourMS) {
+				p.contours = &contourLines{times: c.times, intervalMS: c.contourMS}
+			}
+			c.contours = p.contours
 		}
 	}
 	if b := binCaption(v.info); b != "" {

@@ -288,3 +288,65 @@ func TestSlabConcurrentAndEmpty(t *testing.T) {
 		}
 	}
 }
+
+// An attribute slab's memory goes back to its slab only on the last
+// Release: an attribute computed while another holder keeps the first
+// leaves the first's maps as they were, and an attribute computed into
+// memory given back equals the same attribute computed into fresh memory
+// (on a second slab of the same traces), sample for sample.
+func TestSlabReleaseReusesMemory(t *testing.T) {
+	_, src, hs := slabDemo(t)
+	ctx := context.Background()
+	ss := horizon.SlabSpec{AboveMS: 20, BelowMS: 20, MarginMS: 84}
+	spec := horizon.MapSpec{Stat: horizon.RMS, FromMS: -20, ToMS: 20}
+	attrMap := func(slab *horizon.Slab, id string) (*horizon.AttributeSlab, *horizon.AttributeMap) {
+		t.Helper()
+		a, _ := compute.Lookup(id)
+		p, _ := a.Resolve(nil)
+		as, err := slab.Attribute(ctx, a, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, err := as.Map(spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return as, m
+	}
+	same := func(what string, got, want *horizon.AttributeMap) {
+		t.Helper()
+		for k := range want.Values {
+			w, g := want.Values[k], got.Values[k]
+			if w != g && !(math.IsNaN(float64(w)) && math.IsNaN(float64(g))) {
+				t.Fatalf("%s, trace %d: %g, want %g", what, k, g, w)
+			}
+		}
+	}
+	slab, err := horizon.NewSlab(ctx, src, hs[0], ss, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fresh, err := horizon.NewSlab(ctx, src, hs[0], ss, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	env, envMap := attrMap(slab, "envelope")
+	env.Retain()
+	env.Release() // one holder left
+	sw, swMap := attrMap(slab, "sweetness")
+	again, err := env.Map(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	same("envelope, still held, after sweetness", again, envMap)
+	env.Release()
+	sw.Release()
+	for _, id := range []string{"instantaneous-frequency", "envelope", "sweetness"} {
+		as, got := attrMap(slab, id)
+		_, want := attrMap(fresh, id)
+		same(id+" in memory given back", got, want)
+		as.Release()
+	}
+	_, sw2 := attrMap(fresh, "sweetness")
+	same("sweetness, twice", sw2, swMap)
+}
