@@ -623,3 +623,34 @@ func TestHorizonListEdits(t *testing.T) {
 }
 
 func colorNRGBA(r, g, b uint8) color.NRGBA { return color.NRGBA{R: r, G: g, B: b, A: 255} }
+
+// Hiding the last shown horizons in quick succession leaves none drawn: the
+// marks job started for the first hide (drawing the one still shown) must
+// not land after the second hide cleared the marks at once. (Found by
+// TestRandomInteraction, seed 41: "1 horizons drawn, 0 shown".)
+func TestHidingHorizonsQuicklyLeavesNoneDrawn(t *testing.T) {
+	v, _ := openHorizonViewer(t)
+	test.Tap(v.hzEdit.panel.addButton)
+	test.Tap(v.hzEdit.panel.addButton)
+	v.jobs.wait()
+	if got := len(v.ui.section.marks); got != 2 {
+		t.Fatalf("two shown horizons, %d drawn", got)
+	}
+	a, b := v.horizons.items[0], v.horizons.items[1]
+	test.Tap(v.hzEdit.panel.rows[a].shown) // starts a marks job drawing b
+	test.Tap(v.hzEdit.panel.rows[b].shown) // nothing left to draw
+	v.jobs.wait()
+	if !a.Hidden || !b.Hidden {
+		t.Fatalf("hidden: %v %v", a.Hidden, b.Hidden)
+	}
+	if got := len(v.ui.section.marks); got != 0 {
+		t.Errorf("%d horizons drawn, none shown", got)
+	}
+	// Showing one again draws it, and deleting it clears it the same way.
+	test.Tap(v.hzEdit.panel.rows[a].shown)
+	test.Tap(v.hzEdit.panel.rows[a].remove)
+	v.jobs.wait()
+	if got := len(v.ui.section.marks); got != 0 || len(v.horizons.items) != 1 {
+		t.Errorf("%d drawn after deleting the one shown (%d horizons left)", got, len(v.horizons.items))
+	}
+}
