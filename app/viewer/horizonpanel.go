@@ -201,7 +201,7 @@ func (p *horizonPanel) refresh() {
 		} else {
 			r.save.Enable()
 		}
-		if _, ok := mapViewOf(v); ok && h.H != nil {
+		if h.H != nil {
 			r.mapBtn.Show()
 		} else {
 			r.mapBtn.Hide()
@@ -246,11 +246,7 @@ func (p *horizonPanel) newRow(h *namedHorizon) *horizonRow {
 	r.colour.Importance = widget.LowImportance
 	r.name = widget.NewButton(h.Name, func() { v.horizons.setActive(h) })
 	r.name.Alignment = widget.ButtonAlignLeading
-	r.mapBtn = widget.NewButton("Map", func() {
-		if show, ok := mapViewOf(v); ok {
-			show(h)
-		}
-	})
+	r.mapBtn = widget.NewButton("Map", func() { v.showMap(h) })
 	r.save = widget.NewButtonWithIcon("", theme.DocumentSaveIcon(), func() { v.showHorizonSaveDialog(h) })
 	r.rename = widget.NewButtonWithIcon("", theme.DocumentCreateIcon(), func() { v.showRenameDialog(h) })
 	r.remove = widget.NewButtonWithIcon("", theme.DeleteIcon(), func() { v.deleteHorizon(h) })
@@ -258,16 +254,6 @@ func (p *horizonPanel) newRow(h *namedHorizon) *horizonRow {
 	right := container.NewHBox(r.mapBtn, r.save, r.rename, r.remove)
 	r.box = container.NewBorder(nil, nil, left, right, r.name)
 	return r
-}
-
-// mapViewOf returns the window's map view of a horizon when this build has
-// one: the map branch gives the viewer a method showMap(*namedHorizon),
-// and the Map buttons appear once it is there.
-func mapViewOf(v *viewer) (func(*namedHorizon), bool) {
-	if m, ok := any(v).(interface{ showMap(*namedHorizon) }); ok {
-		return m.showMap, true
-	}
-	return nil, false
 }
 
 // deleteHorizon removes h, after cancelling an edit of it that runs.

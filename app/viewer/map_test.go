@@ -611,3 +611,29 @@ func TestMapRefusesWhatDoesNotFit(t *testing.T) {
 		t.Errorf("the map stays open on a new survey")
 	}
 }
+
+// The Horizons tab's Map button of a horizon with picks opens the map view
+// of that horizon (a second horizon's button switches the map to it); an
+// empty horizon has no Map button.
+func TestMapButtonOpensMap(t *testing.T) {
+	v := mapTestViewer(t)
+	plane := planeHorizon(v)
+	lower := planeHorizonBelow(v, "Lower", 20)
+	test.Tap(v.hzEdit.panel.addButton)
+	empty := v.horizons.current()
+	rows := v.hzEdit.panel.rows
+	if !rows[plane].mapBtn.Visible() || !rows[lower].mapBtn.Visible() || rows[empty].mapBtn.Visible() {
+		t.Fatalf("Map buttons shown: picked %v %v, empty %v", rows[plane].mapBtn.Visible(), rows[lower].mapBtn.Visible(), rows[empty].mapBtn.Visible())
+	}
+	if v.ui.mapPanel != nil && v.ui.mapPanel.open {
+		t.Fatal("the map view is open before any Map button was pressed")
+	}
+	for _, nh := range []*namedHorizon{plane, lower} {
+		test.Tap(rows[nh].mapBtn)
+		v.jobs.wait()
+		p := v.ui.mapPanel
+		if p == nil || !p.open || p.hz != nh || p.view.img == nil || p.shownTop != nh.H {
+			t.Fatalf("after pressing Map of %s: no map of it shown", nh.Name)
+		}
+	}
+}
