@@ -35,6 +35,7 @@ type horizonPanel struct {
 	phaseJump   *widget.Entry
 	minEnvelope *widget.Entry
 	minCorr     *widget.Entry
+	minSep      *widget.Entry // horizon.Options.MinSeparationMS
 	track       *widget.Button
 	undo        *widget.Button
 	clearSeeds  *widget.Button
@@ -86,12 +87,14 @@ func newHorizonPanel(v *viewer) *horizonPanel {
 	p.phaseJump = entry(o.MaxPhaseJumpDeg, "0: off")
 	p.minEnvelope = entry(o.MinEnvelope, "0: off")
 	p.minCorr = entry(o.MinCorrelation, "-1 to 1")
+	p.minSep = entry(o.MinSeparationMS, "0: off")
 	form := container.New(layout.NewFormLayout(),
 		widget.NewLabel("Event"), p.event,
 		widget.NewLabel("Search ± (ms)"), p.window,
 		widget.NewLabel("Phase change ≤ (°)"), p.phaseJump,
 		widget.NewLabel("Envelope ≥ (× local)"), p.minEnvelope,
 		widget.NewLabel("Correlation ≥"), p.minCorr,
+		widget.NewLabel("Stop at interference (ms)"), p.minSep,
 	)
 	p.track = widget.NewButtonWithIcon("Track from seeds", theme.MediaPlayIcon(), func() {
 		if v.applyTrackSettings() {
@@ -106,7 +109,7 @@ func newHorizonPanel(v *viewer) *horizonPanel {
 	p.active = widget.NewLabel("")
 	p.active.Wrapping = fyne.TextWrapWord
 	p.list = container.NewVBox()
-	help := widget.NewLabel("Choose \"Place seeds\", click the event on an inline or crossline (it snaps to the chosen event), then track. Drag a box with \"Erase in a box\" to remove picks. Click a horizon's name to edit it.")
+	help := widget.NewLabel("Choose \"Place seeds\", click the event on an inline or crossline (it snaps to the chosen event), then track. Drag a box with \"Erase in a box\" to remove picks. Click a horizon's name to edit it. \"Stop at interference\" (peaks and troughs only) leaves a trace empty where a strong event of the other polarity lies closer than that: set it to the wavelet's tuning thickness to stop a thinning bed where its top and base merge.")
 	help.Wrapping = fyne.TextWrapWord
 	help.Importance = widget.LowImportance
 	p.content = container.NewVScroll(container.NewVBox(
@@ -149,6 +152,7 @@ func (v *viewer) applyTrackSettings() bool {
 		{p.phaseJump, "phase change", &o.MaxPhaseJumpDeg},
 		{p.minEnvelope, "envelope fraction", &o.MinEnvelope},
 		{p.minCorr, "correlation", &o.MinCorrelation},
+		{p.minSep, "interference distance", &o.MinSeparationMS},
 	}
 	for _, f := range fields {
 		x, err := strconv.ParseFloat(strings.TrimSpace(f.e.Text), 64)
