@@ -114,7 +114,7 @@ func newHorizonPanel(v *viewer) *horizonPanel {
 	help.Importance = widget.LowImportance
 	p.content = container.NewVScroll(container.NewVBox(
 		widget.NewCard("", "On the section", p.tool),
-		widget.NewCard("", "Tracking", container.NewVBox(form, container.NewGridWithColumns(3, p.track, p.undo, p.clearSeeds))),
+		widget.NewCard("", "Tracking", container.NewVBox(form, p.track, container.NewGridWithColumns(2, p.undo, p.clearSeeds))),
 		widget.NewCard("", "Horizons", container.NewVBox(p.active, p.list, container.NewGridWithColumns(2, p.addButton, p.openButton))),
 		help,
 	))
