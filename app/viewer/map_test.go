@@ -637,3 +637,26 @@ func TestMapButtonOpensMap(t *testing.T) {
 		}
 	}
 }
+
+// Asking for the map of a horizon without picks while an attribute map of
+// another horizon is still being computed shows the refusal, and the
+// computation still running does not land over it with the other
+// horizon's map (found by TestRandomInteraction, seed 1796190966887915688:
+// "the map was made along another surface than its horizon's").
+func TestMapRefusalNotOverwrittenByRunningMap(t *testing.T) {
+	v := mapTestViewer(t)
+	plane := planeHorizon(v)
+	v.showMap(plane)
+	v.jobs.wait()
+	p := v.ui.mapPanel
+	p.showPick.SetSelected(mapShowAttribute) // starts the attribute map in the "map" lane
+	empty := v.horizons.add()
+	v.showMap(empty) // before that map is done
+	v.jobs.wait()
+	if p.hz != empty || !strings.Contains(p.view.message, "no picks") || p.shownMap != nil || p.shownTop != nil {
+		t.Errorf("map of %s: message %q, a map shown %v (along the plane: %v)", p.hz.Name, p.view.message, p.shownMap != nil, p.shownTop == plane.H)
+	}
+	if !p.work.box.Hidden {
+		t.Error("the map's progress still shows with no map job left")
+	}
+}
