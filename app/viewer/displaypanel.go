@@ -147,6 +147,7 @@ func newDisplayPanel(v *viewer) *displayPanel {
 	u.histogram.SetMinSize(fyne.NewSize(histogramWidth, histogramHeight))
 	u.histNote = widget.NewLabel("")
 	u.histNote.SizeName = theme.SizeNameCaptionText
+	u.histNote.Wrapping = fyne.TextWrapWord // wraps in the tab's width instead of widening the window
 	u.minEntry, u.maxEntry = widget.NewEntry(), widget.NewEntry()
 	u.rangeWhy = refusalLabel()
 	submit := func(string) {

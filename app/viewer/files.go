@@ -21,8 +21,10 @@ const (
 	prefPalettes     = "paletteChoices"
 	prefFigureFolder = "figureFolder"
 	maxRecent        = 8
-	defaultWinWidth  = 1440
-	defaultWinHeight = 900
+	// the first window fits a 1366 x 768 laptop screen (with a title bar
+	// and a panel), as its minimum does (TestWindowFitsLaptopScreen)
+	defaultWinWidth  = 1280
+	defaultWinHeight = 720
 )
 
 func (v *viewer) showOpenDialog() {

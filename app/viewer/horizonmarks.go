@@ -171,17 +171,17 @@ func (v *viewer) requestHorizonMarks() {
 		return
 	}
 	v.hzEdit.marksPlace, v.hzEdit.marksVersion = p, v.horizons.version
-	if !ok {
-		v.ui.section.setMarks(nil)
-		return
-	}
 	var in []markInput
 	for _, h := range v.horizons.items {
-		if !h.Hidden {
+		if ok && !h.Hidden {
 			in = append(in, markInput{colour: h.Colour, h: h.H, seeds: h.seeds})
 		}
 	}
 	if len(in) == 0 {
+		// Nothing to draw: clear at once, and cancel a marks job still
+		// running for an earlier request, which would otherwise land after
+		// this and draw horizons no longer shown (or on another place).
+		v.jobs.cancel(laneMarks)
 		v.ui.section.setMarks(nil)
 		return
 	}

@@ -35,6 +35,7 @@ type horizonPanel struct {
 	phaseJump   *widget.Entry
 	minEnvelope *widget.Entry
 	minCorr     *widget.Entry
+	minSep      *widget.Entry // horizon.Options.MinSeparationMS
 	track       *widget.Button
 	undo        *widget.Button
 	clearSeeds  *widget.Button
@@ -86,12 +87,14 @@ func newHorizonPanel(v *viewer) *horizonPanel {
 	p.phaseJump = entry(o.MaxPhaseJumpDeg, "0: off")
 	p.minEnvelope = entry(o.MinEnvelope, "0: off")
 	p.minCorr = entry(o.MinCorrelation, "-1 to 1")
+	p.minSep = entry(o.MinSeparationMS, "0: off")
 	form := container.New(layout.NewFormLayout(),
 		widget.NewLabel("Event"), p.event,
 		widget.NewLabel("Search ± (ms)"), p.window,
 		widget.NewLabel("Phase change ≤ (°)"), p.phaseJump,
 		widget.NewLabel("Envelope ≥ (× local)"), p.minEnvelope,
 		widget.NewLabel("Correlation ≥"), p.minCorr,
+		widget.NewLabel("Stop at interference (ms)"), p.minSep,
 	)
 	p.track = widget.NewButtonWithIcon("Track from seeds", theme.MediaPlayIcon(), func() {
 		if v.applyTrackSettings() {
@@ -106,12 +109,12 @@ func newHorizonPanel(v *viewer) *horizonPanel {
 	p.active = widget.NewLabel("")
 	p.active.Wrapping = fyne.TextWrapWord
 	p.list = container.NewVBox()
-	help := widget.NewLabel("Choose \"Place seeds\", click the event on an inline or crossline (it snaps to the chosen event), then track. Drag a box with \"Erase in a box\" to remove picks. Click a horizon's name to edit it.")
+	help := widget.NewLabel("Choose \"Place seeds\", click the event on an inline or crossline (it snaps to the chosen event), then track. Drag a box with \"Erase in a box\" to remove picks. Click a horizon's name to edit it. \"Stop at interference\" (peaks and troughs only) leaves a trace empty where a strong event of the other polarity lies closer than that: set it to the wavelet's tuning thickness to stop a thinning bed where its top and base merge.")
 	help.Wrapping = fyne.TextWrapWord
 	help.Importance = widget.LowImportance
 	p.content = container.NewVScroll(container.NewVBox(
 		widget.NewCard("", "On the section", p.tool),
-		widget.NewCard("", "Tracking", container.NewVBox(form, container.NewGridWithColumns(3, p.track, p.undo, p.clearSeeds))),
+		widget.NewCard("", "Tracking", container.NewVBox(form, p.track, container.NewGridWithColumns(2, p.undo, p.clearSeeds))),
 		widget.NewCard("", "Horizons", container.NewVBox(p.active, p.list, container.NewGridWithColumns(2, p.addButton, p.openButton))),
 		help,
 	))
@@ -149,6 +152,7 @@ func (v *viewer) applyTrackSettings() bool {
 		{p.phaseJump, "phase change", &o.MaxPhaseJumpDeg},
 		{p.minEnvelope, "envelope fraction", &o.MinEnvelope},
 		{p.minCorr, "correlation", &o.MinCorrelation},
+		{p.minSep, "interference distance", &o.MinSeparationMS},
 	}
 	for _, f := range fields {
 		x, err := strconv.ParseFloat(strings.TrimSpace(f.e.Text), 64)
@@ -201,7 +205,7 @@ func (p *horizonPanel) refresh() {
 		} else {
 			r.save.Enable()
 		}
-		if _, ok := mapViewOf(v); ok && h.H != nil {
+		if h.H != nil {
 			r.mapBtn.Show()
 		} else {
 			r.mapBtn.Hide()
@@ -246,11 +250,7 @@ func (p *horizonPanel) newRow(h *namedHorizon) *horizonRow {
 	r.colour.Importance = widget.LowImportance
 	r.name = widget.NewButton(h.Name, func() { v.horizons.setActive(h) })
 	r.name.Alignment = widget.ButtonAlignLeading
-	r.mapBtn = widget.NewButton("Map", func() {
-		if show, ok := mapViewOf(v); ok {
-			show(h)
-		}
-	})
+	r.mapBtn = widget.NewButton("Map", func() { v.showMap(h) })
 	r.save = widget.NewButtonWithIcon("", theme.DocumentSaveIcon(), func() { v.showHorizonSaveDialog(h) })
 	r.rename = widget.NewButtonWithIcon("", theme.DocumentCreateIcon(), func() { v.showRenameDialog(h) })
 	r.remove = widget.NewButtonWithIcon("", theme.DeleteIcon(), func() { v.deleteHorizon(h) })
@@ -258,16 +258,6 @@ func (p *horizonPanel) newRow(h *namedHorizon) *horizonRow {
 	right := container.NewHBox(r.mapBtn, r.save, r.rename, r.remove)
 	r.box = container.NewBorder(nil, nil, left, right, r.name)
 	return r
-}
-
-// mapViewOf returns the window's map view of a horizon when this build has
-// one: the map branch gives the viewer a method showMap(*namedHorizon),
-// and the Map buttons appear once it is there.
-func mapViewOf(v *viewer) (func(*namedHorizon), bool) {
-	if m, ok := any(v).(interface{ showMap(*namedHorizon) }); ok {
-		return m.showMap, true
-	}
-	return nil, false
 }
 
 // deleteHorizon removes h, after cancelling an edit of it that runs.

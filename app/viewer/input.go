@@ -15,10 +15,10 @@ import (
 // panel with it.
 func (v *viewer) hover(trace, sample float64, inside bool) {
 	if !inside || v.data.amp == nil {
-		v.ui.cursor.SetText(cursorHint)
+		v.ui.statusBar.setCursor(cursorHint)
 		return
 	}
-	v.ui.cursor.SetText(v.describePoint(trace, sample))
+	v.ui.statusBar.setCursor(v.describePoint(trace, sample))
 	if v.state.FollowCursor {
 		v.pickAt(trace, sample)
 	}

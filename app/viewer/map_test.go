@@ -642,3 +642,52 @@ func TestMapRefusesWhatDoesNotFit(t *testing.T) {
 		t.Errorf("the map stays open on a new survey")
 	}
 }
+
+// The Horizons tab's Map button of a horizon with picks opens the map view
+// of that horizon (a second horizon's button switches the map to it); an
+// empty horizon has no Map button.
+func TestMapButtonOpensMap(t *testing.T) {
+	v := mapTestViewer(t)
+	plane := planeHorizon(v)
+	lower := planeHorizonBelow(v, "Lower", 20)
+	test.Tap(v.hzEdit.panel.addButton)
+	empty := v.horizons.current()
+	rows := v.hzEdit.panel.rows
+	if !rows[plane].mapBtn.Visible() || !rows[lower].mapBtn.Visible() || rows[empty].mapBtn.Visible() {
+		t.Fatalf("Map buttons shown: picked %v %v, empty %v", rows[plane].mapBtn.Visible(), rows[lower].mapBtn.Visible(), rows[empty].mapBtn.Visible())
+	}
+	if v.ui.mapPanel != nil && v.ui.mapPanel.open {
+		t.Fatal("the map view is open before any Map button was pressed")
+	}
+	for _, nh := range []*namedHorizon{plane, lower} {
+		test.Tap(rows[nh].mapBtn)
+		v.jobs.wait()
+		p := v.ui.mapPanel
+		if p == nil || !p.open || p.hz != nh || p.view.img == nil || p.shownTop != nh.H {
+			t.Fatalf("after pressing Map of %s: no map of it shown", nh.Name)
+		}
+	}
+}
+
+// Asking for the map of a horizon without picks while an attribute map of
+// another horizon is still being computed shows the refusal, and the
+// computation still running does not land over it with the other
+// horizon's map (found by TestRandomInteraction, seed 1796190966887915688:
+// "the map was made along another surface than its horizon's").
+func TestMapRefusalNotOverwrittenByRunningMap(t *testing.T) {
+	v := mapTestViewer(t)
+	plane := planeHorizon(v)
+	v.showMap(plane)
+	v.jobs.wait()
+	p := v.ui.mapPanel
+	p.showPick.SetSelected(mapShowAttribute) // starts the attribute map in the "map" lane
+	empty := v.horizons.add()
+	v.showMap(empty) // before that map is done
+	v.jobs.wait()
+	if p.hz != empty || !strings.Contains(p.view.message, "no picks") || p.shownMap != nil || p.shownTop != nil {
+		t.Errorf("map of %s: message %q, a map shown %v (along the plane: %v)", p.hz.Name, p.view.message, p.shownMap != nil, p.shownTop == plane.H)
+	}
+	if !p.work.box.Hidden {
+		t.Error("the map's progress still shows with no map job left")
+	}
+}

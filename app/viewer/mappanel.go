@@ -668,8 +668,13 @@ func (p *mapPanel) stripsMaker(h *horizon.Horizon, spec horizon.MapSpec, a *comp
 
 // fail shows why there is no map.
 func (p *mapPanel) fail(msg string) {
+	// A map job still running was asked for before (another horizon, or
+	// this one before it lost its picks): cancelled, so it cannot land
+	// after this and show its map under this message's horizon.
+	p.v.jobs.cancel("map")
+	p.v.setIdle(p.work)
 	p.v.jobs.cancel("map-render")
-	p.shownMap = nil
+	p.shownMap, p.shownTop = nil, nil
 	p.content0 = mapContent{}
 	p.view.setMessage(msg)
 }

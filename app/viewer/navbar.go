@@ -83,6 +83,7 @@ func newNavigationBar(v *viewer) *navigationBar {
 	n.lineRange = widget.NewLabel("")
 	n.title = widget.NewLabel("")
 	n.title.TextStyle.Bold = true
+	n.title.Truncation = fyne.TextTruncateEllipsis // a long title never widens the window
 	btn := func(icon fyne.Resource, f func()) *widget.Button {
 		b := widget.NewButtonWithIcon("", icon, f)
 		b.Importance = widget.LowImportance
@@ -96,10 +97,14 @@ func newNavigationBar(v *viewer) *navigationBar {
 	zoomOut := btn(theme.ZoomOutIcon(), func() { v.zoomCentre(1 / 1.5) })
 	fit := btn(theme.ZoomFitIcon(), v.fitView)
 	entry := container.NewGridWrap(fyne.NewSize(90, n.lineEntry.MinSize().Height), n.lineEntry)
-	left := container.NewHBox(n.orientation, widget.NewSeparator(), back10, back)
-	right := container.NewHBox(next, next10, entry, n.lineRange, n.offsetRow, widget.NewSeparator(), zoomOut, zoomIn, fit)
-	row1 := container.NewBorder(nil, nil, left, right, n.lineSlider)
-	n.content = container.NewVBox(row1, n.title)
+	// Two rows, so the bar fits beside the tabs on a 1366-pixel screen
+	// (TestWindowFitsLaptopScreen): the orientation, the title and the zoom
+	// buttons above; the line stepping, slider, entry and offset below.
+	row1 := container.NewBorder(nil, nil, container.NewHBox(n.orientation, widget.NewSeparator()),
+		container.NewHBox(widget.NewSeparator(), zoomOut, zoomIn, fit), n.title)
+	row2 := container.NewBorder(nil, nil, container.NewHBox(back10, back),
+		container.NewHBox(next, next10, entry, n.lineRange, n.offsetRow), n.lineSlider)
+	n.content = container.NewVBox(row1, row2)
 	return n
 }
 

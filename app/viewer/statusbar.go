@@ -13,6 +13,8 @@ import (
 type statusBar struct {
 	content fyne.CanvasObject
 	cursor  *widget.Label
+	line    *fyne.Container // cursor and message (statusLineLayout)
+	items   *fyne.Container // the progress items, one above the other
 	message *widget.Label
 	work    *progressItem
 	export  *progressItem
@@ -23,8 +25,49 @@ func newStatusBar() *statusBar {
 	s := &statusBar{cursor: widget.NewLabel(cursorHint), message: widget.NewLabel(""), work: newProgressItem(), export: newProgressItem(), check: newProgressItem()}
 	s.cursor.TextStyle.Monospace = true
 	s.message.Truncation = fyne.TextTruncateEllipsis
-	s.content = container.NewBorder(nil, nil, s.cursor, container.NewHBox(s.check.box, s.export.box, s.work.box), s.message)
+	s.cursor.Truncation = fyne.TextTruncateEllipsis
+	s.line = container.New(statusLineLayout{}, s.cursor, s.message)
+	// The progress items stack (the bar grows a line per running lane)
+	// rather than stand side by side, so four at once still fit a laptop
+	// screen (TestWindowFitsLaptopScreen).
+	s.items = container.NewVBox(s.check.box, s.export.box, s.work.box)
+	s.content = container.NewBorder(nil, nil, nil, s.items, s.line)
 	return s
+}
+
+// addProgress adds another lane's progress item to the bar.
+func (s *statusBar) addProgress(p *progressItem) { s.items.Add(p.box) }
+
+// setCursor shows text as the cursor readout and gives it the width it
+// needs again.
+func (s *statusBar) setCursor(text string) {
+	if s.cursor.Text == text {
+		return
+	}
+	s.cursor.Text = text
+	s.line.Refresh() // lays the line out again and redraws both labels
+}
+
+// statusLineLayout places the cursor readout (a truncating label) at the
+// width its text needs, or all there is when that is less, and the message
+// in the rest. Its minimum width is zero, so neither a long readout nor the
+// progress items beside it make the window wider than a laptop screen
+// (TestWindowFitsLaptopScreen); a readout cut short ends in an ellipsis.
+type statusLineLayout struct{}
+
+func (statusLineLayout) Layout(objs []fyne.CanvasObject, size fyne.Size) {
+	cursor, message := objs[0].(*widget.Label), objs[1]
+	// the width the text needs: an untruncated label's minimum
+	want := (&widget.Label{Text: cursor.Text, TextStyle: cursor.TextStyle}).MinSize().Width
+	cw := min(want, size.Width)
+	cursor.Move(fyne.NewPos(0, 0))
+	cursor.Resize(fyne.NewSize(cw, size.Height))
+	message.Move(fyne.NewPos(cw, 0))
+	message.Resize(fyne.NewSize(size.Width-cw, size.Height))
+}
+
+func (statusLineLayout) MinSize(objs []fyne.CanvasObject) fyne.Size {
+	return fyne.NewSize(0, max(objs[0].MinSize().Height, objs[1].MinSize().Height))
 }
 
 // progressItem is a status-bar group of a label, a progress bar and a

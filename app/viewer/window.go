@@ -54,6 +54,7 @@ func (v *viewer) buildUI() {
 	u.displayPanel = newDisplayPanel(v)
 	u.surveyPanel = newSurveyPanel(v)
 	horizonsTab := v.buildHorizonUI()
+	u.statusBar.addProgress(v.hzEdit.progress)
 
 	workspace := container.New(&workspaceLayout{traceWidth: 300, stripHeight: 150},
 		u.section, u.trace, u.legends.content, u.spectrum)
@@ -68,7 +69,7 @@ func (v *viewer) buildUI() {
 	)
 	split := container.NewHSplit(tabs, main)
 	split.Offset = 0.24
-	v.win.SetContent(container.NewBorder(nil, container.NewVBox(widget.NewSeparator(), container.NewBorder(nil, nil, nil, v.hzEdit.progress.box, u.statusBar.content)), nil, nil, split))
+	v.win.SetContent(container.NewBorder(nil, container.NewVBox(widget.NewSeparator(), u.statusBar.content), nil, nil, split))
 	v.win.SetMainMenu(v.mainMenu())
 	v.win.SetOnDropped(v.dropped)
 	v.bindKeys()
