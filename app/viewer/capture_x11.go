@@ -60,6 +60,15 @@ func captureWindow(w fyne.Window) (*image.RGBA, image.Point, error) {
 	var child C.Window
 	C.XTranslateCoordinates(d, win, C.XDefaultRootWindow(d), 0, 0, &rx, &ry, &child)
 	width, height := int(attr.width), int(attr.height)
+	// XGetImage of a window fails when part of it lies off the screen (a
+	// size restored from a larger monitor): say so instead of guessing.
+	var rootAttr C.XWindowAttributes
+	if C.XGetWindowAttributes(d, C.XDefaultRootWindow(d), &rootAttr) != 0 {
+		sw, sh := int(rootAttr.width), int(rootAttr.height)
+		if int(rx) < 0 || int(ry) < 0 || int(rx)+width > sw || int(ry)+height > sh {
+			return nil, image.Point{}, fmt.Errorf("capture: the window (%dx%d at %d,%d) does not fit on the %dx%d screen; make it smaller or move it fully on screen", width, height, int(rx), int(ry), sw, sh)
+		}
+	}
 	im := C.XGetImage(d, C.Drawable(win), 0, 0, C.uint(width), C.uint(height), C.AllPlanes, C.ZPixmap)
 	if im == nil {
 		return nil, image.Point{}, fmt.Errorf("capture: window %#x: XGetImage failed (is it mapped?)", handle)

@@ -17,6 +17,9 @@ bin=$(realpath "${1:?usage: snapshot-check.sh QUADTRACE_BINARY [FILE]}"); shift
 work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
 export LANG=${LANG:-C.UTF-8}
+# fresh preferences: a window size saved by an earlier run on a larger
+# screen must not decide what this check sees
+export XDG_CONFIG_HOME="$work/config"
 xvfb-run -a -s "-screen 0 1600x1000x24" bash -c '
   bin=$1; work=$2; shift 2
   QUADTRACE_SNAPSHOT_HOLD=4 QUADTRACE_SNAPSHOT_GL_CAPTURE="$work/gl.png" "$bin" --snapshot "$work/snap.png" "$@" 2>"$work/log" & pid=$!
