@@ -54,6 +54,11 @@ type Case struct {
 // it has no bytes to read through an io.ReaderAt.
 func (c Case) Special() bool { return c.Dir || c.FIFO }
 
+// MakeFIFO makes a named pipe at p (mode 0644) for tests of inputs and
+// outputs that must refuse one; it returns errors.ErrUnsupported where the
+// system has none (Windows).
+func MakeFIFO(p string) error { return mkfifo(p) }
+
 // Create materialises the case in dir (a file, or a directory when Dir is
 // set) and returns its path. The name is derived from Name.
 func (c Case) Create(dir string) (string, error) {
