@@ -125,3 +125,40 @@ loop:
 done:
 	VZEROUPPER
 	RET
+
+// func envFillSIMD(a *float32, x, h *float64, n int)
+TEXT ·envFillSIMD(SB), NOSPLIT, $0-32
+	MOVQ a+0(FP), R8
+	MOVQ x+8(FP), SI
+	MOVQ h+16(FP), DI
+	MOVQ n+24(FP), CX
+	SHRQ $3, CX
+	JEQ  envdone
+	XORQ DX, DX               // byte offset into the float64 inputs
+	XORQ BX, BX               // byte offset into the float32 output
+
+envloop:
+	// Eight samples per step in two independent chains of four:
+	// a = sqrt(x*x + h*h), rounded to float32.
+	VMOVUPD (SI)(DX*1), Y0
+	VMOVUPD 32(SI)(DX*1), Y1
+	VMULPD  Y0, Y0, Y0
+	VMULPD  Y1, Y1, Y1
+	VMOVUPD (DI)(DX*1), Y2
+	VMOVUPD 32(DI)(DX*1), Y3
+	VFMADD231PD Y2, Y2, Y0
+	VFMADD231PD Y3, Y3, Y1
+	VSQRTPD Y0, Y0
+	VSQRTPD Y1, Y1
+	VCVTPD2PSY Y0, X0
+	VCVTPD2PSY Y1, X1
+	VMOVUPS X0, (R8)(BX*1)
+	VMOVUPS X1, 16(R8)(BX*1)
+	ADDQ $64, DX
+	ADDQ $32, BX
+	DECQ CX
+	JNE  envloop
+
+envdone:
+	VZEROUPPER
+	RET
