@@ -142,3 +142,86 @@ func TestEnvelopeFillMatchesHypot(t *testing.T) {
 		}
 	}
 }
+
+// awkwardFloat32s are samples every per-sample kernel must handle: signed
+// zeros, the float32 extremes, subnormals, NaN and both infinities.
+func awkwardFloat32s() []float32 {
+	return []float32{0, float32(math.Copysign(0, -1)), 1, -1, math.MaxFloat32, -math.MaxFloat32,
+		math.SmallestNonzeroFloat32, -math.SmallestNonzeroFloat32, 1.1754944e-38,
+		float32(math.NaN()), float32(math.Inf(1)), float32(math.Inf(-1)), 3.5, -1e30}
+}
+
+// saturateTrace's vector path (fill_amd64.s) against the Go loop and the
+// rule itself: ±Inf become ±math.MaxFloat32, NaN stays NaN, every other
+// sample keeps its bits; at every length from 0 to 40 nothing beyond the
+// samples handled is written. Under -tags purego, or without AVX2, only
+// the Go loop is checked.
+func TestSaturateVectorMatchesRule(t *testing.T) {
+	vals := awkwardFloat32s()
+	var tr []float32
+	for range 9 {
+		tr = append(tr, vals...)
+	}
+	want := func(v float32) float32 {
+		switch {
+		case math.IsInf(float64(v), 1):
+			return math.MaxFloat32
+		case math.IsInf(float64(v), -1):
+			return -math.MaxFloat32
+		}
+		return v
+	}
+	for n := 0; n <= len(tr); n++ {
+		if n > 40 && n != len(tr) {
+			continue
+		}
+		got := append([]float32(nil), tr...)
+		saturateTrace(got[:n])
+		for j, v := range got {
+			w := tr[j]
+			if j < n {
+				w = want(tr[j])
+			}
+			if math.Float32bits(v) != math.Float32bits(w) && !(math.IsNaN(float64(v)) && math.IsNaN(float64(w))) {
+				t.Fatalf("length %d: sample %d (%v): %v, want %v", n, j, tr[j], v, w)
+			}
+		}
+	}
+}
+
+// analyticTrace.load's vector path against the rule: x = float64(v), 0 at
+// NaN and ±Inf, gap flags and count exact, taper applied, at every length
+// from 1 to 40 and with a clean trace loaded after a gapped one.
+func TestLoadVectorMatchesRule(t *testing.T) {
+	vals := awkwardFloat32s()
+	var tr []float32
+	for range 7 {
+		tr = append(tr, vals...)
+	}
+	for n := 1; n <= len(tr); n++ {
+		if n > 40 && n != len(tr) {
+			continue
+		}
+		var a analyticTrace
+		a.resize(n, 0.004)
+		for _, in := range [][]float32{tr[:n], make([]float32, n)} { // gapped, then clean
+			a.load(in, nil)
+			gaps := 0
+			for j, v := range in {
+				f := float64(v)
+				isGap := math.IsNaN(f) || math.IsInf(f, 0)
+				want := f
+				if isGap {
+					gaps++
+					want = 0
+				}
+				if math.Float64bits(a.x[j]) != math.Float64bits(want) || a.gap[j] != isGap {
+					t.Fatalf("length %d: sample %d (%v): x %v gap %v, want %v %v", n, j, v, a.x[j], a.gap[j], want, isGap)
+				}
+			}
+			if a.gaps != gaps {
+				t.Fatalf("length %d: %d gaps counted, want %d", n, a.gaps, gaps)
+			}
+		}
+	}
+}

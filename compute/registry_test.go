@@ -463,3 +463,46 @@ func TestInstantaneousIntoReusedSet(t *testing.T) {
 		t.Errorf("missing frequency trace: error %v", err)
 	}
 }
+
+// No attribute writes an infinite sample, whatever the amplitudes: traces
+// of the largest float32 values, alternating in sign and in spikes, give
+// finite outputs (or NaN where a formula is undefined) with every padding
+// mode, whether an attribute clamps trace by trace or ComputeInto clamps
+// the whole output afterwards.
+func TestNoInfiniteOutput(t *testing.T) {
+	sec := Section{DT: 0.004, Traces: make([][]float32, 4)}
+	for i := range sec.Traces {
+		tr := make([]float32, 257)
+		for j := range tr {
+			switch {
+			case i == 0:
+				tr[j] = math.MaxFloat32 * float32(1-2*(j%2))
+			case i == 1 && j%17 == 0:
+				tr[j] = -math.MaxFloat32
+			case i == 2:
+				tr[j] = math.MaxFloat32 * float32(math.Sin(float64(j)))
+			default:
+				tr[j] = 1e30 * float32(j%3-1)
+			}
+		}
+		sec.Traces[i] = tr
+	}
+	for _, a := range Attributes() {
+		for _, pad := range PadModes() {
+			raw := map[string]string{}
+			if slices.ContainsFunc(a.Params, func(s ParamSpec) bool { return s.Name == "pad" }) {
+				raw["pad"] = pad
+			} else if pad != PadFast {
+				continue
+			}
+			out := compute(t, a.ID, raw, sec)
+			for i, tr := range out.Traces {
+				for j, v := range tr {
+					if math.IsInf(float64(v), 0) {
+						t.Fatalf("%s pad=%s: trace %d sample %d is %v", a.ID, pad, i, j, v)
+					}
+				}
+			}
+		}
+	}
+}
