@@ -71,6 +71,9 @@ type analyticTrace struct {
 	dx, dh []float64
 	gap    []bool // gap[j]: sample j was NaN or Inf
 	gaps   int    // number of gap samples in the loaded trace
+	// gapMarked: gap may hold a true (load clears it before a clean
+	// trace).
+	gapMarked bool
 }
 
 // resize readies t for traces of n samples at interval dt.
@@ -79,25 +82,38 @@ func (t *analyticTrace) resize(n int, dt float64) {
 	if len(t.x) != n {
 		t.x, t.h, t.dx, t.dh = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
 		t.gap = make([]bool, n)
+		t.gapMarked = false
 	}
 }
 
 // load copies a trace into t.x (gaps set to zero and flagged, taper
-// applied).
+// applied). t.gap is rewritten only when this trace or the last one
+// loaded had a gap (t.gapMarked), so a clean trace costs one pass.
 func (t *analyticTrace) load(tr []float32, taper []float64) {
-	t.gaps = 0
 	x := t.x[:len(tr)]
-	for j, v := range tr {
-		f := float64(v)
+	// Eight samples at a time in fill_amd64.s where the processor allows,
+	// the rest here.
+	done, gaps := loadVector(x, tr)
+	t.gaps = gaps
+	for j := done; j < len(tr); j++ {
+		f := float64(tr[j])
 		// NaN fails every comparison; ±Inf exceeds the largest float32.
 		if !(f >= -math.MaxFloat32 && f <= math.MaxFloat32) {
-			t.gap[j] = true
 			t.gaps++
 			f = 0
-		} else {
-			t.gap[j] = false
 		}
 		x[j] = f
+	}
+	if t.gaps > 0 {
+		gap := t.gap[:len(tr)]
+		for j, v := range tr {
+			f := float64(v)
+			gap[j] = !(f >= -math.MaxFloat32 && f <= math.MaxFloat32)
+		}
+		t.gapMarked = true
+	} else if t.gapMarked {
+		clear(t.gap)
+		t.gapMarked = false
 	}
 	for j, w := range taper {
 		x[j] *= w

@@ -44,12 +44,16 @@ type analyticNeeds struct {
 	// op, when set, makes the operator from the pair's setup and its
 	// result goes into traceWork.v.
 	op func(p *analyticPair) spectralOp
+	// noStabilizer: fill never reads traceWork.eps, so it is not
+	// computed (a pass over the trace saved).
+	noStabilizer bool
 }
 
 // analyticRun computes an attribute trace by trace: it transforms the
 // traces two at a time (analyticPair) for the quadrature and what needs
-// asks for, then calls fill to write each output trace; gap samples are
-// set to NaN afterwards.
+// asks for, then calls fill to write each output trace, clamps infinite
+// samples as saturate does (attributes run through it are marked
+// saturated in the registry) and sets gap samples to NaN.
 func analyticRun(ctx context.Context, in, out Section, p Params, progress func(done, total int), needs analyticNeeds, fill func(w *traceWork, out []float32)) error {
 	n := in.Samples()
 	end := endTreatment(p)
@@ -92,9 +96,12 @@ func analyticRun(ctx context.Context, in, out Section, p Params, progress func(d
 			if t == nil {
 				break
 			}
-			t.eps = t.stabilizer()
+			if !needs.noStabilizer {
+				t.eps = t.stabilizer()
+			}
 			o := out.Traces[i+k]
 			fill(t, o)
+			saturateTrace(o)
 			t.markGaps(o)
 		}
 		return nil
@@ -114,10 +121,11 @@ func (t *analyticTrace) markGaps(out []float32) {
 }
 
 // traceAttribute makes a computeFunc from a whole-trace formula of x, h
-// and (when deriv is set) x', h'.
+// and (when deriv is set) x', h' that does not divide by the envelope (it
+// never reads traceWork.eps).
 func traceAttribute(deriv bool, fill func(w *traceWork, out []float32)) computeFunc {
 	return func(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
-		return analyticRun(ctx, in, out, p, progress, analyticNeeds{derivatives: deriv}, fill)
+		return analyticRun(ctx, in, out, p, progress, analyticNeeds{derivatives: deriv, noStabilizer: true}, fill)
 	}
 }
 
@@ -137,14 +145,22 @@ const twoPi = 2 * math.Pi
 
 func quadratureAt(w *traceWork, j int) float64 { return w.h[j] }
 
-// envelopeTrace writes the envelope sqrt(x² + h²) of a trace (one loop
-// with nothing called per sample: the export's hot path). x and h come from
-// float32 samples, so x² + h² can neither overflow nor lose precision to
-// underflow in float64, and math.Hypot's scaling is not needed.
+// envelopeTrace writes the envelope sqrt(x² + h²) of a trace: eight
+// samples at a time in fill_amd64.s where the processor allows (the
+// export's hot path), the rest in envelopeScalar.
 func envelopeTrace(w *traceWork, out []float32) {
-	x, h := w.x[:len(out)], w.h[:len(out)]
+	done := envFillVector(out, w.x, w.h)
+	envelopeScalar(out[done:], w.x[done:], w.h[done:])
+}
+
+// envelopeScalar writes a[j] = sqrt(x[j]² + h[j]²) (x and h at least as
+// long as a). x and h come from float32 samples, so x² + h² can neither
+// overflow nor lose precision to underflow in float64, and math.Hypot's
+// scaling is not needed.
+func envelopeScalar(a []float32, x, h []float64) {
+	x, h = x[:len(a)], h[:len(a)]
 	for j, xj := range x {
-		out[j] = float32(math.Sqrt(xj*xj + h[j]*h[j]))
+		a[j] = float32(math.Sqrt(xj*xj + h[j]*h[j]))
 	}
 }
 

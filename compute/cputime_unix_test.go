@@ -17,3 +17,13 @@ func processCPU() time.Duration {
 	}
 	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }
+
+// minorFaults returns the minor page faults of the test process so far,
+// from getrusage(2): first touches of fresh memory.
+func minorFaults() int64 {
+	var ru syscall.Rusage
+	if syscall.Getrusage(syscall.RUSAGE_SELF, &ru) != nil {
+		return 0
+	}
+	return ru.Minflt
+}

@@ -4,9 +4,10 @@ package compute
 
 import "golang.org/x/sys/cpu"
 
-// haveSIMD says whether the vector passes of fft_amd64.s can run: they use
-// AVX2 and FMA3 (x86-64 since 2013/2015). Read once, never changed.
-var haveSIMD = cpu.X86.HasAVX && cpu.X86.HasAVX2 && cpu.X86.HasFMA
+// haveSIMD says whether the vector passes of fft_amd64.s and the kernels of
+// fill_amd64.s can run: they use AVX2, FMA3 and POPCNT (x86-64 since
+// 2013/2015). Read once, never changed.
+var haveSIMD = cpu.X86.HasAVX && cpu.X86.HasAVX2 && cpu.X86.HasFMA && cpu.X86.HasPOPCNT
 
 // radix4SIMD is fftStage.radix4 for a pass with an even stride s, two
 // butterflies at a time in 256-bit registers; tw holds W_l^{jp} at

@@ -12,3 +12,15 @@ func (g *fftStage) applySIMD(y, x []complex128) bool { return false }
 // instFillVector writes nothing here: InstantaneousSet.fill does every
 // sample in Go.
 func instFillVector(a, ph, f, c []float32, x, h, dx, dh []float64, eps float64) int { return 0 }
+
+// envFillVector writes nothing here: envelopeTrace does every sample in
+// Go.
+func envFillVector(a []float32, x, h []float64) int { return 0 }
+
+// saturateVector handles nothing here: saturateTrace does every sample in
+// Go.
+func saturateVector(tr []float32) int { return 0 }
+
+// loadVector converts nothing here: analyticTrace.load does every sample
+// in Go.
+func loadVector(x []float64, tr []float32) (done, gaps int) { return 0, 0 }

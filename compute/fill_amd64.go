@@ -22,3 +22,60 @@ func instFillVector(a, ph, f, c []float32, x, h, dx, dh []float64, eps float64) 
 	instFillSIMD(&a[0], &ph[0], &f[0], &c[0], &x[0], &h[0], &dx[0], &dh[0], n, eps)
 	return n
 }
+
+// envFillSIMD writes for samples j < n (n a multiple of 8; the rest are
+// left alone) the envelope a[j] = float32(sqrt(x[j]² + h[j]²)), eight
+// samples per step with AVX2 and FMA (haveSIMD). x² + h² is formed with
+// one fused multiply-add, so it may differ from Go's x*x + h*h in the last
+// bit of the float64; both are within one float32 rounding of math.Hypot
+// (TestEnvelopeFillMatchesHypot).
+//
+//go:noescape
+func envFillSIMD(a *float32, x, h *float64, n int)
+
+// envFillVector runs envFillSIMD on the longest multiple of 8 of a and
+// returns how many samples it wrote.
+func envFillVector(a []float32, x, h []float64) int {
+	n := len(a) &^ 7
+	if !haveSIMD || n == 0 || len(x) < n || len(h) < n {
+		return 0
+	}
+	envFillSIMD(&a[0], &x[0], &h[0], n)
+	return n
+}
+
+// saturateSIMD clamps samples j < n (n a multiple of 8; the rest are left
+// alone) to -math.MaxFloat32..math.MaxFloat32 as saturateTrace does,
+// leaving NaN unchanged, eight at a time with AVX2 (haveSIMD).
+//
+//go:noescape
+func saturateSIMD(tr *float32, n int)
+
+// saturateVector runs saturateSIMD on the longest multiple of 8 of tr and
+// returns how many samples it handled.
+func saturateVector(tr []float32) int {
+	n := len(tr) &^ 7
+	if !haveSIMD || n == 0 {
+		return 0
+	}
+	saturateSIMD(&tr[0], n)
+	return n
+}
+
+// loadSIMD writes x[j] = float64(tr[j]) for j < n (n a multiple of 8; the
+// rest are left alone), 0 where tr[j] is NaN or ±Inf, and returns how many
+// such gap samples it met: analyticTrace.load's conversion, eight at a time
+// with AVX2 (haveSIMD).
+//
+//go:noescape
+func loadSIMD(x *float64, tr *float32, n int) (gaps int)
+
+// loadVector runs loadSIMD on the longest multiple of 8 of tr and returns
+// how many samples it converted and how many of them were gaps.
+func loadVector(x []float64, tr []float32) (done, gaps int) {
+	n := len(tr) &^ 7
+	if !haveSIMD || n == 0 || len(x) < n {
+		return 0, 0
+	}
+	return n, loadSIMD(&x[0], &tr[0], n)
+}

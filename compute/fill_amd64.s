@@ -2,9 +2,11 @@
 
 #include "textflag.h"
 
-// The instantaneous set's per-sample formulas (InstantaneousSet.fill),
-// four samples at a time in 256-bit registers; see instFillSIMD in
-// fill_amd64.go for the contract.
+// Per-sample kernels in 256-bit registers (AVX2, FMA): the instantaneous
+// set's formulas (InstantaneousSet.fill) four samples at a time, and the
+// envelope, the float32 clamp (saturateTrace) and the trace load
+// (analyticTrace.load) eight at a time. Each function's contract is in
+// fill_amd64.go beside its declaration.
 
 #define C4X(name, bits) \
 	DATA name<>+0(SB)/8, bits; \
@@ -124,4 +126,115 @@ loop:
 
 done:
 	VZEROUPPER
+	RET
+
+// func envFillSIMD(a *float32, x, h *float64, n int)
+TEXT ·envFillSIMD(SB), NOSPLIT, $0-32
+	MOVQ a+0(FP), R8
+	MOVQ x+8(FP), SI
+	MOVQ h+16(FP), DI
+	MOVQ n+24(FP), CX
+	SHRQ $3, CX
+	JEQ  envdone
+	XORQ DX, DX               // byte offset into the float64 inputs
+	XORQ BX, BX               // byte offset into the float32 output
+
+envloop:
+	// Eight samples per step in two independent chains of four:
+	// a = sqrt(x*x + h*h), rounded to float32.
+	VMOVUPD (SI)(DX*1), Y0
+	VMOVUPD 32(SI)(DX*1), Y1
+	VMULPD  Y0, Y0, Y0
+	VMULPD  Y1, Y1, Y1
+	VMOVUPD (DI)(DX*1), Y2
+	VMOVUPD 32(DI)(DX*1), Y3
+	VFMADD231PD Y2, Y2, Y0
+	VFMADD231PD Y3, Y3, Y1
+	VSQRTPD Y0, Y0
+	VSQRTPD Y1, Y1
+	VCVTPD2PSY Y0, X0
+	VCVTPD2PSY Y1, X1
+	VMOVUPS X0, (R8)(BX*1)
+	VMOVUPS X1, 16(R8)(BX*1)
+	ADDQ $64, DX
+	ADDQ $32, BX
+	DECQ CX
+	JNE  envloop
+
+envdone:
+	VZEROUPPER
+	RET
+
+#define C8S(name, bits) \
+	DATA name<>+0(SB)/4, bits; \
+	DATA name<>+4(SB)/4, bits; \
+	DATA name<>+8(SB)/4, bits; \
+	DATA name<>+12(SB)/4, bits; \
+	DATA name<>+16(SB)/4, bits; \
+	DATA name<>+20(SB)/4, bits; \
+	DATA name<>+24(SB)/4, bits; \
+	DATA name<>+28(SB)/4, bits; \
+	GLOBL name<>(SB), RODATA|NOPTR, $32
+
+C8S(absmask32, $0x7fffffff)
+C8S(max32, $0x7f7fffff)             // math.MaxFloat32
+C8S(negmax32, $0xff7fffff)          // -math.MaxFloat32
+
+// func saturateSIMD(tr *float32, n int)
+TEXT ·saturateSIMD(SB), NOSPLIT, $0-16
+	MOVQ tr+0(FP), SI
+	MOVQ n+8(FP), CX
+	SHRQ $3, CX
+	JEQ  satdone
+	VMOVUPS max32<>(SB), Y1
+	VMOVUPS negmax32<>(SB), Y2
+
+satloop:
+	// min then max, each with the sample as the second source operand:
+	// a NaN sample compares false and comes through unchanged.
+	VMOVUPS (SI), Y0
+	VMINPS  Y0, Y1, Y0
+	VMAXPS  Y0, Y2, Y0
+	VMOVUPS Y0, (SI)
+	ADDQ $32, SI
+	DECQ CX
+	JNE  satloop
+
+satdone:
+	VZEROUPPER
+	RET
+
+// func loadSIMD(x *float64, tr *float32, n int) (gaps int)
+TEXT ·loadSIMD(SB), NOSPLIT, $0-32
+	MOVQ x+0(FP), DI
+	MOVQ tr+8(FP), SI
+	MOVQ n+16(FP), CX
+	XORQ AX, AX               // gaps
+	SHRQ $3, CX
+	JEQ  loaddone
+	VMOVUPS absmask32<>(SB), Y4
+	VMOVUPS max32<>(SB), Y5
+
+loadloop:
+	VMOVUPS (SI), Y0
+	VANDPS  Y4, Y0, Y1
+	VCMPPS  $0x12, Y5, Y1, Y1 // |v| <= MaxFloat32, ordered: finite
+	VANDPS  Y1, Y0, Y0        // gaps (NaN, ±Inf) to zero
+	VMOVMSKPS Y1, BX
+	XORQ    $0xff, BX
+	POPCNTQ BX, BX
+	ADDQ    BX, AX
+	VCVTPS2PD X0, Y2
+	VEXTRACTF128 $1, Y0, X3
+	VCVTPS2PD X3, Y3
+	VMOVUPD Y2, (DI)
+	VMOVUPD Y3, 32(DI)
+	ADDQ $32, SI
+	ADDQ $64, DI
+	DECQ CX
+	JNE  loadloop
+
+loaddone:
+	VZEROUPPER
+	MOVQ AX, gaps+24(FP)
 	RET

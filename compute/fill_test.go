@@ -1,6 +1,7 @@
 package compute
 
 import (
+	"fmt"
 	"math"
 	"testing"
 )
@@ -74,6 +75,153 @@ func TestFillVectorMatchesScalar(t *testing.T) {
 		}
 		if c := vec.c[j]; c < -1 || c > 1 {
 			t.Errorf("sample %d: cosine of phase %v outside -1..1", j, c)
+		}
+	}
+}
+
+// The envelope's fill, eight samples at a time (fill_amd64.s) and in Go
+// (envelopeScalar), against Go's standard library math.Hypot on every pair
+// of awkward values (signed zeros, subnormal, the float32 extremes, both
+// signs) and on random ones, at every length from 0 to 40 (the vector
+// path's tails): each sample within one float32 rounding of
+// float32(math.Hypot(x, h)), and the vector path never writes past its
+// slice. Where the processor lacks AVX2 and FMA (or under -tags purego)
+// only the Go path is checked.
+func TestEnvelopeFillMatchesHypot(t *testing.T) {
+	vals := []float64{0, math.Copysign(0, -1), 1, -1, 0.5, -1e-45, 1e-38, 3.4e38, -3.4e38, 1e-20, 7, -7, 2.5, -1e5}
+	var x, h []float64
+	for _, a := range vals {
+		for _, b := range vals {
+			x, h = append(x, a), append(h, b)
+		}
+	}
+	rnd := uint64(777)
+	next := func() float64 {
+		rnd = rnd*6364136223846793005 + 1442695040888963407
+		return float64(int64(rnd>>11)-1<<52) / (1 << 52)
+	}
+	for range 1000 {
+		x, h = append(x, next()*1e3), append(h, next()*1e-3)
+	}
+	ulp := func(v float32) float64 {
+		return float64(math.Nextafter32(v, math.MaxFloat32) - v)
+	}
+	check := func(name string, a []float32, x, h []float64) {
+		for j := range a {
+			want := float32(math.Hypot(x[j], h[j]))
+			if a[j] != want && math.Abs(float64(a[j]-want)) > ulp(want) {
+				t.Errorf("%s: sample %d: envelope(%v, %v) = %v, math.Hypot gives %v", name, j, x[j], h[j], a[j], want)
+			}
+		}
+	}
+	goPath := make([]float32, len(x))
+	envelopeScalar(goPath, x, h)
+	check("Go", goPath, x, h)
+	vec := make([]float32, len(x))
+	done := envFillVector(vec, x, h)
+	if haveSIMD && done != len(x)&^7 {
+		t.Fatalf("vector fill wrote %d of %d samples", done, len(x))
+	}
+	envelopeScalar(vec[done:], x[done:], h[done:])
+	check("vector", vec, x, h)
+	const guard = float32(-12345)
+	for n := 0; n <= 40; n++ {
+		a := make([]float32, n+8)
+		for j := range a {
+			a[j] = guard
+		}
+		d := envFillVector(a[:n], x[:n], h[:n])
+		if haveSIMD && d != n&^7 {
+			t.Fatalf("length %d: vector fill wrote %d samples, want %d", n, d, n&^7)
+		}
+		check(fmt.Sprintf("vector, length %d", n), a[:d], x, h)
+		for j := d; j < len(a); j++ {
+			if a[j] != guard {
+				t.Fatalf("length %d: sample %d written beyond the %d the fill reported", n, j, d)
+			}
+		}
+	}
+}
+
+// awkwardFloat32s are samples every per-sample kernel must handle: signed
+// zeros, the float32 extremes, subnormals, NaN and both infinities.
+func awkwardFloat32s() []float32 {
+	return []float32{0, float32(math.Copysign(0, -1)), 1, -1, math.MaxFloat32, -math.MaxFloat32,
+		math.SmallestNonzeroFloat32, -math.SmallestNonzeroFloat32, 1.1754944e-38,
+		float32(math.NaN()), float32(math.Inf(1)), float32(math.Inf(-1)), 3.5, -1e30}
+}
+
+// saturateTrace's vector path (fill_amd64.s) against the Go loop and the
+// rule itself: ±Inf become ±math.MaxFloat32, NaN stays NaN, every other
+// sample keeps its bits; at every length from 0 to 40 nothing beyond the
+// samples handled is written. Under -tags purego, or without AVX2, only
+// the Go loop is checked.
+func TestSaturateVectorMatchesRule(t *testing.T) {
+	vals := awkwardFloat32s()
+	var tr []float32
+	for range 9 {
+		tr = append(tr, vals...)
+	}
+	want := func(v float32) float32 {
+		switch {
+		case math.IsInf(float64(v), 1):
+			return math.MaxFloat32
+		case math.IsInf(float64(v), -1):
+			return -math.MaxFloat32
+		}
+		return v
+	}
+	for n := 0; n <= len(tr); n++ {
+		if n > 40 && n != len(tr) {
+			continue
+		}
+		got := append([]float32(nil), tr...)
+		saturateTrace(got[:n])
+		for j, v := range got {
+			w := tr[j]
+			if j < n {
+				w = want(tr[j])
+			}
+			if math.Float32bits(v) != math.Float32bits(w) && !(math.IsNaN(float64(v)) && math.IsNaN(float64(w))) {
+				t.Fatalf("length %d: sample %d (%v): %v, want %v", n, j, tr[j], v, w)
+			}
+		}
+	}
+}
+
+// analyticTrace.load's vector path against the rule: x = float64(v), 0 at
+// NaN and ±Inf, gap flags and count exact, taper applied, at every length
+// from 1 to 40 and with a clean trace loaded after a gapped one.
+func TestLoadVectorMatchesRule(t *testing.T) {
+	vals := awkwardFloat32s()
+	var tr []float32
+	for range 7 {
+		tr = append(tr, vals...)
+	}
+	for n := 1; n <= len(tr); n++ {
+		if n > 40 && n != len(tr) {
+			continue
+		}
+		var a analyticTrace
+		a.resize(n, 0.004)
+		for _, in := range [][]float32{tr[:n], make([]float32, n)} { // gapped, then clean
+			a.load(in, nil)
+			gaps := 0
+			for j, v := range in {
+				f := float64(v)
+				isGap := math.IsNaN(f) || math.IsInf(f, 0)
+				want := f
+				if isGap {
+					gaps++
+					want = 0
+				}
+				if math.Float64bits(a.x[j]) != math.Float64bits(want) || a.gap[j] != isGap {
+					t.Fatalf("length %d: sample %d (%v): x %v gap %v, want %v %v", n, j, v, a.x[j], a.gap[j], want, isGap)
+				}
+			}
+			if a.gaps != gaps {
+				t.Fatalf("length %d: %d gaps counted, want %d", n, a.gaps, gaps)
+			}
 		}
 	}
 }

@@ -19,28 +19,58 @@ type InstantaneousSet struct {
 	simd bool // fill four samples at a time in fill_amd64.s (haveSIMD)
 }
 
-// Instantaneous computes the InstantaneousSet of a section on all cores:
-// traces go through the transform two at a time (see analyticPair: per
+// Instantaneous computes the InstantaneousSet of a section on all cores
+// into new sections; see InstantaneousInto.
+func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress func(done, total int)) (InstantaneousSet, error) {
+	if err := in.validate(); err != nil {
+		return InstantaneousSet{}, fmt.Errorf("instantaneous attributes: %w", err)
+	}
+	set := InstantaneousSet{Envelope: newLike(in), Phase: newLike(in), Frequency: newLike(in), CosPhase: newLike(in)}
+	if err := InstantaneousInto(ctx, in, &set, end, progress); err != nil {
+		return InstantaneousSet{}, err
+	}
+	return set, nil
+}
+
+// InstantaneousInto computes the InstantaneousSet of a section on all
+// cores into the sections of out, which must each have in's number of
+// traces, every trace in's number of samples (Instantaneous allocates
+// them; a caller computing section after section passes the same set
+// again, so the output memory is touched once, not once per section).
+// Traces go through the transform two at a time (see analyticPair: per
 // trace half a forward and one and a half inverse complex FFTs, for h, x'
 // and h'), with one FFT plan shared by all workers and buffers reused per
-// worker. Cancellation and progress
-// work as for Attribute.Compute.
-func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress func(done, total int)) (InstantaneousSet, error) {
-	var set InstantaneousSet
+// worker. out's DT and T0 are set from in. Cancellation and progress work
+// as for Attribute.Compute; on error out's samples are undefined.
+func InstantaneousInto(ctx context.Context, in Section, out *InstantaneousSet, end EndTreatment, progress func(done, total int)) error {
 	if err := in.validate(); err != nil {
-		return set, fmt.Errorf("instantaneous attributes: %w", err)
+		return fmt.Errorf("instantaneous attributes: %w", err)
 	}
 	if _, err := end.transformLength(1); err != nil {
-		return set, fmt.Errorf("instantaneous attributes: %w", err)
+		return fmt.Errorf("instantaneous attributes: %w", err)
 	}
-	set = InstantaneousSet{Envelope: newLike(in), Phase: newLike(in), Frequency: newLike(in), CosPhase: newLike(in), simd: haveSIMD}
 	n := in.Samples()
+	for _, o := range []struct {
+		name string
+		s    *Section
+	}{{"envelope", &out.Envelope}, {"phase", &out.Phase}, {"frequency", &out.Frequency}, {"cosine of phase", &out.CosPhase}} {
+		if len(o.s.Traces) != len(in.Traces) {
+			return fmt.Errorf("instantaneous attributes: %s output has %d traces for %d input traces", o.name, len(o.s.Traces), len(in.Traces))
+		}
+		for i, tr := range o.s.Traces {
+			if len(tr) != n {
+				return fmt.Errorf("instantaneous attributes: %s output trace %d has %d samples, want %d", o.name, i, len(tr), n)
+			}
+		}
+		o.s.DT, o.s.T0 = in.DT, in.T0
+	}
+	out.simd = haveSIMD
 	if n == 0 {
-		return set, nil
+		return nil
 	}
 	plan, err := analyticPlan(n, end)
 	if err != nil {
-		return InstantaneousSet{}, fmt.Errorf("instantaneous attributes: %w", err)
+		return fmt.Errorf("instantaneous attributes: %w", err)
 	}
 	type worker struct {
 		p     analyticPair
@@ -56,16 +86,16 @@ func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress f
 			tb = in.Traces[i+1]
 		}
 		w.p.analyze(&w.a, &w.b, in.Traces[i], tb, true)
-		set.fill(i, &w.a, w.phase)
+		out.fill(i, &w.a, w.phase)
 		if pair {
-			set.fill(i+1, &w.b, w.phase)
+			out.fill(i+1, &w.b, w.phase)
 		}
 		return nil
 	}, progress)
 	if err != nil {
-		return InstantaneousSet{}, fmt.Errorf("instantaneous attributes: %w", err)
+		return fmt.Errorf("instantaneous attributes: %w", err)
 	}
-	return set, nil
+	return nil
 }
 
 // fill writes trace i of the set from its analytic trace t; phase (n

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"regexp"
+	"runtime"
 	"slices"
 	"strings"
 	"sync"
@@ -379,6 +380,129 @@ func TestComputeIntoReusedOutput(t *testing.T) {
 		}
 		if err := a.ComputeInto(context.Background(), sec, Section{Traces: short.Traces[:4]}, Params{}, nil); err == nil {
 			t.Errorf("%s: an output with a trace missing accepted", a.ID)
+		}
+	}
+}
+
+// A worker that has just loaded a trace with gaps and then a clean one
+// must not carry the gap flags over: on one core (one worker, traces in
+// order) every attribute of clean traces following gapped ones equals,
+// bit for bit, its value where the same slots held clean traces.
+func TestGapFlagsDoNotLeakToNextTrace(t *testing.T) {
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(1))
+	clean := randomTraces(6, 200, 31)
+	gapped := Section{DT: clean.DT, Traces: make([][]float32, len(clean.Traces))}
+	for i, tr := range clean.Traces {
+		gapped.Traces[i] = append([]float32(nil), tr...)
+	}
+	for j := 0; j < 200; j += 3 { // the first pair full of gaps
+		gapped.Traces[0][j] = float32(math.NaN())
+		gapped.Traces[1][j+1] = float32(math.Inf(1))
+	}
+	for _, a := range Attributes() {
+		want := compute(t, a.ID, nil, clean)
+		got := compute(t, a.ID, nil, gapped)
+		for i := 2; i < len(clean.Traces); i++ {
+			for j := range want.Traces[i] {
+				w, g := want.Traces[i][j], got.Traces[i][j]
+				if w != g && !(math.IsNaN(float64(w)) && math.IsNaN(float64(g))) {
+					t.Fatalf("%s: clean trace %d sample %d after gapped traces: %v, alone %v", a.ID, i, j, g, w)
+				}
+			}
+		}
+	}
+}
+
+// InstantaneousInto into a set already holding another section's values
+// gives bit for bit what Instantaneous gives, with every padding mode, and
+// takes DT and T0 from the input; wrongly shaped outputs are refused with
+// the output named.
+func TestInstantaneousIntoReusedSet(t *testing.T) {
+	first := randomTraces(5, 301, 12)
+	sec := randomTraces(5, 301, 13)
+	sec.DT, sec.T0 = 0.002, 0.25
+	sec.Traces[2][40] = float32(math.NaN())
+	for _, pad := range PadModes() {
+		end := EndTreatment{Pad: pad}
+		set, err := Instantaneous(context.Background(), first, end, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := InstantaneousInto(context.Background(), sec, &set, end, nil); err != nil {
+			t.Fatal(err)
+		}
+		want, err := Instantaneous(context.Background(), sec, end, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		pairs := map[string][2]Section{"envelope": {want.Envelope, set.Envelope}, "phase": {want.Phase, set.Phase},
+			"frequency": {want.Frequency, set.Frequency}, "cosine of phase": {want.CosPhase, set.CosPhase}}
+		for name, p := range pairs {
+			if p[1].DT != sec.DT || p[1].T0 != sec.T0 {
+				t.Errorf("pad=%s %s: sampling %v, %v; input %v, %v", pad, name, p[1].DT, p[1].T0, sec.DT, sec.T0)
+			}
+			for i := range p[0].Traces {
+				for j, v := range p[0].Traces[i] {
+					if g := p[1].Traces[i][j]; math.Float32bits(g) != math.Float32bits(v) && !(isGap(g) && isGap(v)) {
+						t.Fatalf("pad=%s %s: trace %d sample %d: %v into a used set, %v from Instantaneous", pad, name, i, j, g, v)
+					}
+				}
+			}
+		}
+	}
+	set, err := Instantaneous(context.Background(), sec, EndTreatment{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	set.Frequency.Traces[3] = set.Frequency.Traces[3][:300]
+	if err := InstantaneousInto(context.Background(), sec, &set, EndTreatment{}, nil); err == nil || !strings.Contains(err.Error(), "frequency output trace 3 has 300 samples") {
+		t.Errorf("short frequency trace: error %v", err)
+	}
+	set.Frequency.Traces = set.Frequency.Traces[:4]
+	if err := InstantaneousInto(context.Background(), sec, &set, EndTreatment{}, nil); err == nil || !strings.Contains(err.Error(), "frequency output has 4 traces for 5") {
+		t.Errorf("missing frequency trace: error %v", err)
+	}
+}
+
+// No attribute writes an infinite sample, whatever the amplitudes: traces
+// of the largest float32 values, alternating in sign and in spikes, give
+// finite outputs (or NaN where a formula is undefined) with every padding
+// mode, whether an attribute clamps trace by trace or ComputeInto clamps
+// the whole output afterwards.
+func TestNoInfiniteOutput(t *testing.T) {
+	sec := Section{DT: 0.004, Traces: make([][]float32, 4)}
+	for i := range sec.Traces {
+		tr := make([]float32, 257)
+		for j := range tr {
+			switch {
+			case i == 0:
+				tr[j] = math.MaxFloat32 * float32(1-2*(j%2))
+			case i == 1 && j%17 == 0:
+				tr[j] = -math.MaxFloat32
+			case i == 2:
+				tr[j] = math.MaxFloat32 * float32(math.Sin(float64(j)))
+			default:
+				tr[j] = 1e30 * float32(j%3-1)
+			}
+		}
+		sec.Traces[i] = tr
+	}
+	for _, a := range Attributes() {
+		for _, pad := range PadModes() {
+			raw := map[string]string{}
+			if slices.ContainsFunc(a.Params, func(s ParamSpec) bool { return s.Name == "pad" }) {
+				raw["pad"] = pad
+			} else if pad != PadFast {
+				continue
+			}
+			out := compute(t, a.ID, raw, sec)
+			for i, tr := range out.Traces {
+				for j, v := range tr {
+					if math.IsInf(float64(v), 0) {
+						t.Fatalf("%s pad=%s: trace %d sample %d is %v", a.ID, pad, i, j, v)
+					}
+				}
+			}
 		}
 	}
 }
