@@ -153,6 +153,14 @@ func (f *File) TraceHeader(i int) (TraceHeader, error) {
 // standard header and its additional ones), copying what it keeps.
 func (f *File) decodeHeader(raw []byte) TraceHeader {
 	var h TraceHeader
+	f.decodeHeaderInto(&h, raw)
+	return h
+}
+
+// decodeHeaderInto is decodeHeader into *h (which it overwrites whole),
+// for callers that keep headers in a slice: no copy on the heap per trace.
+func (f *File) decodeHeaderInto(h *TraceHeader, raw []byte) {
+	*h = TraceHeader{}
 	copy(h.Raw[:], raw[:TraceHeaderSize])
 	if f.extraHeaders > 0 {
 		h.Extra = append([]byte(nil), raw[TraceHeaderSize:f.hdrSize]...)
@@ -169,7 +177,6 @@ func (f *File) decodeHeader(raw []byte) TraceHeader {
 	if x, y, ok := f.ext1Coords(h.Extra); ok {
 		h.CDPX, h.CDPY = x, y
 	}
-	return h
 }
 
 // runReadBytes is the most ReadTraces and TraceHeaders read with one call
@@ -254,7 +261,7 @@ func (f *File) readRun(first, n int, headers []TraceHeader, dst [][]float32) err
 				err := f.guardFault(i, f.dataStart+int64(i)*f.traceSize, func() error {
 					raw, err := f.traceHeaderBytes(i, nil)
 					if err == nil {
-						headers[k] = f.decodeHeader(raw)
+						f.decodeHeaderInto(&headers[k], raw)
 					}
 					return err
 				})
@@ -275,7 +282,7 @@ func (f *File) readRun(first, n int, headers []TraceHeader, dst [][]float32) err
 	defer f.runPool.Put(bp)
 	return f.eachRunRead(first, n, *bp, func(k int, raw []byte) {
 		if headers != nil {
-			headers[k] = f.decodeHeader(raw[:f.hdrSize])
+			f.decodeHeaderInto(&headers[k], raw[:f.hdrSize])
 		}
 		if dst != nil {
 			d := dst[k]
