@@ -34,13 +34,13 @@ type NewSpec struct {
 // caller's: quadtrace's commands write through app/outfile. A Writer is
 // not safe for concurrent use.
 type Writer struct {
-	name     string // for messages
-	out      io.Writer
+	name string // for messages
+	out  io.Writer
 	// pending holds what is not yet handed to out: whole traces are
 	// encoded straight into it (no second copy, as through a bufio.Writer)
 	// and it goes to out in one Write when the next trace would not fit.
-	pending []byte
-	err     error // the first error of out, returned from then on
+	pending  []byte
+	err      error // the first error of out, returned from then on
 	format   int
 	samples  int
 	interval int
