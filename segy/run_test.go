@@ -7,7 +7,9 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"math/rand/v2"
 	"reflect"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -240,4 +242,96 @@ type countingReader struct {
 func (r *countingReader) ReadAt(p []byte, off int64) (int, error) {
 	r.reads++
 	return bytes.NewReader(r.data).ReadAt(p, off)
+}
+
+// TestParallelScanMatchesMapped: a reader-based open of a file large
+// enough for several goroutines to scan it (2000 traces, 33 run reads)
+// finds exactly the Info of the mapped open, which reads every header in
+// order, with traces declaring other sample counts in both halves (the
+// warning names the first of them); and a file cut short in the second
+// half fails at the first missing trace, as a single pass does.
+func TestParallelScanMatchesMapped(t *testing.T) {
+	if runtime.GOMAXPROCS(0) < 2 {
+		defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(2))
+	}
+	s := segytest.Grid(40, 50, 1000)
+	data := s.Bytes()
+	const ts = 240 + 1000*4
+	for _, tr := range []int{1500, 700, 1999} {
+		binary.BigEndian.PutUint16(data[3600+tr*ts+114:], uint16(900+tr)) // trace bytes 115-116
+	}
+	m, err := openBytes(data, "big.sgy", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if parts := min(runtime.GOMAXPROCS(0), m.ntraces/(scanPartRuns*m.runTraces())); parts < 2 {
+		t.Fatalf("the file is scanned by %d goroutines, the test needs 2", parts)
+	}
+	r, err := OpenReaderAt(bytes.NewReader(data), int64(len(data)), "big.sgy", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(r.Info(), m.Info()) {
+		t.Errorf("Info through a reader differs from the mapped one:\n%+v\n%+v", r.Info(), m.Info())
+	}
+	if !hasWarning(r.Info(), fmt.Sprintf("3 traces declare a sample count other than the file's 1000 (first: trace 700, byte %d: 1600)", 3600+700*ts+115)) {
+		t.Errorf("warnings %q", r.Info().Warnings)
+	}
+	if !reflect.DeepEqual(r.geo, m.geo) {
+		t.Error("the geometry index through a reader differs from the mapped one")
+	}
+	claimed := int64(len(data))
+	short := data[:3600+1234*ts+17]
+	_, err = OpenReaderAt(bytes.NewReader(short), claimed, "cut.sgy", Options{})
+	want := fmt.Sprintf("cut.sgy: trace 1234: byte %d: reading trace header: unexpected EOF", 3600+1234*ts+1)
+	if err == nil || err.Error() != want {
+		t.Errorf("cut in the second half: error %v, want %q", err, want)
+	}
+	short = data[:3600+300*ts+17]
+	_, err = OpenReaderAt(bytes.NewReader(short), claimed, "cut.sgy", Options{})
+	want = fmt.Sprintf("cut.sgy: trace 300: byte %d: reading trace header: unexpected EOF", 3600+300*ts+1)
+	if err == nil || err.Error() != want {
+		t.Errorf("cut in the first half: error %v, want %q", err, want)
+	}
+}
+
+// TestAmplitudeStatsMatchesMath: the amplitude summary's comparisons give
+// bit for bit what math.Min, math.Max, math.IsNaN and math.IsInf give
+// (the definitions: IEEE 754 with -0 below +0 for Min and Max, Go's math
+// package), on traces of NaNs, infinities, signed zeros, subnormals and
+// random values in every order.
+func TestAmplitudeStatsMatchesMath(t *testing.T) {
+	special := []float32{float32(math.NaN()), float32(math.Inf(1)), float32(math.Inf(-1)), 0, float32(math.Copysign(0, -1)),
+		math.SmallestNonzeroFloat32, -math.SmallestNonzeroFloat32, math.MaxFloat32, -math.MaxFloat32, 1, -1}
+	rng := rand.New(rand.NewPCG(5, 13))
+	for round := 0; round < 2000; round++ {
+		tr := make([]float32, rng.IntN(12))
+		for k := range tr {
+			if rng.IntN(2) == 0 {
+				tr[k] = special[rng.IntN(len(special))]
+			} else {
+				tr[k] = float32(rng.NormFloat64() * 1000)
+			}
+		}
+		got := amplitudeStats{lo: math.Inf(1), hi: math.Inf(-1)}
+		got.add(tr)
+		got.add(tr[:len(tr)/2])
+		want := amplitudeStats{lo: math.Inf(1), hi: math.Inf(-1)}
+		for _, part := range [][]float32{tr, tr[:len(tr)/2]} {
+			for _, v := range part {
+				x := float64(v)
+				if math.IsNaN(x) || math.IsInf(x, 0) {
+					want.bad++
+					continue
+				}
+				want.lo, want.hi = math.Min(want.lo, x), math.Max(want.hi, x)
+				want.sum2 += x * x
+				want.count++
+			}
+		}
+		if math.Float64bits(got.lo) != math.Float64bits(want.lo) || math.Float64bits(got.hi) != math.Float64bits(want.hi) ||
+			math.Float64bits(got.sum2) != math.Float64bits(want.sum2) || got.count != want.count || got.bad != want.bad {
+			t.Fatalf("trace %v: got %+v, math gives %+v", tr, got, want)
+		}
+	}
 }
