@@ -254,12 +254,16 @@ func (f *File) readRun(first, n int, headers []TraceHeader, dst [][]float32) err
 	defer f.mu.RUnlock()
 	if f.data != nil || (dst == nil && f.traceSize > wholeTraceHeaderLimit) {
 		// Mapped: nothing to gain from batching. Large traces: read the
-		// headers alone.
+		// headers alone, into one buffer.
+		var hbuf []byte
+		if f.data == nil {
+			hbuf = make([]byte, f.hdrSize)
+		}
 		for k := 0; k < n; k++ {
 			i := first + k
 			if headers != nil {
 				err := f.guardFault(i, f.dataStart+int64(i)*f.traceSize, func() error {
-					raw, err := f.traceHeaderBytes(i, nil)
+					raw, err := f.traceHeaderBytes(i, hbuf)
 					if err == nil {
 						f.decodeHeaderInto(&headers[k], raw)
 					}
