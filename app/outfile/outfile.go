@@ -86,7 +86,21 @@ type File struct {
 	dst  string   // destination (symlink resolved when followed)
 	fh   *os.File // the temporary file
 	name string   // its name when named ("" for an unnamed O_TMPFILE)
+
+	// Write's early writeback (see Write): written is the end of the
+	// bytes Write has written, sent the end of those handed to writeback
+	// (an earlier WriteAt may have written anywhere: it is left to
+	// Commit's fsync).
+	written, sent int64
+	writeback     func(fh *os.File, off, n int64) error // startWriteback; tests record
 }
+
+// WritebackChunk is how many bytes Write lets accumulate before it asks
+// the system to start writing them to the device (startWriteback): without
+// it a long output stays in memory until Commit's fsync, which then waits
+// for all of it (a quarter of a second for 240 MB on the development
+// machine, a third of an export's time).
+const WritebackChunk = 8 << 20
 
 // Create checks dst under the rules of the package and opens the temporary
 // file that will become it. A single output can be committed with
@@ -246,9 +260,21 @@ func (s *Set) makeDirs(dir string) error {
 
 // Write writes to the temporary file. Errors are the system's (e.g.
 // syscall.ENOSPC) without the temporary file's name, which means nothing
-// to the user: the caller names the destination.
+// to the user: the caller names the destination. Every WritebackChunk
+// bytes it asks the system to start writing them to the device (Linux),
+// so the device works while the job computes instead of all at Commit.
 func (f *File) Write(p []byte) (int, error) {
 	n, err := f.fh.Write(p)
+	f.written += int64(n)
+	if f.written-f.sent >= WritebackChunk {
+		wb := f.writeback
+		if wb == nil {
+			wb = startWriteback
+		}
+		// Advice only: a failure here shows again in Commit's fsync.
+		_ = wb(f.fh, f.sent, f.written-f.sent)
+		f.sent = f.written
+	}
 	return n, bare(err)
 }
 

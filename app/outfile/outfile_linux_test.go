@@ -97,3 +97,28 @@ func TestFullFilesystem(t *testing.T) {
 		t.Errorf("%d bytes still used after abort", used)
 	}
 }
+
+// startWriteback makes the system call: on a regular file it succeeds, on
+// a pipe the system refuses it (ESPIPE), so the call is really made.
+func TestStartWritebackSystemCall(t *testing.T) {
+	fh, err := os.Create(filepath.Join(t.TempDir(), "f"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer fh.Close()
+	if _, err := fh.Write(make([]byte, 1<<20)); err != nil {
+		t.Fatal(err)
+	}
+	if err := startWriteback(fh, 0, 1<<20); err != nil {
+		t.Errorf("regular file: %v", err)
+	}
+	r, w, err := os.Pipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer r.Close()
+	defer w.Close()
+	if err := startWriteback(w, 0, 1); !errors.Is(err, unix.ESPIPE) {
+		t.Errorf("pipe: error %v, want ESPIPE", err)
+	}
+}

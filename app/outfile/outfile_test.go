@@ -6,6 +6,8 @@
 package outfile
 
 import (
+	"bytes"
+	"errors"
 	"math/rand/v2"
 	"os"
 	"os/exec"
@@ -310,5 +312,57 @@ func killChild(dir string) {
 		if err := s.Commit(); err != nil {
 			os.Exit(4)
 		}
+	}
+}
+
+// Write hands the system every WritebackChunk bytes to start writing
+// (recorded here instead of the system call): the ranges follow each other
+// from byte 0 without gap or overlap, each at least a chunk, the unsent
+// rest is less than a chunk, WriteAt is left out of the count, and the
+// committed file holds exactly what was written.
+func TestWriteStartsWritebackInChunks(t *testing.T) {
+	dst := filepath.Join(t.TempDir(), "out.sgy")
+	f, err := Create(dst, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ranges [][2]int64
+	f.writeback = func(fh *os.File, off, n int64) error {
+		if fh != f.fh {
+			t.Errorf("writeback of another file")
+		}
+		ranges = append(ranges, [2]int64{off, n})
+		return errors.New("refused") // advice: a failure must not stop the writes
+	}
+	var want []byte
+	piece := make([]byte, 1<<20+3)
+	for i := range 21 {
+		for j := range piece {
+			piece[j] = byte(i*7 + j)
+		}
+		if _, err := f.Write(piece); err != nil {
+			t.Fatal(err)
+		}
+		want = append(want, piece...)
+	}
+	if _, err := f.WriteAt([]byte("HEAD"), 0); err != nil {
+		t.Fatal(err)
+	}
+	copy(want, "HEAD")
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	var end int64
+	for _, r := range ranges {
+		if r[0] != end || r[1] < WritebackChunk {
+			t.Fatalf("writeback ranges %v: range at %d of %d bytes, want at %d and at least %d", ranges, r[0], r[1], end, WritebackChunk)
+		}
+		end += r[1]
+	}
+	if total := int64(len(want)); len(ranges) == 0 || total-end >= WritebackChunk || end > total {
+		t.Errorf("writeback ranges %v end at %d of %d bytes written", ranges, end, total)
+	}
+	if got, err := os.ReadFile(dst); err != nil || !bytes.Equal(got, want) {
+		t.Errorf("committed file differs from what was written (%d bytes, %v)", len(got), err)
 	}
 }
