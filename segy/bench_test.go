@@ -1,6 +1,8 @@
 package segy
 
 import (
+	"encoding/binary"
+	"fmt"
 	"io"
 	"math"
 	"os"
@@ -210,6 +212,37 @@ func BenchmarkDecodeSavedIndex(b *testing.B) {
 		got, ok := decodeSaved(data)
 		if !ok || len(got.Grid) != n || got.Grid[n-1] != int32(n-1) {
 			b.Fatal("saved index did not decode")
+		}
+	}
+}
+
+// BenchmarkDecodeIEEE32 decodes big-endian 4-byte IEEE samples (format 5)
+// with decodeIEEE32 and, in the same run, with the one-sample loop it
+// replaced (decodeIEEE32Loop): one trace of 1501 samples decoded again and
+// again (in cache: the cost of the loop) and 2500 such traces, 15 MB, one
+// after the other (through memory: an export block).
+//
+//	go test -run '^$' -bench DecodeIEEE32 ./segy/
+func BenchmarkDecodeIEEE32(b *testing.B) {
+	const samples = 1501
+	for _, traces := range []int{1, 2500} {
+		src := make([]byte, traces*samples*4)
+		for i := range src {
+			src[i] = byte(i * 7)
+		}
+		dst := make([]float32, traces*samples)
+		for _, c := range []struct {
+			name   string
+			decode func([]float32, []byte, binary.ByteOrder)
+		}{{"words", decodeIEEE32}, {"loop", decodeIEEE32Loop}} {
+			b.Run(fmt.Sprintf("%s/traces=%d", c.name, traces), func(b *testing.B) {
+				b.SetBytes(int64(len(src)))
+				for n := 0; n < b.N; n++ {
+					for t := 0; t < traces; t++ {
+						c.decode(dst[t*samples:(t+1)*samples], src[t*samples*4:(t+1)*samples*4], binary.BigEndian)
+					}
+				}
+			})
 		}
 	}
 }

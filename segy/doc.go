@@ -13,7 +13,10 @@
 // builds a geometry index. OpenFast reads a sample of trace headers instead
 // when they support a regular grid (a hypothesis through the same geometry
 // decision), or uses a saved index that matches the file; File.Check reads
-// every header and returns the exact index, the Info Open gives. Sample formats 1, 2, 3, 5, 6, 7, 8, 9, 10, 11,
+// every header and returns the exact index, the Info Open gives.
+// ReadTrace and TraceHeader read one trace; ReadTraces and TraceHeaders a
+// run of consecutive ones, with a few large reads when the file is read
+// through a ReaderAt. Sample formats 1, 2, 3, 5, 6, 7, 8, 9, 10, 11,
 // 12, 15 and 16 decode to float32; format 4 (obsolete) is refused.
 //
 // Decisions where the standard leaves a choice (each also noted where it

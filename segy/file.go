@@ -166,7 +166,8 @@ type File struct {
 
 	optIgnoreTail bool
 	geo           geometry
-	bufPool       sync.Pool
+	bufPool       sync.Pool // one trace's bytes (ReadTrace without a mapping)
+	runPool       sync.Pool // runTraces traces' bytes (ReadTraces, TraceHeaders)
 	// mu guards the mapping's lifetime: every public read holds it for
 	// reading (see hold), Close takes it for writing, so Close waits for
 	// reads in progress and later reads fail with ErrClosed.

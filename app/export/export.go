@@ -92,7 +92,6 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	var (
 		src       Source
 		newWriter func(w io.Writer, dst string, opt segy.WriteOptions) (*segy.Writer, error)
-		win       *windowReader
 		inputs    []string
 	)
 	if p.source != nil {
@@ -115,8 +114,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		if err != nil {
 			return nil, err
 		}
-		win = &windowReader{r: fh}
-		f, err := openExact(ctx, win, st.Size(), p.input, p.options, p.indices)
+		f, err := openExact(ctx, fh, st.Size(), p.input, p.options, p.indices)
 		if err != nil {
 			return nil, err
 		}
@@ -143,26 +141,12 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, err
 	}
 
-	runs, err := selectRuns(info.Traces, p.inlines, p.crosslines, func(i int) (int, int, error) {
-		h, err := src.TraceHeader(i)
-		return h.Inline, h.Crossline, err
-	})
+	runs, err := selectRuns(info.Traces, p.inlines, p.crosslines, headerKeys(src, info.Traces))
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", p.input, err)
 	}
 	total := selectionSize(runs)
-	// The geometry scan at open and the range selection read only trace
-	// headers, for which a window would read whole traces; the pipeline
-	// reads runs of consecutive traces, for which a window up to the
-	// longest run saves two system calls per trace.
-	longest := 0
-	for _, r := range runs {
-		longest = max(longest, r.Count)
-	}
 	traceBytes := segy.TraceHeaderSize*(1+info.ExtraTraceHeaders) + info.Samples*segy.FormatSize(info.Format)
-	if window := min(readWindow, longest*traceBytes); win != nil && window >= 2*traceBytes {
-		win.enable(window)
-	}
 	perBlock, err := blockSize(p.budget, info.Samples, len(p.stages), p.cond.apply != nil, total)
 	if err != nil {
 		return nil, err
@@ -195,13 +179,7 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 	inBytes := int64(traceBytes)
 	pl := &pipeline[segy.TraceHeader]{
 		runs: runs, samples: info.Samples, blockTraces: perBlock, inFlight: blocksInFlight,
-		read: func(i int, h *segy.TraceHeader, dst []float32) ([]float32, error) {
-			var err error
-			if *h, err = src.TraceHeader(i); err != nil {
-				return nil, err
-			}
-			return src.ReadTrace(i, dst)
-		},
+		readRun: readRunOf(src),
 		compute: func(ctx context.Context, in [][]float32, reuse [][][]float32) ([][][]float32, error) {
 			sec := compute.Section{Traces: in, DT: dt, T0: t0}
 			if p.cond.apply != nil {
@@ -252,6 +230,73 @@ func runPlan(ctx context.Context, p plan, progress func(Progress)) (paths []stri
 		return nil, err
 	}
 	return dsts, nil
+}
+
+// headerRunReader is a Source that reads the headers of runs of
+// consecutive traces at once (segy.File.TraceHeaders).
+type headerRunReader interface {
+	TraceHeaders(first int, headers []segy.TraceHeader) error
+}
+
+// headerKeys returns the inline and crossline of trace i of src (0 to
+// n-1) for selectRuns, which asks for them in file order: from headers
+// read selectAhead at a time when src reads runs of headers, else from
+// TraceHeader one by one.
+func headerKeys(src Source, n int) func(i int) (inline, crossline int, err error) {
+	hr, ok := src.(headerRunReader)
+	if !ok {
+		return func(i int) (int, int, error) {
+			h, err := src.TraceHeader(i)
+			return h.Inline, h.Crossline, err
+		}
+	}
+	var buf []segy.TraceHeader
+	lo := 0 // trace of buf[0]
+	return func(i int) (int, int, error) {
+		if i < lo || i >= lo+len(buf) {
+			lo, buf = i, buf[:0]
+			want := min(selectAhead, n-i)
+			if cap(buf) < want {
+				buf = make([]segy.TraceHeader, want)
+			}
+			buf = buf[:want]
+			if err := hr.TraceHeaders(i, buf); err != nil {
+				buf = buf[:0]
+				return 0, 0, err
+			}
+		}
+		h := &buf[i-lo]
+		return h.Inline, h.Crossline, nil
+	}
+}
+
+// selectAhead is how many trace headers headerKeys reads at once.
+const selectAhead = 1024
+
+// runReader is a Source that reads runs of consecutive traces at once
+// (a SEG-Y file: segy.File.ReadTraces, a few reads a run).
+type runReader interface {
+	ReadTraces(first int, headers []segy.TraceHeader, dst [][]float32) error
+}
+
+// readRunOf returns the pipeline's reader of runs of traces from src: its
+// ReadTraces when it has one, else TraceHeader and ReadTrace per trace.
+func readRunOf(src Source) func(first int, h []segy.TraceHeader, dst [][]float32) error {
+	if rr, ok := src.(runReader); ok {
+		return rr.ReadTraces
+	}
+	return func(first int, h []segy.TraceHeader, dst [][]float32) error {
+		for k := range dst {
+			var err error
+			if h[k], err = src.TraceHeader(first + k); err != nil {
+				return err
+			}
+			if dst[k], err = src.ReadTrace(first+k, dst[k]); err != nil {
+				return err
+			}
+		}
+		return nil
+	}
 }
 
 // blockOutput returns n output traces of samples each: prev's first n when

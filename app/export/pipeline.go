@@ -50,9 +50,11 @@ type pipeline[H any] struct {
 	blockTraces int // traces per block, >= 1
 	inFlight    int // blocks alive at once, >= 1
 
-	// read reads trace i: its header into *h and its samples into dst
-	// (len(dst) == samples), returning the samples.
-	read func(i int, h *H, dst []float32) ([]float32, error)
+	// readRun reads the consecutive traces first, first+1, ... (len(dst)
+	// of them, at most readPiece): the header of trace first+k into h[k]
+	// and its samples into dst[k], a buffer of samples floats owned by the
+	// block, which it may replace by a slice of its own.
+	readRun func(first int, h []H, dst [][]float32) error
 	// compute turns a block of input traces into one block of traces per
 	// output, each with len(in) traces. reuse is what compute returned for
 	// the same block buffer last time (nil the first time): outputs the
@@ -107,7 +109,7 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 			}
 		}
 		for _, r := range p.runs {
-			for i := r.First; i < r.First+r.Count; i++ {
+			for i := r.First; i < r.First+r.Count; {
 				if b == nil {
 					select {
 					case b = <-free:
@@ -116,16 +118,25 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 					}
 					b.first, b.n = pos, 0
 				}
-				k := b.n
-				var zero H
-				b.headers[k] = zero
-				tr, err := p.read(i, &b.headers[k], b.buffers[k])
-				if err != nil {
+				if err := ctx.Err(); err != nil {
 					return err
 				}
-				b.index[k], b.traces[k] = i, tr
-				b.n++
-				pos++
+				// A piece of the run: what the block has room for, at
+				// most readPiece traces, so a cancel is seen between
+				// pieces.
+				k := b.n
+				c := min(r.First+r.Count-i, p.blockTraces-k, readPiece)
+				clear(b.headers[k : k+c])
+				copy(b.traces[k:k+c], b.buffers[k:k+c])
+				if err := p.readRun(i, b.headers[k:k+c], b.traces[k:k+c]); err != nil {
+					return err
+				}
+				for j := range c {
+					b.index[k+j] = i + j
+				}
+				b.n += c
+				pos += c
+				i += c
 				if b.n == p.blockTraces {
 					if err := send(); err != nil {
 						return err
@@ -194,6 +205,11 @@ func (p *pipeline[H]) run(ctx context.Context) error {
 	}
 	return nil
 }
+
+// readPiece is the most traces the reader asks readRun for at once: a
+// few hundred KiB to a few MiB of a file (segy reads them in runs of
+// 256 KiB), little enough that a cancel is seen within a millisecond or so.
+const readPiece = 256
 
 // errNoTraces reports an empty selection.
 var errNoTraces = errors.New("no traces selected")

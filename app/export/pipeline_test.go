@@ -16,6 +16,7 @@ type fakeHeader struct{ index int }
 type fakeVolume struct {
 	samples   int
 	read      atomic.Int64 // traces read
+	runs      atomic.Int64 // calls of readRun
 	written   atomic.Int64 // traces written to output 0
 	maxAhead  atomic.Int64 // largest read - written seen by the reader
 	reused    atomic.Int64 // output traces computed into a reused buffer
@@ -34,25 +35,35 @@ type fakeTrace struct {
 func (v *fakeVolume) pipeline(runs []traceRun, blockTraces int) *pipeline[fakeHeader] {
 	return &pipeline[fakeHeader]{
 		runs: runs, samples: v.samples, blockTraces: blockTraces, inFlight: blocksInFlight,
-		read: func(i int, h *fakeHeader, dst []float32) ([]float32, error) {
-			if i == v.failRead {
-				return nil, fmt.Errorf("trace %d: invented read failure", i)
+		readRun: func(first int, hs []fakeHeader, dst [][]float32) error {
+			if len(dst) > readPiece || len(hs) != len(dst) {
+				return fmt.Errorf("readRun asked for %d traces with %d headers (at most %d)", len(dst), len(hs), readPiece)
 			}
-			if i == v.cancelAt {
-				v.cancel()
-			}
-			ahead := v.read.Add(1) - v.written.Load()
-			for {
-				m := v.maxAhead.Load()
-				if ahead <= m || v.maxAhead.CompareAndSwap(m, ahead) {
-					break
+			v.runs.Add(1)
+			for t := range dst {
+				i := first + t
+				if i == v.failRead {
+					return fmt.Errorf("trace %d: invented read failure", i)
+				}
+				if i == v.cancelAt {
+					v.cancel()
+				}
+				if len(dst[t]) != v.samples || hs[t] != (fakeHeader{}) {
+					return fmt.Errorf("trace %d: handed a buffer of %d samples and a used header", i, len(dst[t]))
+				}
+				ahead := v.read.Add(1) - v.written.Load()
+				for {
+					m := v.maxAhead.Load()
+					if ahead <= m || v.maxAhead.CompareAndSwap(m, ahead) {
+						break
+					}
+				}
+				hs[t].index = i
+				for k := range dst[t] {
+					dst[t][k] = float32(i*1000 + k)
 				}
 			}
-			h.index = i
-			for k := range dst {
-				dst[k] = float32(i*1000 + k)
-			}
-			return dst, nil
+			return nil
 		},
 		// Outputs handed back for reuse are overwritten in place, so a
 		// block recycled before the writer is done with it shows as
@@ -105,6 +116,10 @@ func TestPipelineWritesEverySelectedTraceInOrder(t *testing.T) {
 		{"block larger than the volume", []traceRun{{0, 5}}, 64},
 		{"one trace per block", []traceRun{{3, 9}}, 1},
 		{"several runs, blocks straddle them", []traceRun{{2, 5}, {20, 3}, {40, 11}}, 4},
+		// readRun gets pieces of at most readPiece traces, never across
+		// a gap of the selection or a block's end
+		{"long run read in pieces", []traceRun{{0, 3*readPiece + 17}}, 2*readPiece + 5},
+		{"runs with gaps inside large blocks", []traceRun{{1, readPiece + 3}, {readPiece + 10, 1}, {readPiece + 12, 2 * readPiece}}, 3 * readPiece},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -149,6 +164,12 @@ func TestPipelineWritesEverySelectedTraceInOrder(t *testing.T) {
 			if blocks > blocksInFlight && v.reused.Load() == 0 {
 				t.Errorf("%d blocks through %d block buffers, and no output buffer was reused", blocks, blocksInFlight)
 			}
+			// one call per piece: a piece ends at a run's end, a block's
+			// end or after readPiece traces
+			pieces := int64(blocks + len(c.runs) + len(want)/readPiece)
+			if n := v.runs.Load(); n > pieces {
+				t.Errorf("%d readRun calls for %d traces in %d runs and %d blocks, at most %d expected", n, len(want), len(c.runs), blocks, pieces)
+			}
 			if limit := int64(blocksInFlight * c.blockTraces); v.maxAhead.Load() > limit {
 				t.Errorf("reader ran %d traces ahead of the writer, more than %d blocks of %d", v.maxAhead.Load(), blocksInFlight, c.blockTraces)
 			}
@@ -165,6 +186,7 @@ func TestPipelineStopsOnFailureAndCancellation(t *testing.T) {
 		{"read fails", 57, -1, -1, "trace 57: invented read failure"},
 		{"write fails", -1, 33, -1, "trace 33: invented write failure"},
 		{"cancelled", -1, -1, 64, context.Canceled.Error()},
+		{"cancelled in the middle of a large block", -1, -1, 300, context.Canceled.Error()},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -172,12 +194,20 @@ func TestPipelineStopsOnFailureAndCancellation(t *testing.T) {
 			ctx, cancel := context.WithCancel(context.Background())
 			defer cancel()
 			v.cancel = cancel
-			err := v.pipeline([]traceRun{{0, 1000}}, 8).run(ctx)
+			block := 8
+			if c.cancelAt == 300 {
+				block = 900
+			}
+			err := v.pipeline([]traceRun{{0, 2000}}, block).run(ctx)
 			if err == nil || err.Error() != c.want {
 				t.Fatalf("error %v, want %q", err, c.want)
 			}
-			if n := v.read.Load(); n >= 1000 {
+			if n := v.read.Load(); n >= 2000 {
 				t.Errorf("%d traces read after the pipeline stopped: it kept going", n)
+			}
+			// the reader stops at the end of the piece it was reading
+			if n := v.read.Load(); c.cancelAt >= 0 && n > int64(c.cancelAt+readPiece) {
+				t.Errorf("cancelled at trace %d, and the reader went on to read %d traces", c.cancelAt, n)
 			}
 		})
 	}

@@ -16,10 +16,13 @@ func TestBlockSize(t *testing.T) {
 		want     int
 		wantFail bool
 	}{
-		// 256 MiB / ((1501*4*2 + 320) * 3 * 1.25) = 5806 traces.
-		{"envelope, big volume", 256 << 20, 1501, 1, false, 1_000_000, 5806, false},
-		{"three attributes and conditioning", 256 << 20, 1501, 3, true, 1_000_000, 256 << 20 * 4 / ((1501*4*5 + 320) * 3 * 5), false},
-		{"small volume cut in 16 blocks", 256 << 20, 1501, 1, false, 16000, 1000, false},
+		// 256 MiB / ((1501*4*2 + 320) * 3 * 1.25) = 5806 traces, capped
+		// at 4 MiB of input samples: 4 MiB / (1501*4) = 698.
+		{"envelope, big volume", 256 << 20, 1501, 1, false, 1_000_000, 698, false},
+		{"envelope, budget below the cache cap", 16 << 20, 1501, 1, false, 1_000_000, 16 << 20 * 4 / ((1501*4*2 + 320) * 3 * 5), false},
+		{"three attributes and conditioning", 64 << 20, 1501, 3, true, 1_000_000, 64 << 20 * 4 / ((1501*4*5 + 320) * 3 * 5), false},
+		{"small volume cut in 16 blocks", 256 << 20, 1501, 1, false, 8000, 500, false},
+		{"long traces keep 64 traces a block", 256 << 20, 60000, 1, false, 1_000_000, 64, false},
 		{"tiny volume keeps 64 traces a block", 256 << 20, 100, 1, false, 10, 64, false},
 		{"budget for one trace", (1000*4*2 + 320) * 3 * 5 / 4, 1000, 1, false, 1000, 1, false},
 		{"budget below one trace", (1000*4*2+320)*3*5/4 - 1, 1000, 1, false, 1000, 0, true},
