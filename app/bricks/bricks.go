@@ -199,7 +199,7 @@ func (s *Store) SetFocus(inline, crossline float64) {
 }
 
 // Wait fills the store until every column is filled (nil), the fill fails
-// (its error) or ctx ends (ctx.Err()). progress, when not nil, gets the
+// (its error) or ctx ends (ctx.Err(), even when the store is full by then). progress, when not nil, gets the
 // columns filled so far after each one, from the caller's goroutine.
 // Concurrent waiters share one filling; when the last one leaves, the
 // columns in progress are finished and no new ones are started, so a later
@@ -226,6 +226,12 @@ func (s *Store) Wait(ctx context.Context, progress func(done, total int)) error 
 			last = done
 		}
 		if err != nil {
+			return err
+		}
+		// A cancel wins over a fill that finished meanwhile: the filler
+		// goes on between the caller's cancel (from progress, say) and
+		// this check, and a caller that gave up must not get a result.
+		if err := ctx.Err(); err != nil {
 			return err
 		}
 		if done == total {

@@ -598,3 +598,27 @@ func TestReadersWhileBricksRecycle(t *testing.T) {
 	}
 	checkAll(t, s, false)
 }
+
+// TestCancelWinsOverFinishedFill: a caller that cancels (here from its
+// progress callback) gets ctx's error even when the filling goes on and
+// finishes before Wait looks again; this fill finishes every column while
+// the callback still runs, the worst case of a loaded machine.
+func TestCancelWinsOverFinishedFill(t *testing.T) {
+	f := &valueFill{}
+	s := newTestStore(t, Shape{12, 12, 10}, f, nil, Options{Edge: 4, Workers: 1})
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	err := s.Wait(ctx, func(done, total int) {
+		if done >= 1 && done < total {
+			cancel()
+			// Let the filler finish every column before Wait goes on.
+			if err := s.Wait(context.Background(), nil); err != nil {
+				t.Error(err)
+			}
+		}
+	})
+	if !errors.Is(err, context.Canceled) {
+		t.Fatalf("Wait after a cancel and a finished fill: %v, want context.Canceled", err)
+	}
+	checkAll(t, s, false)
+}
