@@ -604,14 +604,20 @@ func TestReadersWhileBricksRecycle(t *testing.T) {
 // finishes before Wait looks again; this fill finishes every column while
 // the callback still runs, the worst case of a loaded machine.
 func TestCancelWinsOverFinishedFill(t *testing.T) {
-	f := &valueFill{}
+	gate := make(chan struct{})
+	f := &valueFill{gate: gate}
 	s := newTestStore(t, Shape{12, 12, 10}, f, nil, Options{Edge: 4, Workers: 1})
 	ctx, cancel := context.WithCancel(context.Background())
 	defer cancel()
+	go func() { gate <- struct{}{} }() // one column through the gate
+	opened := false
 	err := s.Wait(ctx, func(done, total int) {
-		if done >= 1 && done < total {
+		if done >= 1 && done < total && !opened {
 			cancel()
-			// Let the filler finish every column before Wait goes on.
+			// Open the gate and let the filler finish every column
+			// before Wait goes on.
+			opened = true
+			close(gate)
 			if err := s.Wait(context.Background(), nil); err != nil {
 				t.Error(err)
 			}
