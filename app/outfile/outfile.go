@@ -87,20 +87,72 @@ type File struct {
 	fh   *os.File // the temporary file
 	name string   // its name when named ("" for an unnamed O_TMPFILE)
 
-	// Write's early writeback (see Write): written is the end of the
-	// bytes Write has written, sent the end of those handed to writeback
-	// (an earlier WriteAt may have written anywhere: it is left to
-	// Commit's fsync).
+	// Write's background syncs (see Write): written is the end of the
+	// bytes Write has written, sent where it stood at the last request to
+	// the flusher (WriteAt is left to Commit's fsync).
 	written, sent int64
-	writeback     func(fh *os.File, off, n int64) error // startWriteback; tests record
+	flusher       *flusher
+	syncData      func(fh *os.File) error // dataSync; tests replace it
 }
 
 // WritebackChunk is how many bytes Write lets accumulate before it asks
-// the system to start writing them to the device (startWriteback): without
-// it a long output stays in memory until Commit's fsync, which then waits
-// for all of it (a quarter of a second for 240 MB on the development
-// machine, a third of an export's time).
+// for a background sync of the file (Linux, see flusher): without it a
+// long output waits in memory until Commit's fsync, which then waits for
+// all of it (0.15 s for 240 MB on the development machine, a quarter of
+// an export's time, whatever was done to start the writing earlier).
 const WritebackChunk = 8 << 20
+
+// flusher syncs a file's data in the background while its writer goes on
+// (fdatasync(2) on Linux), so that Commit's fsync finds little left to do.
+// On the development machine (a virtual disk) the time of an fsync grew
+// with the data written since the last one, about 0.6 ms per MiB, even
+// when the data were already on their way to the device (sync_file_range
+// did not shorten it); syncing every WritebackChunk bytes behind the
+// writer brought the final fsync of 240 MB from 0.15 s to under 0.01 s.
+type flusher struct {
+	req  chan struct{} // a sync is wanted (capacity 1: requests merge)
+	done chan struct{} // closed when the goroutine has ended
+	err  error         // first error of a background sync; read after done
+}
+
+// requestSync asks the flusher (started on first use) for a sync; a sync
+// already waiting absorbs the request.
+func (f *File) requestSync() {
+	if f.flusher == nil {
+		sync := f.syncData
+		if sync == nil {
+			sync = dataSync
+		}
+		fl := &flusher{req: make(chan struct{}, 1), done: make(chan struct{})}
+		go func() {
+			defer close(fl.done)
+			for range fl.req {
+				if err := sync(f.fh); err != nil && fl.err == nil {
+					fl.err = err
+				}
+			}
+		}()
+		f.flusher = fl
+	}
+	select {
+	case f.flusher.req <- struct{}{}:
+	default:
+	}
+}
+
+// stopFlusher ends the flusher, waiting for a sync in progress, and
+// returns the first error a background sync met: the system reports a
+// write error to one sync only, so Commit must hear of it from here.
+func (f *File) stopFlusher() error {
+	fl := f.flusher
+	if fl == nil {
+		return nil
+	}
+	f.flusher = nil
+	close(fl.req)
+	<-fl.done
+	return fl.err
+}
 
 // Create checks dst under the rules of the package and opens the temporary
 // file that will become it. A single output can be committed with
@@ -261,18 +313,14 @@ func (s *Set) makeDirs(dir string) error {
 // Write writes to the temporary file. Errors are the system's (e.g.
 // syscall.ENOSPC) without the temporary file's name, which means nothing
 // to the user: the caller names the destination. Every WritebackChunk
-// bytes it asks the system to start writing them to the device (Linux),
-// so the device works while the job computes instead of all at Commit.
+// bytes it asks for a sync of the data in the background (Linux, see
+// flusher), so the device works while the job computes instead of all at
+// Commit; an error of such a sync is Commit's error.
 func (f *File) Write(p []byte) (int, error) {
 	n, err := f.fh.Write(p)
 	f.written += int64(n)
-	if f.written-f.sent >= WritebackChunk {
-		wb := f.writeback
-		if wb == nil {
-			wb = startWriteback
-		}
-		// Advice only: a failure here shows again in Commit's fsync.
-		_ = wb(f.fh, f.sent, f.written-f.sent)
+	if backgroundSync && f.written-f.sent >= WritebackChunk {
+		f.requestSync()
 		f.sent = f.written
 	}
 	return n, bare(err)
@@ -329,6 +377,9 @@ func (s *Set) Commit() error {
 		return err
 	}
 	for _, f := range s.files {
+		if err := f.stopFlusher(); err != nil {
+			return fail(fmt.Errorf("%s: writing: %w", f.dst, err))
+		}
 		if err := f.fh.Chmod(Mode); err != nil {
 			return fail(fmt.Errorf("%s: %w", f.dst, err))
 		}
@@ -408,6 +459,9 @@ func (s *Set) discard() {
 
 // discardFrom closes files i.. and removes their temporary names.
 func (s *Set) discardFrom(i int) {
+	for _, f := range s.files {
+		f.stopFlusher() // before any Close; its error no longer matters
+	}
 	for _, f := range s.files[i:] {
 		f.fh.Close()
 		if f.name != "" {
