@@ -320,9 +320,15 @@ func (p *analyticPair) apply(op *spectralOp, ra, rb []float64) {
 	// g (imag v + i real v).
 	pos := (m - 1) / 2
 	g := op.g[:pos+1]
+	// Bins 1..done two at a time in fill_amd64.s where the processor
+	// allows (and the plan uses the vector passes), the rest here.
+	done := 0
+	if p.plan.simd {
+		done = specOpVector(z, s, g, m, pos, op.imaginary)
+	}
 	if op.imaginary {
 		z[0] = 0
-		for k := 1; k <= pos; k++ {
+		for k := 1 + done; k <= pos; k++ {
 			c, u, v := g[k], s[k], s[m-k]
 			z[k] = complex(-c*imag(u), -c*real(u))
 			z[m-k] = complex(c*imag(v), c*real(v))
@@ -332,7 +338,7 @@ func (p *analyticPair) apply(op *spectralOp, ra, rb []float64) {
 		}
 	} else {
 		z[0] = complex(g[0]*real(s[0]), -g[0]*imag(s[0]))
-		for k := 1; k <= pos; k++ {
+		for k := 1 + done; k <= pos; k++ {
 			c, u, v := g[k], s[k], s[m-k]
 			z[k] = complex(c*real(u), -c*imag(u))
 			z[m-k] = complex(c*real(v), -c*imag(v))

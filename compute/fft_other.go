@@ -24,3 +24,7 @@ func saturateVector(tr []float32) int { return 0 }
 // loadVector converts nothing here: analyticTrace.load does every sample
 // in Go.
 func loadVector(x []float64, tr []float32) (done, gaps int) { return 0, 0 }
+
+// specOpVector writes nothing here: analyticPair.apply does every bin in
+// Go.
+func specOpVector(z, s []complex128, g []float64, m, pos int, imaginary bool) int { return 0 }

@@ -79,3 +79,29 @@ func loadVector(x []float64, tr []float32) (done, gaps int) {
 	}
 	return n, loadSIMD(&x[0], &tr[0], n)
 }
+
+// specOpSIMD writes, for bins k = 1 .. 2*pairs, the conjugated operator
+// spectrum of analyticPair.apply: z_k and z_{m-k} from the spectrum s and
+// the operator's gains (imaginary != 0: an imaginary response), two bins
+// per step with AVX2 (haveSIMD). zk, sk and gain point at bin 1; zr and sr at
+// bin m-2, the lower of the first pair of mirrored bins, and walk down.
+// The products are Go's, so the results equal apply's loop bit for bit.
+//
+//go:noescape
+func specOpSIMD(zk, zr, sk, sr *complex128, gain *float64, pairs, imaginary int)
+
+// specOpVector runs specOpSIMD over the longest even run of bins 1..pos
+// (pos = (m-1)/2, the positive frequencies below Nyquist) and returns how
+// many bins it wrote.
+func specOpVector(z, s []complex128, g []float64, m, pos int, imaginary bool) int {
+	pairs := pos / 2
+	if !haveSIMD || pairs == 0 || len(z) < m || len(s) < m || len(g) <= 2*pairs {
+		return 0
+	}
+	im := 0
+	if imaginary {
+		im = 1
+	}
+	specOpSIMD(&z[1], &z[m-2], &s[1], &s[m-2], &g[1], pairs, im)
+	return 2 * pairs
+}

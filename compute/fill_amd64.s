@@ -238,3 +238,74 @@ loaddone:
 	VZEROUPPER
 	MOVQ AX, gaps+24(FP)
 	RET
+
+DATA oddsign<>+0(SB)/8, $0
+DATA oddsign<>+8(SB)/8, $0x8000000000000000
+DATA oddsign<>+16(SB)/8, $0
+DATA oddsign<>+24(SB)/8, $0x8000000000000000
+GLOBL oddsign<>(SB), RODATA|NOPTR, $32
+
+// func specOpSIMD(zk, zr, sk, sr *complex128, gain *float64, pairs, imaginary int)
+TEXT ·specOpSIMD(SB), NOSPLIT, $0-56
+	MOVQ zk+0(FP), DI
+	MOVQ zr+8(FP), R8
+	MOVQ sk+16(FP), SI
+	MOVQ sr+24(FP), R9
+	MOVQ gain+32(FP), R10
+	MOVQ pairs+40(FP), CX
+	MOVQ imaginary+48(FP), AX
+	TESTQ CX, CX
+	JEQ  specdone
+	VMOVUPD signmask<>(SB), Y6
+	VMOVUPD oddsign<>(SB), Y7
+	TESTQ AX, AX
+	JEQ  specreal
+
+specimag:
+	// z_k = -g_k swap(s_k), z_{m-k} = g_k swap(s_{m-k}), bins k and k+1
+	// at once (swap: real and imaginary parts exchanged).
+	VBROADCASTF128 (R10), Y2  // g_k g_k+1 g_k g_k+1
+	VPERMPD $0x50, Y2, Y3     // g_k g_k g_k+1 g_k+1
+	VPERMPD $0x05, Y2, Y4     // g_k+1 g_k+1 g_k g_k
+	VXORPD  Y6, Y3, Y3        // negated
+	VMOVUPD (SI), Y0          // s_k, s_k+1
+	VMOVUPD (R9), Y1          // s_m-k-1, s_m-k
+	VPERMILPD $5, Y0, Y0
+	VPERMILPD $5, Y1, Y1
+	VMULPD  Y3, Y0, Y0
+	VMULPD  Y4, Y1, Y1
+	VMOVUPD Y0, (DI)
+	VMOVUPD Y1, (R8)
+	ADDQ $32, DI
+	ADDQ $32, SI
+	ADDQ $16, R10
+	SUBQ $32, R8
+	SUBQ $32, R9
+	DECQ CX
+	JNE  specimag
+	JMP  specdone
+
+specreal:
+	// z_k = g_k conj(s_k), z_{m-k} = g_k conj(s_{m-k}).
+	VBROADCASTF128 (R10), Y2
+	VPERMPD $0x50, Y2, Y3
+	VPERMPD $0x05, Y2, Y4
+	VXORPD  Y7, Y3, Y3        // g, -g
+	VXORPD  Y7, Y4, Y4
+	VMOVUPD (SI), Y0
+	VMOVUPD (R9), Y1
+	VMULPD  Y3, Y0, Y0
+	VMULPD  Y4, Y1, Y1
+	VMOVUPD Y0, (DI)
+	VMOVUPD Y1, (R8)
+	ADDQ $32, DI
+	ADDQ $32, SI
+	ADDQ $16, R10
+	SUBQ $32, R8
+	SUBQ $32, R9
+	DECQ CX
+	JNE  specreal
+
+specdone:
+	VZEROUPPER
+	RET
