@@ -28,3 +28,10 @@ func loadVector(x []float64, tr []float32) (done, gaps int) { return 0, 0 }
 // specOpVector writes nothing here: analyticPair.apply does every bin in
 // Go.
 func specOpVector(z, s []complex128, g []float64, m, pos int, imaginary bool) int { return 0 }
+
+// interleaveVector packs nothing here: analyticPair.forward does it in Go.
+func interleaveVector(z []complex128, a, b []float64) int { return 0 }
+
+// deinterleaveVector unpacks nothing here: analyticPair.unpack does it in
+// Go.
+func deinterleaveVector(ra, rb []float64, z []complex128) int { return 0 }

@@ -105,3 +105,39 @@ func specOpVector(z, s []complex128, g []float64, m, pos int, imaginary bool) in
 	specOpSIMD(&z[1], &z[m-2], &s[1], &s[m-2], &g[1], pairs, im)
 	return 2 * pairs
 }
+
+// interleaveSIMD writes z[j] = complex(a[j], b[j]) for j < n (n a multiple
+// of 4; the rest are left alone), four at a time with AVX2 (haveSIMD):
+// analyticPair.forward's packing of two traces.
+//
+//go:noescape
+func interleaveSIMD(z *complex128, a, b *float64, n int)
+
+// deinterleaveSIMD writes ra[j] = real(z[j]) and rb[j] = -imag(z[j]) for
+// j < n (n a multiple of 4; the rest are left alone), four at a time with
+// AVX2 (haveSIMD): analyticPair.unpack of two traces.
+//
+//go:noescape
+func deinterleaveSIMD(ra, rb *float64, z *complex128, n int)
+
+// interleaveVector runs interleaveSIMD on the longest multiple of 4 of a
+// and returns how many samples it packed.
+func interleaveVector(z []complex128, a, b []float64) int {
+	n := len(a) &^ 3
+	if !haveSIMD || n == 0 || len(b) < n || len(z) < n {
+		return 0
+	}
+	interleaveSIMD(&z[0], &a[0], &b[0], n)
+	return n
+}
+
+// deinterleaveVector runs deinterleaveSIMD on the longest multiple of 4 of
+// ra and returns how many samples it unpacked.
+func deinterleaveVector(ra, rb []float64, z []complex128) int {
+	n := len(ra) &^ 3
+	if !haveSIMD || n == 0 || len(rb) < n || len(z) < n {
+		return 0
+	}
+	deinterleaveSIMD(&ra[0], &rb[0], &z[0], n)
+	return n
+}

@@ -309,3 +309,61 @@ specreal:
 specdone:
 	VZEROUPPER
 	RET
+
+// func interleaveSIMD(z *complex128, a, b *float64, n int)
+TEXT ·interleaveSIMD(SB), NOSPLIT, $0-32
+	MOVQ z+0(FP), DI
+	MOVQ a+8(FP), SI
+	MOVQ b+16(FP), R8
+	MOVQ n+24(FP), CX
+	SHRQ $2, CX
+	JEQ  ildone
+
+illoop:
+	VMOVUPD (SI), Y0          // a0 a1 a2 a3
+	VMOVUPD (R8), Y1          // b0 b1 b2 b3
+	VUNPCKLPD Y1, Y0, Y2      // a0 b0 a2 b2
+	VUNPCKHPD Y1, Y0, Y3      // a1 b1 a3 b3
+	VPERM2F128 $0x20, Y3, Y2, Y4 // a0 b0 a1 b1
+	VPERM2F128 $0x31, Y3, Y2, Y5 // a2 b2 a3 b3
+	VMOVUPD Y4, (DI)
+	VMOVUPD Y5, 32(DI)
+	ADDQ $32, SI
+	ADDQ $32, R8
+	ADDQ $64, DI
+	DECQ CX
+	JNE  illoop
+
+ildone:
+	VZEROUPPER
+	RET
+
+// func deinterleaveSIMD(ra, rb *float64, z *complex128, n int)
+TEXT ·deinterleaveSIMD(SB), NOSPLIT, $0-32
+	MOVQ ra+0(FP), DI
+	MOVQ rb+8(FP), R8
+	MOVQ z+16(FP), SI
+	MOVQ n+24(FP), CX
+	SHRQ $2, CX
+	JEQ  dedone
+	VMOVUPD signmask<>(SB), Y6
+
+deloop:
+	VMOVUPD (SI), Y0          // r0 i0 r1 i1
+	VMOVUPD 32(SI), Y1        // r2 i2 r3 i3
+	VPERM2F128 $0x20, Y1, Y0, Y2 // r0 i0 r2 i2
+	VPERM2F128 $0x31, Y1, Y0, Y3 // r1 i1 r3 i3
+	VUNPCKLPD Y3, Y2, Y4      // r0 r1 r2 r3
+	VUNPCKHPD Y3, Y2, Y5      // i0 i1 i2 i3
+	VXORPD  Y6, Y5, Y5        // negated
+	VMOVUPD Y4, (DI)
+	VMOVUPD Y5, (R8)
+	ADDQ $64, SI
+	ADDQ $32, DI
+	ADDQ $32, R8
+	DECQ CX
+	JNE  deloop
+
+dedone:
+	VZEROUPPER
+	RET
