@@ -16,17 +16,9 @@ import (
 // lacks AVX2 and FMA (or under -tags purego) only the Go path is checked.
 func TestFillVectorMatchesScalar(t *testing.T) {
 	vals := []float64{0, math.Copysign(0, -1), 1, -1, 0.5, -0.5, 1e-310, -1e-310, 3e38, -3e38, 1e-20, 7, -7, 2.5, -1e5}
-	var x, h, dx, dh []float64
-	for _, a := range vals {
-		for _, b := range vals {
-			x, h = append(x, a), append(h, b)
-		}
-	}
-	rnd := uint64(12345)
-	next := func() float64 {
-		rnd = rnd*6364136223846793005 + 1442695040888963407
-		return float64(int64(rnd>>11)-1<<52) / (1 << 52)
-	}
+	x, h := everyPair(vals)
+	var dx, dh []float64
+	next := uniformNoise(12345)
 	for range 1002 { // 1227 samples: a tail of 3 for the Go path
 		x, h = append(x, next()*3), append(h, next()*3)
 	}
@@ -89,17 +81,8 @@ func TestFillVectorMatchesScalar(t *testing.T) {
 // only the Go path is checked.
 func TestEnvelopeFillMatchesHypot(t *testing.T) {
 	vals := []float64{0, math.Copysign(0, -1), 1, -1, 0.5, -1e-45, 1e-38, 3.4e38, -3.4e38, 1e-20, 7, -7, 2.5, -1e5}
-	var x, h []float64
-	for _, a := range vals {
-		for _, b := range vals {
-			x, h = append(x, a), append(h, b)
-		}
-	}
-	rnd := uint64(777)
-	next := func() float64 {
-		rnd = rnd*6364136223846793005 + 1442695040888963407
-		return float64(int64(rnd>>11)-1<<52) / (1 << 52)
-	}
+	x, h := everyPair(vals)
+	next := uniformNoise(777)
 	for range 1000 {
 		x, h = append(x, next()*1e3), append(h, next()*1e-3)
 	}
@@ -233,11 +216,7 @@ func TestLoadVectorMatchesRule(t *testing.T) {
 // every other bin untouched. Under -tags purego, or without AVX2, the
 // vector path writes nothing and that is checked.
 func TestSpecOpVectorMatchesApply(t *testing.T) {
-	rnd := uint64(99)
-	next := func() float64 {
-		rnd = rnd*6364136223846793005 + 1442695040888963407
-		return float64(int64(rnd>>11)-1<<52) / (1 << 52)
-	}
+	next := uniformNoise(99)
 	lengths := []int{1501, 2048, 3001}
 	for m := 1; m <= 70; m++ {
 		lengths = append(lengths, m)
@@ -300,11 +279,7 @@ func TestSpecOpVectorMatchesApply(t *testing.T) {
 // written beyond the samples reported. Under -tags purego, or without
 // AVX2, the vector paths write nothing and that is checked.
 func TestPairPackingVectorMatchesDefinition(t *testing.T) {
-	rnd := uint64(5)
-	next := func() float64 {
-		rnd = rnd*6364136223846793005 + 1442695040888963407
-		return float64(int64(rnd>>11)-1<<52) / (1 << 52)
-	}
+	next := uniformNoise(5)
 	same := func(x, y float64) bool { return math.Float64bits(x) == math.Float64bits(y) }
 	for n := 0; n <= 40; n++ {
 		a, b := make([]float64, n), make([]float64, n)
@@ -353,4 +328,25 @@ func TestPairPackingVectorMatchesDefinition(t *testing.T) {
 			}
 		}
 	}
+}
+
+// uniformNoise returns a generator of reproducible numbers in [-1, 1)
+// (a 64-bit linear congruential generator, Knuth's MMIX constants): the
+// kernels' tests need the same samples on every run and machine.
+func uniformNoise(seed uint64) func() float64 {
+	rnd := seed
+	return func() float64 {
+		rnd = rnd*6364136223846793005 + 1442695040888963407
+		return float64(int64(rnd>>11)-1<<52) / (1 << 52)
+	}
+}
+
+// everyPair returns x and h holding every ordered pair of vals.
+func everyPair(vals []float64) (x, h []float64) {
+	for _, a := range vals {
+		for _, b := range vals {
+			x, h = append(x, a), append(h, b)
+		}
+	}
+	return x, h
 }

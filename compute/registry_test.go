@@ -341,13 +341,7 @@ func TestComputeIntoReusedOutput(t *testing.T) {
 	sec.Traces[1][7] = float32(math.NaN())
 	sec.Traces[3][0] = float32(math.Inf(1))
 	for _, a := range Attributes() {
-		for _, pad := range PadModes() {
-			raw := map[string]string{}
-			if slices.ContainsFunc(a.Params, func(s ParamSpec) bool { return s.Name == "pad" }) {
-				raw["pad"] = pad
-			} else if pad != PadFast {
-				continue
-			}
+		for pad, raw := range padChoices(a) {
 			p, err := a.Resolve(raw)
 			if err != nil {
 				t.Fatal(err)
@@ -488,13 +482,7 @@ func TestNoInfiniteOutput(t *testing.T) {
 		sec.Traces[i] = tr
 	}
 	for _, a := range Attributes() {
-		for _, pad := range PadModes() {
-			raw := map[string]string{}
-			if slices.ContainsFunc(a.Params, func(s ParamSpec) bool { return s.Name == "pad" }) {
-				raw["pad"] = pad
-			} else if pad != PadFast {
-				continue
-			}
+		for pad, raw := range padChoices(a) {
 			out := compute(t, a.ID, raw, sec)
 			for i, tr := range out.Traces {
 				for j, v := range tr {
@@ -505,4 +493,18 @@ func TestNoInfiniteOutput(t *testing.T) {
 			}
 		}
 	}
+}
+
+// padChoices returns, for each padding mode an attribute accepts, the raw
+// parameters that choose it (only PadFast, with no parameter, for an
+// attribute without a pad parameter).
+func padChoices(a *Attribute) map[string]map[string]string {
+	if !slices.ContainsFunc(a.Params, func(s ParamSpec) bool { return s.Name == "pad" }) {
+		return map[string]map[string]string{PadFast: {}}
+	}
+	out := map[string]map[string]string{}
+	for _, pad := range PadModes() {
+		out[pad] = map[string]string{"pad": pad}
+	}
+	return out
 }
