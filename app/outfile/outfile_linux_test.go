@@ -7,8 +7,10 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"sync"
 	"syscall"
 	"testing"
+	"time"
 
 	"golang.org/x/sys/unix"
 
@@ -120,5 +122,114 @@ func TestDataSyncSystemCall(t *testing.T) {
 	defer w.Close()
 	if err := dataSync(w); !errors.Is(err, unix.EINVAL) {
 		t.Errorf("pipe: error %v, want EINVAL", err)
+	}
+}
+
+// Write asks for a background sync every WritebackChunk bytes (Linux):
+// with a sync that blocks until every write is done, Write never waits
+// for it (requests merge), at least one and at most one per chunk are
+// made, Commit waits for the one in progress, and the committed file holds
+// exactly what was written, WriteAt included.
+func TestWriteSyncsInBackground(t *testing.T) {
+	dst := filepath.Join(t.TempDir(), "out.sgy")
+	f, err := Create(dst, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	release := make(chan struct{})
+	var mu sync.Mutex
+	calls := 0
+	f.syncData = func(fh *os.File) error {
+		if fh != f.fh {
+			t.Errorf("sync of another file")
+		}
+		<-release
+		mu.Lock()
+		calls++
+		mu.Unlock()
+		return nil
+	}
+	var want []byte
+	piece := make([]byte, 1<<20+3)
+	for i := range 41 {
+		for j := range piece {
+			piece[j] = byte(i*7 + j)
+		}
+		if _, err := f.Write(piece); err != nil {
+			t.Fatal(err)
+		}
+		want = append(want, piece...)
+	}
+	if _, err := f.WriteAt([]byte("HEAD"), 0); err != nil {
+		t.Fatal(err)
+	}
+	copy(want, "HEAD")
+	close(release) // every write done without a sync having finished
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if chunks := len(want) / WritebackChunk; calls < 1 || calls > chunks {
+		t.Errorf("%d background syncs for %d chunks", calls, chunks)
+	}
+	if got, err := os.ReadFile(dst); err != nil || !bytes.Equal(got, want) {
+		t.Errorf("committed file differs from what was written (%d bytes, %v)", len(got), err)
+	}
+}
+
+// An error of a background sync (the system reports a write error to one
+// sync only) is Commit's error, naming the destination, and nothing is
+// put in place.
+func TestBackgroundSyncErrorFailsCommit(t *testing.T) {
+	dir := t.TempDir()
+	dst := filepath.Join(dir, "out.sgy")
+	f, err := Create(dst, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.syncData = func(*os.File) error { return syscall.EIO }
+	if _, err := f.Write(make([]byte, WritebackChunk+1)); err != nil {
+		t.Fatal(err)
+	}
+	err = f.Commit()
+	if !errors.Is(err, syscall.EIO) || !strings.Contains(err.Error(), "out.sgy") {
+		t.Fatalf("Commit after a failed background sync: %v, want EIO naming out.sgy", err)
+	}
+	if got := names(t, dir); len(got) != 0 {
+		t.Errorf("folder holds %v after the failed commit", got)
+	}
+}
+
+// Abort ends a background sync in progress before closing the file.
+func TestAbortWaitsForBackgroundSync(t *testing.T) {
+	dir := t.TempDir()
+	f, err := Create(filepath.Join(dir, "out.sgy"), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	started, release, finished := make(chan struct{}), make(chan struct{}), make(chan struct{})
+	var closedDuringSync bool
+	f.syncData = func(fh *os.File) error {
+		defer close(finished)
+		close(started)
+		<-release
+		// A closed file fails Stat: the sync must still hold it open.
+		_, err := fh.Stat()
+		closedDuringSync = err != nil
+		return nil
+	}
+	if _, err := f.Write(make([]byte, WritebackChunk)); err != nil {
+		t.Fatal(err)
+	}
+	<-started
+	// Give Abort time to reach its wait (not a timing check: without
+	// the wait the close below would come under the blocked sync).
+	go func() { time.Sleep(20 * time.Millisecond); close(release) }()
+	f.Abort()
+	<-finished
+	if closedDuringSync {
+		t.Error("the file was closed under a background sync")
+	}
+	if got := names(t, dir); len(got) != 0 {
+		t.Errorf("folder holds %v after Abort", got)
 	}
 }
