@@ -4,6 +4,8 @@ import (
 	"context"
 	"math"
 	"testing"
+
+	"quadtrace/segy/segytest"
 )
 
 // benchSection builds the speed-test array: 2000 traces x 1501 samples at
@@ -41,14 +43,14 @@ func BenchmarkInstantaneousSet(b *testing.B) {
 				b.Fatal(err)
 			}
 			b.ResetTimer()
-			cpu, faults := processCPU(), minorFaults()
+			cpu, faults := segytest.ProcessCPU(), segytest.MinorFaults()
 			for b.Loop() {
 				if _, err := Instantaneous(context.Background(), sec, EndTreatment{Pad: pad}, nil); err != nil {
 					b.Fatal(err)
 				}
 			}
-			b.ReportMetric(float64(processCPU()-cpu)/float64(b.N), "cpu-ns/op")
-			b.ReportMetric(float64(minorFaults()-faults)/float64(b.N), "faults/op")
+			b.ReportMetric(float64(segytest.ProcessCPU()-cpu)/float64(b.N), "cpu-ns/op")
+			b.ReportMetric(float64(segytest.MinorFaults()-faults)/float64(b.N), "faults/op")
 		})
 		b.Run("into,pad="+pad, func(b *testing.B) {
 			sec := benchSection(2000, 1501)
@@ -57,14 +59,14 @@ func BenchmarkInstantaneousSet(b *testing.B) {
 				b.Fatal(err)
 			}
 			b.ResetTimer()
-			cpu, faults := processCPU(), minorFaults()
+			cpu, faults := segytest.ProcessCPU(), segytest.MinorFaults()
 			for b.Loop() {
 				if err := InstantaneousInto(context.Background(), sec, &set, EndTreatment{Pad: pad}, nil); err != nil {
 					b.Fatal(err)
 				}
 			}
-			b.ReportMetric(float64(processCPU()-cpu)/float64(b.N), "cpu-ns/op")
-			b.ReportMetric(float64(minorFaults()-faults)/float64(b.N), "faults/op")
+			b.ReportMetric(float64(segytest.ProcessCPU()-cpu)/float64(b.N), "cpu-ns/op")
+			b.ReportMetric(float64(segytest.MinorFaults()-faults)/float64(b.N), "faults/op")
 		})
 	}
 }
@@ -82,11 +84,11 @@ func BenchmarkEnvelopeInto(b *testing.B) {
 	out := newLike(sec)
 	b.SetBytes(int64(4 * 2000 * 1501))
 	b.ResetTimer()
-	cpu := processCPU()
+	cpu := segytest.ProcessCPU()
 	for b.Loop() {
 		if err := env.ComputeInto(context.Background(), sec, out, Params{}, nil); err != nil {
 			b.Fatal(err)
 		}
 	}
-	b.ReportMetric(float64(processCPU()-cpu)/float64(b.N), "cpu-ns/op")
+	b.ReportMetric(float64(segytest.ProcessCPU()-cpu)/float64(b.N), "cpu-ns/op")
 }

@@ -10,6 +10,7 @@ import (
 	"quadtrace/app/horizonjob"
 	"quadtrace/compute/horizon"
 	"quadtrace/compute/synth"
+	"quadtrace/segy/segytest"
 )
 
 // mapBenchViewer opens the full demo survey (150 x 200 traces of 751
@@ -52,7 +53,7 @@ func mapBenchViewer(b *testing.B) (*viewer, *mapPanel) {
 // goroutines: the jobs' workers too) beside the wall time: on the shared
 // machine wall time is an upper bound, CPU time the work done.
 func reportCPU(b *testing.B, cpu time.Duration) {
-	if d := processCPU() - cpu; d > 0 {
+	if d := segytest.ProcessCPU() - cpu; d > 0 {
 		b.ReportMetric(float64(d)/1e6/float64(b.N), "cpu-ms/op")
 	}
 }
@@ -67,7 +68,7 @@ func BenchmarkMapStatisticChange(b *testing.B) {
 	kept := p.attrSlab
 	stats := []horizon.Stat{horizon.Mean, horizon.MaxAbs, horizon.RMS, horizon.MinAbs, horizon.MeanAbs, horizon.Value}
 	i := 0
-	cpu := processCPU()
+	cpu := segytest.ProcessCPU()
 	for b.Loop() {
 		p.statPick.SetSelected(statLabels[stats[i%len(stats)]-1])
 		v.jobs.wait()
@@ -85,7 +86,7 @@ func BenchmarkMapPaletteChange(b *testing.B) {
 	v, p := mapBenchViewer(b)
 	names := []string{"lumbry", "pyrrel", "lumbry-r", "slatine"}
 	i := 0
-	cpu := processCPU()
+	cpu := segytest.ProcessCPU()
 	for b.Loop() {
 		p.palettePick.SetSelected(names[i%len(names)])
 		v.jobs.wait()
@@ -102,7 +103,7 @@ func BenchmarkMapAttributeChange(b *testing.B) {
 	ids := []string{"instantaneous-frequency", "envelope"}
 	i := 0
 	slab := p.slab
-	cpu := processCPU()
+	cpu := segytest.ProcessCPU()
 	for b.Loop() {
 		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
 		v.jobs.wait()
@@ -124,7 +125,7 @@ func BenchmarkMapConditionedAttributeChange(b *testing.B) {
 	v.jobs.wait()
 	ids := []string{"instantaneous-frequency", "envelope"}
 	i := 0
-	cpu := processCPU()
+	cpu := segytest.ProcessCPU()
 	for b.Loop() {
 		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
 		v.jobs.wait()

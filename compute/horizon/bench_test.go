@@ -11,6 +11,7 @@ import (
 	"quadtrace/compute"
 	"quadtrace/compute/horizon"
 	"quadtrace/compute/synth"
+	"quadtrace/segy/segytest"
 )
 
 // trackOptions are the options the benchmarks track with: every
@@ -23,7 +24,7 @@ func BenchmarkTrackDemo(b *testing.B) {
 	s := demo(b, synth.DefaultConfig())
 	src := source(b, s)
 	seeds := seedsFor(s, surface(b, s, synth.SurfaceSeafloor), [2]int{75, 100})
-	start := cpuTime()
+	start := segytest.ProcessCPU()
 	for b.Loop() {
 		h, err := horizon.Track(context.Background(), src, seeds, trackOptions, nil)
 		if err != nil || h.Picked() < 29000 {
@@ -43,7 +44,7 @@ func BenchmarkTrackDemoInterference(b *testing.B) {
 	seeds := seedsFor(s, surface(b, s, synth.SurfaceSeafloor), [2]int{75, 100})
 	opt := trackOptions
 	opt.MinSeparationMS = horizon.TuningThicknessMS(synth.SourcePeakHz)
-	start := cpuTime()
+	start := segytest.ProcessCPU()
 	for b.Loop() {
 		h, err := horizon.Track(context.Background(), src, seeds, opt, nil)
 		if err != nil || h.Picked() < 29000 {
@@ -58,7 +59,7 @@ func BenchmarkTrackDemoInterference(b *testing.B) {
 // much less; on two free cores the wall time lies between half of it and
 // all of it.
 func reportCPU(b *testing.B, start time.Duration) {
-	if d := cpuTime() - start; d > 0 {
+	if d := segytest.ProcessCPU() - start; d > 0 {
 		b.ReportMetric(d.Seconds()/float64(b.N), "cpu-s/op")
 	}
 }
@@ -110,7 +111,7 @@ func layered(ni, nx, ns int) (*horizon.Traces, float64) {
 func BenchmarkTrack1000x1000(b *testing.B) {
 	src, t0 := layered(1000, 1000, 128)
 	seeds := []horizon.Seed{{Inline: 0, Crossline: 0, TimeMS: t0}}
-	start := cpuTime()
+	start := segytest.ProcessCPU()
 	for b.Loop() {
 		h, err := horizon.Track(context.Background(), src, seeds, trackOptions, nil)
 		if err != nil || h.Picked() < 990000 {
@@ -135,7 +136,7 @@ func BenchmarkMapDemo(b *testing.B) {
 	}
 	for _, spec := range []horizon.MapSpec{{Stat: horizon.Value}, {Stat: horizon.RMS, FromMS: -10, ToMS: 10}} {
 		b.Run(spec.Stat.String(), func(b *testing.B) {
-			start := cpuTime()
+			start := segytest.ProcessCPU()
 			for b.Loop() {
 				if _, err := horizon.Map(context.Background(), src, h, spec, nil); err != nil {
 					b.Fatal(err)
@@ -188,7 +189,7 @@ func BenchmarkSlabDemo(b *testing.B) {
 		for _, id := range ids {
 			a, p := lookup(id)
 			b.Run(fmt.Sprintf("%gms/attribute/%s", half, id), func(b *testing.B) {
-				start := cpuTime()
+				start := segytest.ProcessCPU()
 				for b.Loop() {
 					as, err := slab.Attribute(ctx, a, p)
 					if err != nil {
@@ -207,7 +208,7 @@ func BenchmarkSlabDemo(b *testing.B) {
 			b.Fatal(err)
 		}
 		b.Run(fmt.Sprintf("%gms/stat", half), func(b *testing.B) {
-			start := cpuTime()
+			start := segytest.ProcessCPU()
 			for b.Loop() {
 				if _, err := as.Map(horizon.MapSpec{Stat: horizon.MaxAbs, FromMS: -30, ToMS: 10}); err != nil {
 					b.Fatal(err)
@@ -219,7 +220,7 @@ func BenchmarkSlabDemo(b *testing.B) {
 	for _, id := range ids {
 		a, p := lookup(id)
 		b.Run("whole-trace/"+id, func(b *testing.B) {
-			start := cpuTime()
+			start := segytest.ProcessCPU()
 			for b.Loop() {
 				attr, err := a.Compute(ctx, compute.Section{Traces: s.Traces, DT: s.IntervalMS() / 1000}, p, nil)
 				if err != nil {
