@@ -245,6 +245,16 @@ DATA oddsign<>+16(SB)/8, $0
 DATA oddsign<>+24(SB)/8, $0x8000000000000000
 GLOBL oddsign<>(SB), RODATA|NOPTR, $32
 
+// SPEC_NEXT moves specOpSIMD's pointers to the next pair of bins (up from
+// bin k, down from bin m-k) and counts the pair.
+#define SPEC_NEXT \
+	ADDQ $32, DI; \
+	ADDQ $32, SI; \
+	ADDQ $16, R10; \
+	SUBQ $32, R8; \
+	SUBQ $32, R9; \
+	DECQ CX
+
 // func specOpSIMD(zk, zr, sk, sr *complex128, gain *float64, pairs, imaginary int)
 TEXT ·specOpSIMD(SB), NOSPLIT, $0-56
 	MOVQ zk+0(FP), DI
@@ -276,12 +286,7 @@ specimag:
 	VMULPD  Y4, Y1, Y1
 	VMOVUPD Y0, (DI)
 	VMOVUPD Y1, (R8)
-	ADDQ $32, DI
-	ADDQ $32, SI
-	ADDQ $16, R10
-	SUBQ $32, R8
-	SUBQ $32, R9
-	DECQ CX
+	SPEC_NEXT
 	JNE  specimag
 	JMP  specdone
 
@@ -298,12 +303,7 @@ specreal:
 	VMULPD  Y4, Y1, Y1
 	VMOVUPD Y0, (DI)
 	VMOVUPD Y1, (R8)
-	ADDQ $32, DI
-	ADDQ $32, SI
-	ADDQ $16, R10
-	SUBQ $32, R8
-	SUBQ $32, R9
-	DECQ CX
+	SPEC_NEXT
 	JNE  specreal
 
 specdone:

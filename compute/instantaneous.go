@@ -22,9 +22,7 @@ type InstantaneousSet struct {
 // Instantaneous computes the InstantaneousSet of a section on all cores
 // into new sections; see InstantaneousInto.
 func Instantaneous(ctx context.Context, in Section, end EndTreatment, progress func(done, total int)) (InstantaneousSet, error) {
-	if err := in.validate(); err != nil {
-		return InstantaneousSet{}, fmt.Errorf("instantaneous attributes: %w", err)
-	}
+	// Shaped by trace 0; InstantaneousInto validates in.
 	set := InstantaneousSet{Envelope: newLike(in), Phase: newLike(in), Frequency: newLike(in), CosPhase: newLike(in)}
 	if err := InstantaneousInto(ctx, in, &set, end, progress); err != nil {
 		return InstantaneousSet{}, err

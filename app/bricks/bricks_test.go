@@ -1,6 +1,7 @@
 package bricks
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -99,12 +100,8 @@ func checkAll(t *testing.T, s *Store, resident bool) {
 		if err != nil || (resident && !ok) {
 			t.Fatalf("inline %d: ok %v, %v", i, ok, err)
 		}
-		for x, tr := range traces {
-			for z, v := range tr {
-				if v != value(i, x, z) {
-					t.Fatalf("inline %d crossline %d sample %d = %v, want %v", i, x, z, v, value(i, x, z))
-				}
-			}
+		if err := inlineMismatch(i, traces); err != nil {
+			t.Fatal(err)
 		}
 	}
 	for x := range sh.Crosslines {
@@ -112,14 +109,35 @@ func checkAll(t *testing.T, s *Store, resident bool) {
 		if err != nil || (resident && !ok) {
 			t.Fatalf("crossline %d: ok %v, %v", x, ok, err)
 		}
-		for i, tr := range traces {
-			for z, v := range tr {
-				if v != value(i, x, z) {
-					t.Fatalf("crossline %d inline %d sample %d = %v, want %v", x, i, z, v, value(i, x, z))
-				}
+		if err := crosslineMismatch(x, traces); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
+
+// inlineMismatch names the first sample of inline i's traces that is not
+// value, or returns nil.
+func inlineMismatch(i int, traces [][]float32) error {
+	for x, tr := range traces {
+		for z, v := range tr {
+			if v != value(i, x, z) {
+				return fmt.Errorf("inline %d crossline %d sample %d = %v, want %v", i, x, z, v, value(i, x, z))
 			}
 		}
 	}
+	return nil
+}
+
+// crosslineMismatch is inlineMismatch for crossline x.
+func crosslineMismatch(x int, traces [][]float32) error {
+	for i, tr := range traces {
+		for z, v := range tr {
+			if v != value(i, x, z) {
+				return fmt.Errorf("crossline %d inline %d sample %d = %v, want %v", x, i, z, v, value(i, x, z))
+			}
+		}
+	}
+	return nil
 }
 
 // TestEverySampleInItsPlace fills stores whose sizes are and are not
@@ -557,25 +575,11 @@ func TestReadersWhileBricksRecycle(t *testing.T) {
 			case 1:
 				i := k % shape.Inlines
 				traces, _, e := s.Inline(i)
-				err = e
-				for x, tr := range traces {
-					for z, v := range tr {
-						if v != value(i, x, z) {
-							err = fmt.Errorf("inline %d crossline %d sample %d = %v, want %v", i, x, z, v, value(i, x, z))
-						}
-					}
-				}
+				err = cmp.Or(e, inlineMismatch(i, traces))
 			case 2:
 				x := k % shape.Crosslines
 				traces, _, e := s.Crossline(x)
-				err = e
-				for i, tr := range traces {
-					for z, v := range tr {
-						if v != value(i, x, z) {
-							err = fmt.Errorf("crossline %d inline %d sample %d = %v, want %v", x, i, z, v, value(i, x, z))
-						}
-					}
-				}
+				err = cmp.Or(e, crosslineMismatch(x, traces))
 			}
 			if err != nil {
 				errs <- err
