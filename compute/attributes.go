@@ -52,8 +52,8 @@ type analyticNeeds struct {
 // analyticRun computes an attribute trace by trace: it transforms the
 // traces two at a time (analyticPair) for the quadrature and what needs
 // asks for, then calls fill to write each output trace, clamps infinite
-// samples as saturate does (attributes run through it are marked
-// saturated in the registry) and sets gap samples to NaN.
+// samples as saturate does (runs that do not come here are wrapped in
+// clampedAfter) and sets gap samples to NaN.
 func analyticRun(ctx context.Context, in, out Section, p Params, progress func(done, total int), needs analyticNeeds, fill func(w *traceWork, out []float32)) error {
 	n := in.Samples()
 	end := endTreatment(p)

@@ -59,11 +59,10 @@ type Attribute struct {
 	Source         string // short citation of the published formula
 	Params         []ParamSpec
 
+	// run writes no infinite sample: analyticRun clamps each trace while
+	// it is still in cache, the other runs are wrapped in clampedAfter
+	// (TestNoInfiniteOutput checks every attribute).
 	run computeFunc
-	// saturated: run writes no infinite sample (analyticRun clamps each
-	// trace while it is still in cache), so ComputeInto skips its own
-	// pass over the whole output.
-	saturated bool
 }
 
 // builtRegistry is the attribute table, built once on first use and never
@@ -164,10 +163,19 @@ func (a *Attribute) ComputeInto(ctx context.Context, in, out Section, p Params, 
 	if err := a.run(ctx, in, out, p, progress); err != nil {
 		return fmt.Errorf("attribute %q: %w", a.ID, err)
 	}
-	if !a.saturated {
-		saturate(out)
-	}
 	return nil
+}
+
+// clampedAfter is run followed by saturate over its whole output, for the
+// runs that do not go through analyticRun.
+func clampedAfter(run computeFunc) computeFunc {
+	return func(ctx context.Context, in, out Section, p Params, progress func(done, total int)) error {
+		if err := run(ctx, in, out, p, progress); err != nil {
+			return err
+		}
+		saturate(out)
+		return nil
+	}
 }
 
 // saturate replaces infinite output samples by the largest finite float32
@@ -233,79 +241,79 @@ func registry() []*Attribute {
 	return []*Attribute{
 		// amplitude
 		{ID: "amplitude", Name: "Amplitude", Unit: "amplitude", Kind: Signed, Group: GroupAmplitude,
-			Description: "the input trace unchanged (Inf gap samples become NaN)", Source: "the recorded data", run: runAmplitude},
+			Description: "the input trace unchanged (Inf gap samples become NaN)", Source: "the recorded data", run: clampedAfter(runAmplitude)},
 		{ID: "quadrature", Name: "Quadrature trace", Unit: "amplitude", Kind: Signed, Group: GroupAmplitude,
 			Description: "imaginary part of the analytic trace (Hilbert transform of the trace)", Source: srcTaner1979,
-			Params: analyticParams(), run: sampleAttribute(false, quadratureAt), saturated: true},
+			Params: analyticParams(), run: sampleAttribute(false, quadratureAt)},
 		{ID: "envelope", Name: "Envelope (reflection strength)", Unit: "amplitude", Kind: Magnitude, Group: GroupAmplitude,
 			Description: "modulus of the analytic trace", Source: srcTaner1979,
-			Params: analyticParams(), run: traceAttribute(false, envelopeTrace), saturated: true},
+			Params: analyticParams(), run: traceAttribute(false, envelopeTrace)},
 		{ID: "envelope-derivative", Name: "Envelope first derivative", Unit: "amplitude/s", Kind: Signed, Group: GroupAmplitude,
 			Description: "time derivative of the envelope, (x x' + h h')/a", Source: srcTaner1979,
-			Params: analyticParams(), run: sampleAttribute(true, envelopeDerivativeAt), saturated: true},
+			Params: analyticParams(), run: sampleAttribute(true, envelopeDerivativeAt)},
 		{ID: "envelope-second-derivative", Name: "Envelope second derivative", Unit: "amplitude/s^2", Kind: Signed, Group: GroupAmplitude,
 			Description: "second time derivative of the envelope, (x'^2 + h'^2 + x x'' + h h'' - a'^2)/a", Source: srcTaner1979,
-			Params: analyticParams(), run: envelopeSecondDerivative, saturated: true},
+			Params: analyticParams(), run: envelopeSecondDerivative},
 		{ID: "apparent-polarity", Name: "Apparent polarity", Unit: "amplitude", Kind: Signed, Group: GroupAmplitude,
 			Description: "envelope peak value signed by the trace at the peak, held over the envelope lobe", Source: srcTaner1979,
-			Params: analyticParams(), run: lobeAttribute(lobePolarity), saturated: true},
+			Params: analyticParams(), run: lobeAttribute(lobePolarity)},
 		{ID: "rms-amplitude", Name: "RMS amplitude", Unit: "amplitude", Kind: Magnitude, Group: GroupAmplitude,
 			Description: "root mean square of the trace over a sliding window", Source: "common practice",
-			Params: []ParamSpec{windowParam("40")}, run: rmsAmplitude},
+			Params: []ParamSpec{windowParam("40")}, run: clampedAfter(rmsAmplitude)},
 		{ID: "relative-impedance", Name: "Relative acoustic impedance", Unit: "amplitude*s", Kind: Signed, Group: GroupAmplitude,
 			Description: "running integral of the trace, low-cut to remove drift", Source: srcTaner2001,
 			Params: []ParamSpec{padParamDefault(PadDouble), {Name: "low-cut", Unit: "Hz", Default: "6", Min: 0.1, Max: 10000,
-				Description: "half-amplitude point of the one-octave cosine-squared low-cut ramp"}}, run: relativeImpedance, saturated: true},
+				Description: "half-amplitude point of the one-octave cosine-squared low-cut ramp"}}, run: relativeImpedance},
 
 		// instantaneous
 		{ID: "instantaneous-phase", Name: "Instantaneous phase", Unit: "deg", Kind: Cyclic, Group: GroupInstantaneous,
 			Description: "argument of the analytic trace, -180..180 degrees", Source: srcTaner1979,
-			Params: analyticParams(), run: traceAttribute(false, phaseTrace), saturated: true},
+			Params: analyticParams(), run: traceAttribute(false, phaseTrace)},
 		{ID: "cosine-phase", Name: "Cosine of instantaneous phase", Unit: "", Kind: Signed, Group: GroupInstantaneous,
 			Description: "cosine of the instantaneous phase, x/a, in -1..1", Source: srcTaner1979,
-			Params: analyticParams(), run: sampleAttribute(false, cosPhaseAt), saturated: true},
+			Params: analyticParams(), run: sampleAttribute(false, cosPhaseAt)},
 		{ID: "instantaneous-frequency", Name: "Instantaneous frequency", Unit: "Hz", Kind: Magnitude, Group: GroupInstantaneous,
 			Description: "phase rate (x h' - h x')/(2 pi a^2), derivatives taken in the frequency domain", Source: srcTaner1979,
-			Params: analyticParams(), run: sampleAttribute(true, frequencyAt), saturated: true},
+			Params: analyticParams(), run: sampleAttribute(true, frequencyAt)},
 		{ID: "instantaneous-bandwidth", Name: "Instantaneous bandwidth", Unit: "Hz", Kind: Magnitude, Group: GroupInstantaneous,
 			Description: "|a'/a|/(2 pi), the relative rate of change of the envelope", Source: srcBarnes1992,
-			Params: analyticParams(), run: sampleAttribute(true, bandwidthAt), saturated: true},
+			Params: analyticParams(), run: sampleAttribute(true, bandwidthAt)},
 		{ID: "dominant-frequency", Name: "Dominant frequency", Unit: "Hz", Kind: Magnitude, Group: GroupInstantaneous,
 			Description: "sqrt(f^2 + b^2) of instantaneous frequency f and bandwidth b", Source: srcBarnes1993,
-			Params: analyticParams(), run: sampleAttribute(true, dominantAt), saturated: true},
+			Params: analyticParams(), run: sampleAttribute(true, dominantAt)},
 		{ID: "thin-bed", Name: "Thin-bed indicator", Unit: "Hz", Kind: Signed, Group: GroupInstantaneous,
 			Description: "instantaneous frequency minus its average over a window weighted by envelope squared (Barnes 1993)", Source: srcTaner2001,
-			Params: analyticParams(windowParam("40")), run: windowedAttribute(thinBedAt), saturated: true},
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(thinBedAt)},
 
 		// response
 		{ID: "response-phase", Name: "Response phase", Unit: "deg", Kind: Cyclic, Group: GroupResponse,
 			Description: "instantaneous phase at the envelope peak, held over the envelope lobe", Source: srcBodine1984,
-			Params: analyticParams(), run: lobeAttribute(lobePhase), saturated: true},
+			Params: analyticParams(), run: lobeAttribute(lobePhase)},
 		{ID: "response-frequency", Name: "Response frequency", Unit: "Hz", Kind: Magnitude, Group: GroupResponse,
 			Description: "instantaneous frequency at the envelope peak, held over the envelope lobe", Source: srcBodine1984,
-			Params: analyticParams(), run: lobeAttribute(lobeFrequency), saturated: true},
+			Params: analyticParams(), run: lobeAttribute(lobeFrequency)},
 		{ID: "response-amplitude", Name: "Response amplitude", Unit: "amplitude", Kind: Magnitude, Group: GroupResponse,
 			Description: "envelope peak value, held over the envelope lobe", Source: srcBodine1984,
-			Params: analyticParams(), run: lobeAttribute(lobeAmplitude), saturated: true},
+			Params: analyticParams(), run: lobeAttribute(lobeAmplitude)},
 
 		// weighted and spectral
 		{ID: "weighted-frequency", Name: "Weighted average frequency", Unit: "Hz", Kind: Magnitude, Group: GroupWeighted,
 			Description: "instantaneous frequency averaged with envelope-squared weights over a window", Source: srcBarnes1993,
-			Params: analyticParams(windowParam("40")), run: windowedAttribute(weightedFrequencyAt), saturated: true},
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(weightedFrequencyAt)},
 		{ID: "weighted-bandwidth", Name: "Weighted bandwidth", Unit: "Hz", Kind: Magnitude, Group: GroupWeighted,
 			Description: "envelope-squared-weighted spread of frequency, bandwidth term included, over a window", Source: srcBarnes1993,
-			Params: analyticParams(windowParam("40")), run: windowedAttribute(weightedBandwidthAt), saturated: true},
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(weightedBandwidthAt)},
 		{ID: "amplitude-weighted-frequency", Name: "Amplitude-weighted frequency", Unit: "Hz", Kind: Magnitude, Group: GroupWeighted,
 			Description: "instantaneous frequency averaged with envelope weights over a window", Source: srcTaner2001,
-			Params: analyticParams(windowParam("40")), run: windowedAttribute(amplitudeWeightedFrequencyAt), saturated: true},
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(amplitudeWeightedFrequencyAt)},
 		{ID: "amplitude-weighted-cosine-phase", Name: "Amplitude-weighted cosine of phase", Unit: "", Kind: Signed, Group: GroupWeighted,
 			Description: "cosine of phase averaged with envelope weights over a window", Source: srcTaner2001,
-			Params: analyticParams(windowParam("40")), run: windowedAttribute(amplitudeWeightedCosPhaseAt), saturated: true},
+			Params: analyticParams(windowParam("40")), run: windowedAttribute(amplitudeWeightedCosPhaseAt)},
 		{ID: "sweetness", Name: "Sweetness", Unit: "amplitude/sqrt(Hz)", Kind: Magnitude, Group: GroupWeighted,
 			Description: "envelope over the square root of the weighted average frequency", Source: "Radovich and Oliveros (1998), 3-D sequence interpretation of seismic instantaneous attributes from the Gorgon Field, The Leading Edge 17(9)",
 			Params: analyticParams(windowParam("40"), ParamSpec{Name: "min-frequency", Unit: "Hz", Default: "2", Min: 0.01, Max: 10000,
 				Description: "floor under the frequency before the square root, so quiet or low-frequency spots cannot blow up"}),
-			run: windowedAttribute(sweetnessAt), saturated: true},
+			run: windowedAttribute(sweetnessAt)},
 
 		// conditioning
 		{ID: "bandpass", Name: "Zero-phase band-pass", Unit: "amplitude", Kind: Signed, Group: GroupConditioning,
@@ -313,11 +321,11 @@ func registry() []*Attribute {
 			Params: []ParamSpec{
 				{Name: "low-cut", Unit: "Hz", Default: "8", Min: 0, Max: 10000, Description: "half-amplitude low corner (0 = no low-cut)"},
 				{Name: "high-cut", Unit: "Hz", Default: "60", Min: 0, Max: 10000, Description: "half-amplitude high corner (0 = no high-cut)"},
-			}, run: runBandpass},
+			}, run: clampedAfter(runBandpass)},
 		{ID: "agc", Name: "Automatic gain control", Unit: "", Kind: Signed, Group: GroupConditioning,
 			Description: "trace divided by its RMS over a centred sliding window", Source: "common practice",
 			Params: []ParamSpec{{Name: "window", Unit: "ms", Default: "500", Min: 4, Max: 20000, Description: "length of the centred RMS window"}},
-			run:    runAGC},
+			run:    clampedAfter(runAGC)},
 	}
 }
 
