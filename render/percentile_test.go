@@ -208,20 +208,7 @@ func percentileRangeBySelection(data [][]float32, pct float64, symmetric bool) (
 	for _, tr := range data {
 		total += len(tr)
 	}
-	stride := max(1, (total+percentileSampleCap-1)/percentileSampleCap)
-	vals := make([]float32, 0, min(total, percentileSampleCap)+1)
-	k := 0
-	for _, tr := range data {
-		for _, v := range tr {
-			if k%stride == 0 && !math.IsNaN(float64(v)) && !math.IsInf(float64(v), 0) {
-				if symmetric && v < 0 {
-					v = -v
-				}
-				vals = append(vals, v)
-			}
-			k++
-		}
-	}
+	vals := subsampleByModulo(data, max(1, (total+percentileSampleCap-1)/percentileSampleCap), symmetric)
 	if len(vals) == 0 {
 		return 0, 0
 	}

@@ -58,6 +58,21 @@ func reportCPU(b *testing.B, cpu time.Duration) {
 	}
 }
 
+// alternateMapAttribute is the timed loop of the attribute-change
+// benchmarks: the map's attribute alternates between instantaneous
+// frequency and envelope, each change waited for, CPU time reported.
+func alternateMapAttribute(b *testing.B, v *viewer, p *mapPanel) {
+	ids := []string{"instantaneous-frequency", "envelope"}
+	i := 0
+	cpu := segytest.ProcessCPU()
+	for b.Loop() {
+		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
+		v.jobs.wait()
+		i++
+	}
+	reportCPU(b, cpu)
+}
+
 // BenchmarkMapStatisticChange is the time from a change of statistic to
 // the redrawn attribute map in the window (map from the kept strips,
 // figure drawn at the view's size, handed to the view), for the envelope
@@ -100,16 +115,8 @@ func BenchmarkMapPaletteChange(b *testing.B) {
 // the horizon (the amplitude is not read again), then the map.
 func BenchmarkMapAttributeChange(b *testing.B) {
 	v, p := mapBenchViewer(b)
-	ids := []string{"instantaneous-frequency", "envelope"}
-	i := 0
 	slab := p.slab
-	cpu := segytest.ProcessCPU()
-	for b.Loop() {
-		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
-		v.jobs.wait()
-		i++
-	}
-	reportCPU(b, cpu)
+	alternateMapAttribute(b, v, p)
 	if p.slab != slab {
 		b.Fatal("a change of attribute read the traces again")
 	}
@@ -123,15 +130,7 @@ func BenchmarkMapConditionedAttributeChange(b *testing.B) {
 	v.state.Cond.AGCWindowMS = 200
 	p.request()
 	v.jobs.wait()
-	ids := []string{"instantaneous-frequency", "envelope"}
-	i := 0
-	cpu := segytest.ProcessCPU()
-	for b.Loop() {
-		p.attrPick.SetSelected(lookup(ids[i%len(ids)]).Name)
-		v.jobs.wait()
-		i++
-	}
-	reportCPU(b, cpu)
+	alternateMapAttribute(b, v, p)
 	if p.strips == nil {
 		b.Fatal("no whole-trace strips")
 	}
